@@ -1,0 +1,62 @@
+package power
+
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/internal/argerr"
+	"gonum.org/v1/gonum/mathext"
+)
+
+// Defaults used when an options field is left at its zero value.
+const (
+	// DefaultAlpha is the significance level used when Alpha is 0.
+	DefaultAlpha = 0.05
+	// DefaultPower is the target power used when Power is 0.
+	DefaultPower = 0.80
+)
+
+// orDefault returns v, or def when v is 0.
+func orDefault(v, def float64) float64 {
+	if v == 0 {
+		return def
+	}
+	return v
+}
+
+// checkLevel checks that v (a significance level, power, confidence or
+// target probability) lies strictly inside (0, 1).
+func checkLevel(fn, arg string, v float64) error {
+	return argerr.OpenProb(fn, arg, v)
+}
+
+// zq returns the standard normal quantile Phi^{-1}(p) for 0 < p < 1
+// (gonum's mathext.NormalQuantile, Wichura's AS 241, about 1e-16 relative).
+func zq(p float64) float64 { return mathext.NormalQuantile(p) }
+
+// phi returns the standard normal CDF Phi(x), accurate in the lower tail
+// (erfc keeps full relative accuracy for x << 0).
+func phi(x float64) float64 { return 0.5 * math.Erfc(-x/math.Sqrt2) }
+
+// zAlpha returns the critical normal quantile for level alpha under the
+// alternative: z_{1-alpha/2} for two-sided tests, z_{1-alpha} otherwise.
+func zAlpha(alpha float64, alt Alternative) float64 {
+	if alt == TwoSided {
+		return -zq(alpha / 2)
+	}
+	return -zq(alpha)
+}
+
+// ceilN rounds a real sample size up to an integer, treating values within
+// 1e-9 relative of an integer as that integer (so 299.0000000001 computed
+// from an exact 299 does not become 300), and never below 1.
+func ceilN(x float64) int64 {
+	r := math.Round(x)
+	if math.Abs(x-r) <= 1e-9*math.Max(1, r) {
+		x = r
+	}
+	n := int64(math.Ceil(x))
+	if n < 1 {
+		n = 1
+	}
+	return n
+}
