@@ -1,0 +1,110 @@
+package binom
+
+import (
+	"math"
+	"math/big"
+)
+
+// Mean returns E[X] = n K / N (0 when N = 0), NaN for an invalid Hyper.
+func (h Hyper) Mean() float64 {
+	if !h.valid() {
+		return math.NaN()
+	}
+	if h.Total == 0 {
+		return 0
+	}
+	return ratFloat(mulInts(h.Draws, h.Successes), mulInts(h.Total))
+}
+
+// Variance returns
+//
+//	Var X = n (K/N) ((N-K)/N) ((N-n)/(N-1)),
+//
+// computed in exact integer arithmetic and rounded once (0 when N <= 1).
+// NaN for an invalid Hyper.
+func (h Hyper) Variance() float64 {
+	if !h.valid() {
+		return math.NaN()
+	}
+	N, K, n := h.Total, h.Successes, h.Draws
+	if N <= 1 {
+		return 0
+	}
+	return ratFloat(mulInts(n, K, N-K, N-n), mulInts(N, N, N-1))
+}
+
+// StdDev returns sqrt(Variance()).
+func (h Hyper) StdDev() float64 { return math.Sqrt(h.Variance()) }
+
+// Skewness returns the skewness E[(X-mu)^3] / sigma^3,
+//
+//	(N-2K) (N-2n) sqrt(N-1) / ((N-2) sqrt(n K (N-K) (N-n))),
+//
+// from its square in exact integer arithmetic (two roundings). It is 0 when
+// N = 2K or N = 2n (a symmetric distribution). When the support is a single
+// point (variance 0) the skewness is 0/0, mathematically undefined, and
+// Skewness returns NaN; that is the only NaN for a valid Hyper.
+func (h Hyper) Skewness() float64 {
+	if !h.valid() {
+		return math.NaN()
+	}
+	N, K, n := h.Total, h.Successes, h.Draws
+	if lo, hi := h.Support(); lo == hi {
+		return math.NaN()
+	}
+	if N == 2*K || N == 2*n {
+		return 0
+	}
+	a, b := N-2*K, N-2*n
+	s := math.Sqrt(ratFloat(mulInts(a, a, b, b, N-1), mulInts(N-2, N-2, n, K, N-K, N-n)))
+	if (a < 0) != (b < 0) {
+		s = -s
+	}
+	return s
+}
+
+// ExKurtosis returns the excess kurtosis E[(X-mu)^4] / sigma^4 - 3,
+//
+//	[(N-1) N^2 (N(N+1) - 6K(N-K) - 6n(N-n)) + 6 n K (N-K) (N-n) (5N-6)]
+//	  / [n K (N-K) (N-n) (N-2) (N-3)],
+//
+// in exact integer arithmetic, rounded once. For N = 2 and 3 (where the
+// formula is 0/0) the distribution is a two-point one and the value is -2
+// and -3/2. A single-point support gives NaN (0/0, undefined), the only
+// NaN for a valid Hyper.
+func (h Hyper) ExKurtosis() float64 {
+	if !h.valid() {
+		return math.NaN()
+	}
+	N, K, n := h.Total, h.Successes, h.Draws
+	if lo, hi := h.Support(); lo == hi {
+		return math.NaN()
+	}
+	switch N {
+	case 2:
+		return -2
+	case 3:
+		return -1.5
+	}
+	inner := new(big.Int).Sub(mulInts(N, N+1), mulInts(6, K, N-K))
+	inner.Sub(inner, mulInts(6, n, N-n))
+	num := inner.Mul(inner, mulInts(N-1, N, N))
+	num.Add(num, mulInts(6, n, K, N-K, N-n, 5*N-6))
+	return ratFloat(num, mulInts(n, K, N-K, N-n, N-2, N-3))
+}
+
+// mulInts returns the exact product of its arguments.
+func mulInts(xs ...int64) *big.Int {
+	p := big.NewInt(1)
+	var t big.Int
+	for _, x := range xs {
+		p.Mul(p, t.SetInt64(x))
+	}
+	return p
+}
+
+// ratFloat returns num/den rounded to the nearest float64.
+func ratFloat(num, den *big.Int) float64 {
+	f, _ := new(big.Rat).SetFrac(num, den).Float64()
+	return f
+}

@@ -1,0 +1,235 @@
+package binom
+
+import (
+	"bufio"
+	"errors"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+)
+
+func TestNewHyperRejects(t *testing.T) {
+	t.Parallel()
+	tests := []struct {
+		N, K, n int64
+		want    string
+		is      error
+	}{
+		{-1, 0, 0, "binom.NewHyper: total = -1 is negative; counts are 0 or more", ErrInvalidArgument},
+		{10, -2, 3, "binom.NewHyper: successes = -2 is negative; counts are 0 or more", ErrInvalidArgument},
+		{10, 11, 3, "binom.NewHyper: successes = 11 exceeds total = 10", ErrInvalidArgument},
+		{10, 3, -1, "binom.NewHyper: draws = -1 is negative; counts are 0 or more", ErrInvalidArgument},
+		{10, 3, 12, "binom.NewHyper: draws = 12 exceeds total = 10", ErrInvalidArgument},
+		{MaxN + 1, 3, 12, "binom.NewHyper: total = 9007199254740993 exceeds 2^53, the largest count held exactly in float64", ErrTooLarge},
+	}
+	for _, tc := range tests {
+		_, err := NewHyper(tc.N, tc.K, tc.n)
+		var e *Error
+		if err == nil || err.Error() != tc.want || !errors.Is(err, tc.is) || !errors.As(err, &e) {
+			t.Errorf("NewHyper(%d, %d, %d) error = %v, want %q", tc.N, tc.K, tc.n, err, tc.want)
+		}
+	}
+}
+
+// TestHyperTeaTasting pins Fisher's tea-tasting design: Fisher RA (1935),
+// The Design of Experiments, as analysed in Agresti A (2002), Categorical
+// Data Analysis, 2nd ed., section 3.5 (recalled, recomputed; values in
+// shared REFERENCES.md): table [[3,1],[1,3]], one-sided P = 17/70,
+// P(4 correct) = 1/70.
+func TestHyperTeaTasting(t *testing.T) {
+	t.Parallel()
+	h, err := NewHyper(8, 4, 4)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := []float64{h.Survival(2), h.Prob(4), h.Prob(3), h.CDF(3), h.ProbRange(1, 3)}
+	want := []float64{17.0 / 70, 1.0 / 70, 16.0 / 70, 69.0 / 70, 68.0 / 70}
+	if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-14, 0)); diff != "" {
+		t.Errorf("tea tasting (-want +got):\n%s", diff)
+	}
+}
+
+type hyperRow struct {
+	N, K, n, x     int64
+	lp, lcdf, lsur float64
+}
+
+func readHyperGolden(t *testing.T) []hyperRow {
+	t.Helper()
+	f, err := os.Open("../testdata/hyper_golden.tsv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	var rows []hyperRow
+	sc := bufio.NewScanner(f)
+	for sc.Scan() {
+		line := sc.Text()
+		if strings.HasPrefix(line, "#") || line == "" {
+			continue
+		}
+		fs := strings.Split(line, "\t")
+		if len(fs) != 7 {
+			t.Fatalf("bad golden line %q", line)
+		}
+		var r hyperRow
+		ints := []*int64{&r.N, &r.K, &r.n, &r.x}
+		for i, p := range ints {
+			if *p, err = strconv.ParseInt(fs[i], 10, 64); err != nil {
+				t.Fatal(err)
+			}
+		}
+		fl := []*float64{&r.lp, &r.lcdf, &r.lsur}
+		for i, p := range fl {
+			if *p, err = strconv.ParseFloat(fs[4+i], 64); err != nil {
+				t.Fatal(err)
+			}
+		}
+		rows = append(rows, r)
+	}
+	if err := sc.Err(); err != nil {
+		t.Fatal(err)
+	}
+	return rows
+}
+
+// logClose reports whether got is within tol of want relative to
+// max(1, |want|), the log-space bar of the package.
+func logClose(want, got, tol float64) bool {
+	if math.IsInf(want, 0) || math.IsInf(got, 0) {
+		return want == got
+	}
+	return math.Abs(got-want) <= tol*math.Max(1, math.Abs(want))
+}
+
+// probClose reports whether exp(got) matches exp(want) to relative
+// tol*max(1, |want|) where exp(want) >= 1e-300 (exactly 0 below the
+// smallest subnormal), the linear-space bar.
+func probClose(lwant, got, tol float64) bool {
+	w := math.Exp(lwant)
+	if lwant < -690 {
+		return w == 0 || got <= 1e-290
+	}
+	return math.Abs(got-w) <= tol*math.Max(1, math.Abs(lwant))*w
+}
+
+// TestHyperGolden checks against testdata/hyper_golden.tsv (mpmath 1.2.1,
+// exact rational sums for N <= 400 and 50-digit sums beyond; generator
+// testdata/gen/hyper_golden.py).
+func TestHyperGolden(t *testing.T) {
+	t.Parallel()
+	const tol = 1e-13
+	rows := readHyperGolden(t)
+	if len(rows) < 2000 {
+		t.Fatalf("only %d golden rows", len(rows))
+	}
+	bad := 0
+	for _, r := range rows {
+		h, err := NewHyper(r.N, r.K, r.n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		checks := []struct {
+			name      string
+			want, got float64
+			lin       float64
+		}{
+			{"LogProb", r.lp, h.LogProb(r.x), h.Prob(r.x)},
+			{"LogCDF", r.lcdf, h.LogCDF(r.x), h.CDF(r.x)},
+			{"LogSurvival", r.lsur, h.LogSurvival(r.x), h.Survival(r.x)},
+		}
+		for _, c := range checks {
+			if !logClose(c.want, c.got, tol) || !probClose(c.want, c.lin, tol) {
+				if bad++; bad <= 20 {
+					t.Errorf("Hyper%v.%s(%d) = %.17g (lin %.17g), want %.17g (rel err %.2g)",
+						h, c.name, r.x, c.got, c.lin, c.want, (c.got-c.want)/math.Max(1, math.Abs(c.want)))
+				}
+			}
+		}
+	}
+	if bad > 0 {
+		t.Errorf("%d of %d golden checks failed", bad, 3*len(rows))
+	}
+}
+
+// TestHyperProperties checks, over a grid of populations (common practice
+// property checks of DESIGN.md section 4): CDF + Survival = 1 with each
+// side computed directly, ProbRange against the tail difference, moments
+// against sums of the PMF, and that the quantiles invert the tails.
+func TestHyperProperties(t *testing.T) {
+	t.Parallel()
+	params := [][3]int64{{8, 4, 4}, {30, 19, 15}, {1000, 300, 200}, {100000, 5000, 40000}, {1000000, 500000, 500000}, {1e12, 3e11, 1e6}}
+	for _, p := range params {
+		h, err := NewHyper(p[0], p[1], p[2])
+		if err != nil {
+			t.Fatal(err)
+		}
+		lo, hi := h.Support()
+		sd := h.StdDev()
+		step := max(1, int64(sd/8))
+		from, to := max(lo, int64(h.Mean()-12*sd)), min(hi, int64(h.Mean()+12*sd))
+		for k := from; k <= to; k += step {
+			c, s := h.CDF(k), h.Survival(k)
+			if math.Abs(c+s-1) > 4e-16 {
+				t.Errorf("%v: CDF(%d) + Survival = %.17g", h, k, c+s)
+			}
+			// Quantile(CDF(k)) is k, or below it where the CDF is flat
+			// in floating point (values within an ulp of 1).
+			if q := h.Quantile(c); q > k || h.CDF(q) != c || (q > lo && h.CDF(q-1) >= c) {
+				t.Errorf("%v: Quantile(CDF(%d) = %g) = %d", h, k, c, q)
+			}
+			if q := h.UpperQuantile(s); q > k || h.Survival(q) != s || (q > lo && h.Survival(q-1) <= s) {
+				t.Errorf("%v: UpperQuantile(Survival(%d) = %g) = %d", h, k, s, q)
+			}
+			if q := h.LogQuantile(h.LogCDF(k)); q != k {
+				t.Errorf("%v: LogQuantile(LogCDF(%d)) = %d", h, k, q)
+			}
+			if q := h.LogUpperQuantile(h.LogSurvival(k)); q != k && k < hi {
+				t.Errorf("%v: LogUpperQuantile(LogSurvival(%d)) = %d", h, k, q)
+			}
+			a, b := k, k+3*step
+			want := math.Exp(logDiff(h.LogCDF(b), h.LogCDF(a-1)))
+			if s := math.Exp(logDiff(h.LogSurvival(a-1), h.LogSurvival(b))); s < want {
+				want = s // the difference of the smaller pair of tails
+			}
+			if got := h.ProbRange(a, b); math.Abs(got-want) > 1e-12*want {
+				t.Errorf("%v: ProbRange(%d, %d) = %.17g, want %.17g", h, a, b, got, want)
+			}
+		}
+	}
+}
+
+// TestHyperMoments compares the closed-form moments with direct sums of
+// the PMF (the sums are the definition; the formulas are textbook, e.g.
+// Johnson NL, Kemp AW, Kotz S (2005), Univariate Discrete Distributions,
+// 3rd ed., section 6.3, recalled, recomputed here).
+func TestHyperMoments(t *testing.T) {
+	t.Parallel()
+	for _, p := range [][3]int64{{2, 1, 1}, {3, 1, 2}, {3, 2, 2}, {4, 2, 2}, {8, 4, 4}, {30, 19, 15}, {50, 7, 40}, {200, 150, 31}} {
+		h, _ := NewHyper(p[0], p[1], p[2])
+		lo, hi := h.Support()
+		var m [5]float64
+		for x := lo; x <= hi; x++ {
+			m[1] += float64(x) * h.Prob(x)
+		}
+		for x := lo; x <= hi; x++ {
+			d := float64(x) - m[1]
+			m[2] += d * d * h.Prob(x)
+			m[3] += d * d * d * h.Prob(x)
+			m[4] += d * d * d * d * h.Prob(x)
+		}
+		want := []float64{m[1], m[2], m[3] / math.Pow(m[2], 1.5), m[4]/(m[2]*m[2]) - 3}
+		got := []float64{h.Mean(), h.Variance(), h.Skewness(), h.ExKurtosis()}
+		if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-12, 1e-12)); diff != "" {
+			t.Errorf("%v moments (-want +got):\n%s", h, diff)
+		}
+	}
+	if h := (Hyper{10, 0, 5}); !math.IsNaN(h.Skewness()) || !math.IsNaN(h.ExKurtosis()) || h.Variance() != 0 {
+		t.Errorf("point mass: skewness %g, kurtosis %g, variance %g", h.Skewness(), h.ExKurtosis(), h.Variance())
+	}
+}
