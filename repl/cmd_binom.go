@@ -1,0 +1,318 @@
+package repl
+
+import (
+	"math"
+	"strings"
+
+	"github.com/kofnlab/kofn/binom"
+)
+
+func init() { register(spreadCmd, tailCmd, cutCmd) }
+
+var optN = Opt{Name: "n", Doc: "number of trials"}
+var optP = Opt{Name: "p", Doc: "success probability per trial, in [0, 1] (0.3 or 30%)"}
+
+const sourcesBinom = "Loader C (2000), Fast and accurate computation of binomial probabilities; " +
+	"the incomplete beta representation of the tails, e.g. Abramowitz M, Stegun IA (1964), Handbook of Mathematical Functions, 26.5.24."
+
+var spreadCmd = &Command{
+	Name:    "spread",
+	Group:   "distribution",
+	Summary: "the sampling distribution of k (and k/n) in n trials, with a plot",
+	Usage:   "spread n=N p=P [k=LO..HI] [level=L]",
+	Options: []Opt{optN, optP, {Name: "k", Doc: "range of k to plot, like 0..20 (default: where the probability is)"}, optLevel},
+	Help: Help{
+		Computes: "The binomial distribution of the number of successes k in n independent trials with " +
+			"success probability p: mean, standard deviation, mode, skewness, the central range of k holding " +
+			"at least the level of probability, and a plot of P(X = k). The same numbers divided by n describe " +
+			"the sample proportion k/n.",
+		Assumptions: "Independent trials with one common success probability.",
+		Examples:    []string{"spread n=40 p=0.3", "spread n=1000 p=0.02 level=99%", "spread n=20 p=0.5 k=0..20"},
+		Sources:     sourcesBinom,
+	},
+	Run: runSpread,
+}
+
+// distArgs reads n= and p= and builds the distribution.
+func distArgs(a *Args) (binom.Dist, error) {
+	if err := a.Need("n", "p"); err != nil {
+		return binom.Dist{}, err
+	}
+	n, err := a.Count("n", 0)
+	if err != nil {
+		return binom.Dist{}, err
+	}
+	p, err := a.Prob("p", 0)
+	if err != nil {
+		return binom.Dist{}, err
+	}
+	return binom.New(n, p)
+}
+
+type massBin struct {
+	From int64   `json:"from"`
+	To   int64   `json:"to"`
+	Prob float64 `json:"prob"`
+}
+
+type spreadResult struct {
+	N              int64     `json:"n"`
+	P              float64   `json:"p"`
+	Mean           float64   `json:"mean"`
+	StdDev         float64   `json:"std_dev"`
+	Mode           int64     `json:"mode"`
+	Skewness       float64   `json:"skewness"`
+	ExcessKurtosis float64   `json:"excess_kurtosis"`
+	Level          float64   `json:"level"`
+	CentralFrom    int64     `json:"central_from"`
+	CentralTo      int64     `json:"central_to"`
+	CentralProb    float64   `json:"central_prob"`
+	Mass           []massBin `json:"mass"`
+}
+
+func runSpread(c *Call) error {
+	a := c.Args
+	if err := a.Want(0, 0); err != nil {
+		return err
+	}
+	d, err := distArgs(a)
+	if err != nil {
+		return err
+	}
+	level, err := c.Level()
+	if err != nil {
+		return err
+	}
+	alpha := (1 - level) / 2
+	lo, hi := d.Quantile(alpha), d.UpperQuantile(alpha)
+	r := spreadResult{N: d.N, P: d.P, Mean: d.Mean(), StdDev: d.StdDev(), Mode: d.Mode(),
+		Skewness: d.Skewness(), ExcessKurtosis: d.ExKurtosis(), Level: level,
+		CentralFrom: lo, CentralTo: hi, CentralProb: d.ProbRange(lo, hi)}
+	// Plot range: where all but 1e-4 of the probability lies, unless given.
+	plo, phi := d.Quantile(5e-5), d.UpperQuantile(5e-5)
+	if a.Has("k") {
+		if plo, phi, err = a.Range("k", 0); err != nil {
+			return err
+		}
+		if phi > d.N {
+			return inputErr("k="+a.Str("k", ""), "reaches beyond n = "+count(d.N))
+		}
+	}
+	cols := c.S.plotColumns(7)
+	width := (phi - plo + int64(cols)) / int64(cols) // k values per column
+	if width < 1 {
+		width = 1
+	}
+	var xs, ys []float64
+	for k := plo; k <= phi; k += width {
+		to := min(k+width-1, phi)
+		pr := d.ProbRange(k, to)
+		r.Mass = append(r.Mass, massBin{k, to, pr})
+		xs = append(xs, float64(k))
+		ys = append(ys, pr)
+	}
+	c.Data(r)
+	s := c.S
+	nf := float64(d.N)
+	b := c.Block("binomial distribution of k successes in n = " + count(d.N) + " trials, p = " + in(d.P))
+	b.Row("mean", s.num(r.Mean), "k/n: "+s.num(r.Mean/nf))
+	b.Row("std deviation", s.num(r.StdDev), "k/n: "+s.num(r.StdDev/nf))
+	b.Row("most likely k", count(r.Mode))
+	b.Row("skewness", s.num(r.Skewness))
+	b.Row("excess kurtosis", s.num(r.ExcessKurtosis))
+	b.Row("central "+pct(level), count(lo)+" to "+count(hi),
+		"k/n: "+s.num(float64(lo)/nf)+" to "+s.num(float64(hi)/nf)+"; holds "+s.num(r.CentralProb))
+	if d.N == 0 {
+		b.Warn("n = 0: no trials, k is always 0")
+	}
+	top := 0.0
+	for _, y := range ys {
+		top = math.Max(top, y)
+	}
+	if top > 0 {
+		label := "k"
+		if width > 1 {
+			label = "k (" + count(width) + " values per column)"
+		}
+		ch := chart{xs: xs, series: []series{{"P(X = k)", ys}}, yLo: 0, yHi: top, ref: math.NaN(),
+			height: 8, ascii: s.Set.ASCII, digits: 2, xLabel: label}
+		c.Plot("P(X = k)\n" + ch.render())
+	}
+	return nil
+}
+
+var tailCmd = &Command{
+	Name:    "tail",
+	Group:   "distribution",
+	Summary: "point and tail probabilities of k successes in n trials",
+	Usage:   "tail K/N p=P   or   tail LO..HI/N p=P",
+	Options: []Opt{optP},
+	Help: Help{
+		Computes: "For K/N: P(X = K), P(X <= K), P(X >= K), P(X < K) and P(X > K) for X binomial with n = N " +
+			"and success probability p. For LO..HI/N: P(LO <= X <= HI). Each tail is computed directly in log " +
+			"space, never as 1 minus the other, so tiny tails keep their digits; values below 1e-300 print as a " +
+			"power of ten.",
+		Assumptions: "Independent trials with one common success probability.",
+		Examples:    []string{"tail 17/40 p=0.3", "tail 0/299 p=1%", "tail 10..20/40 p=0.3", "tail 900/1000 p=0.5"},
+		Sources:     sourcesBinom,
+	},
+	Run: runTail,
+}
+
+type tailResult struct {
+	N          int64   `json:"n"`
+	P          float64 `json:"p"`
+	K          int64   `json:"k"`
+	Equal      float64 `json:"p_equal"`
+	AtMost     float64 `json:"p_at_most"`
+	AtLeast    float64 `json:"p_at_least"`
+	Below      float64 `json:"p_below"`
+	Above      float64 `json:"p_above"`
+	LogEqual   float64 `json:"log_p_equal"`
+	LogAtMost  float64 `json:"log_p_at_most"`
+	LogAtLeast float64 `json:"log_p_at_least"`
+}
+
+type rangeResult struct {
+	N       int64   `json:"n"`
+	P       float64 `json:"p"`
+	From    int64   `json:"from"`
+	To      int64   `json:"to"`
+	Prob    float64 `json:"prob"`
+	LogProb float64 `json:"log_prob"`
+}
+
+// le and ge return the comparison signs for the session's character set.
+func (s *Session) le() string {
+	if s.Set.ASCII {
+		return "<="
+	}
+	return "≤"
+}
+
+func (s *Session) ge() string {
+	if s.Set.ASCII {
+		return ">="
+	}
+	return "≥"
+}
+
+func runTail(c *Call) error {
+	a := c.Args
+	if err := a.Want(1, 1); err != nil {
+		return err
+	}
+	if err := a.Need("p"); err != nil {
+		return err
+	}
+	p, err := a.Prob("p", 0)
+	if err != nil {
+		return err
+	}
+	tok := a.Pos(0)
+	s := c.S
+	if ks, ns, ok := strings.Cut(tok, "/"); ok && strings.Contains(ks, "..") {
+		lo, hi, err := parseRange(ks)
+		if err != nil {
+			return inputErr(tok, reasonOf(err))
+		}
+		if ns == "" {
+			return inputErr(tok, "lacks the number of trials after /")
+		}
+		n, err := parseCount(ns)
+		if err != nil {
+			return inputErr(tok, "has trials "+ns+", which "+reasonOf(err))
+		}
+		if hi > n {
+			return inputErr(tok, "has a range beyond the trials ("+count(hi)+" > "+count(n)+")")
+		}
+		d, err := binom.New(n, p)
+		if err != nil {
+			return err
+		}
+		lp := d.LogProbRange(lo, hi)
+		c.Data(rangeResult{n, p, lo, hi, math.Exp(lp), lp})
+		b := c.Block("binomial, n = " + count(n) + " trials, p = " + in(p))
+		b.Row("P("+count(lo)+" "+s.le()+" X "+s.le()+" "+count(hi)+")", s.logNum(lp))
+		return nil
+	}
+	k, n, err := parseKN(tok)
+	if err != nil {
+		return err
+	}
+	d, err := binom.New(n, p)
+	if err != nil {
+		return err
+	}
+	r := tailResult{N: n, P: p, K: k,
+		LogEqual: d.LogProb(k), LogAtMost: d.LogCDF(k), LogAtLeast: d.LogSurvival(k - 1)}
+	r.Equal, r.AtMost, r.AtLeast = math.Exp(r.LogEqual), math.Exp(r.LogAtMost), math.Exp(r.LogAtLeast)
+	r.Below, r.Above = d.CDF(k-1), d.Survival(k)
+	c.Data(r)
+	ks := count(k)
+	b := c.Block("binomial, n = " + count(n) + " trials, p = " + in(p) + "; k = " + ks + " (k/n = " + s.num(float64(k)/float64(n)) + ")")
+	if n == 0 {
+		b.Title = "binomial, n = 0 trials, p = " + s.num(p) + "; k = 0"
+	}
+	b.Row("P(X = "+ks+")", s.logNum(r.LogEqual))
+	b.Row("P(X "+s.le()+" "+ks+")", s.logNum(r.LogAtMost), "lower tail")
+	b.Row("P(X "+s.ge()+" "+ks+")", s.logNum(r.LogAtLeast), "upper tail")
+	b.Row("P(X < "+ks+")", s.logNum(d.LogCDF(k-1)))
+	b.Row("P(X > "+ks+")", s.logNum(d.LogSurvival(k)))
+	return nil
+}
+
+var cutCmd = &Command{
+	Name:    "cut",
+	Group:   "distribution",
+	Summary: "cut-off counts: the k that a tail probability q falls at",
+	Usage:   "cut n=N p=P q=Q",
+	Options: []Opt{optN, optP, {Name: "q", Doc: "tail probability, in [0, 1]"}},
+	Help: Help{
+		Computes: "The lower cut-off: the smallest k with P(X <= k) >= q; and the upper cut-off: the smallest k " +
+			"with P(X > k) <= q. With the actual tail probabilities at those counts, which differ from q because " +
+			"k is discrete. A quality engineer's question: with 200 parts at a 2% defect rate, above how many " +
+			"defects is a lot unusual at the 1% level?",
+		Assumptions: "Independent trials with one common success probability.",
+		Examples:    []string{"cut n=200 p=0.02 q=0.01", "cut n=40 p=0.3 q=5%"},
+		Sources:     sourcesBinom,
+	},
+	Run: runCut,
+}
+
+type cutResult struct {
+	N          int64   `json:"n"`
+	P          float64 `json:"p"`
+	Q          float64 `json:"q"`
+	Lower      int64   `json:"lower_cut"`
+	LowerTail  float64 `json:"p_at_most_lower_cut"`
+	Upper      int64   `json:"upper_cut"`
+	UpperTail  float64 `json:"p_above_upper_cut"`
+	LowerFound bool    `json:"lower_found"`
+}
+
+func runCut(c *Call) error {
+	a := c.Args
+	if err := a.Want(0, 0); err != nil {
+		return err
+	}
+	d, err := distArgs(a)
+	if err != nil {
+		return err
+	}
+	if err := a.Need("q"); err != nil {
+		return err
+	}
+	q, err := a.Prob("q", 0)
+	if err != nil {
+		return err
+	}
+	lo, hi := d.Quantile(q), d.UpperQuantile(q)
+	r := cutResult{N: d.N, P: d.P, Q: q, Lower: lo, LowerTail: d.CDF(lo), Upper: hi, UpperTail: d.Survival(hi), LowerFound: lo >= 0}
+	c.Data(r)
+	s := c.S
+	b := c.Block("binomial cut-offs, n = " + count(d.N) + " trials, p = " + in(d.P) + ", q = " + in(q))
+	b.Row("lower cut-off", count(lo), "smallest k with P(X "+s.le()+" k) "+s.ge()+" "+in(q)+"; actual "+s.num(r.LowerTail))
+	b.Row("upper cut-off", count(hi), "smallest k with P(X > k) "+s.le()+" "+in(q)+"; actual "+s.num(r.UpperTail))
+	return nil
+}

@@ -1,0 +1,74 @@
+package repl
+
+import (
+	"strings"
+)
+
+// completer completes command names, option names and option values
+// (methods and fixed choices) for readline.
+type completer struct{}
+
+// Do implements readline.AutoCompleter: it returns the suffixes that
+// extend the word before the cursor, and that word's length.
+func (completer) Do(line []rune, pos int) ([][]rune, int) {
+	cands, word := completions(string(line[:pos]))
+	var out [][]rune
+	for _, c := range cands {
+		if strings.HasPrefix(c, word) {
+			out = append(out, []rune(c[len(word):]))
+		}
+	}
+	return out, len([]rune(word))
+}
+
+// completions returns the candidates for the last word of head and that
+// word.
+func completions(head string) ([]string, string) {
+	words := strings.Fields(head)
+	if len(words) == 0 || !strings.HasSuffix(head, " ") && len(words) == 1 {
+		word := ""
+		if len(words) == 1 {
+			word = words[0]
+		}
+		var cands []string
+		for _, n := range commandNames() {
+			cands = append(cands, n+" ")
+		}
+		return cands, strings.ToLower(word)
+	}
+	cmd := registry[strings.ToLower(words[0])]
+	if cmd == nil {
+		return nil, ""
+	}
+	word := ""
+	if !strings.HasSuffix(head, " ") {
+		word = words[len(words)-1]
+	}
+	if cmd == helpCmd {
+		var cands []string
+		for _, n := range commandNames() {
+			cands = append(cands, n)
+		}
+		return cands, word
+	}
+	if name, val, ok := strings.Cut(word, "="); ok {
+		o := cmd.option(strings.ToLower(name))
+		if o == nil {
+			return nil, ""
+		}
+		vals := o.Values
+		if o.Name == "method" && len(cmd.Methods) > 0 {
+			vals = cmd.Methods
+		}
+		var cands []string
+		for _, v := range vals {
+			cands = append(cands, v+" ")
+		}
+		return cands, val
+	}
+	var cands []string
+	for _, o := range cmd.Options {
+		cands = append(cands, o.Name+"=")
+	}
+	return cands, word
+}

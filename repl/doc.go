@@ -1,0 +1,38 @@
+// Package repl is the kofn shell: a small line-oriented language for
+// binomial inference, its parser, command table, output blocks, terminal
+// plots, help pages, interactive loop, script mode and CSV batch runner.
+//
+// The shell is a thin layer. Every number it prints comes from the kofn
+// packages (binom, interval, test, power); the shell only parses, checks
+// input, dispatches and formats.
+//
+// # Grammar
+//
+// One command per line: a verb, then positional arguments, then options
+// written name=value, separated by blanks. A # starts a comment. Counts are
+// written k/n ("17/40": 17 successes in 40 trials). Numbers are plain
+// decimals (0.3, 1e-6, 2.5); probabilities and levels may also be written
+// as percentages (95%). The shell rejects nan, inf, hexadecimal floats and
+// digit separators (1_000, 1,000) and names the offending token.
+//
+//	spread n=40 p=0.3
+//	bounds 17/40 level=90%
+//	help bounds
+//
+// Session settings (confidence level, digits, default methods, JSON output,
+// plot style and width) are changed with "set name=value" and shown with
+// "set" alone; they last for the session.
+//
+// # Modes
+//
+// On a terminal the shell reads lines with github.com/chzyer/readline,
+// with history in the user's state directory (mode 0600, can be turned
+// off) and completion of commands, methods and option names. Ctrl-C stops
+// a running computation and returns to the prompt; Ctrl-D leaves. When
+// standard input is not a terminal, lines are read as a script (no prompt,
+// no history) and the exit status is non-zero if any line failed.
+//
+// Results steer decisions. For clinical studies and safety-critical
+// acceptance, consult a qualified statistician, the applicable regulations
+// and standards, and local practice.
+package repl

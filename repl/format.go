@@ -1,0 +1,133 @@
+package repl
+
+import (
+	"io"
+	"math"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+)
+
+// Block is one compact output block: a title line, aligned label/value
+// rows, and warnings.
+type Block struct {
+	Title    string
+	rows     [][3]string
+	warnings []string
+}
+
+// Row adds a labelled value with an optional note printed after it.
+func (b *Block) Row(label, value string, note ...string) *Block {
+	b.rows = append(b.rows, [3]string{label, value, strings.Join(note, " ")})
+	return b
+}
+
+// Warn adds warnings, printed after the rows.
+func (b *Block) Warn(ws ...string) *Block {
+	b.warnings = append(b.warnings, ws...)
+	return b
+}
+
+// render writes the block: the title, then rows indented by two spaces
+// with labels and values padded to common widths.
+func (b *Block) render(w io.Writer) {
+	var sb strings.Builder
+	if b.Title != "" {
+		sb.WriteString(b.Title)
+		sb.WriteByte('\n')
+	}
+	lw, vw := 0, 0
+	for _, r := range b.rows {
+		lw = max(lw, utf8.RuneCountInString(r[0]))
+		if r[2] != "" {
+			vw = max(vw, utf8.RuneCountInString(r[1]))
+		}
+	}
+	for _, r := range b.rows {
+		sb.WriteString("  ")
+		sb.WriteString(pad(r[0], lw))
+		sb.WriteString("  ")
+		if r[2] == "" {
+			sb.WriteString(r[1])
+		} else {
+			sb.WriteString(pad(r[1], vw))
+			sb.WriteString("  ")
+			sb.WriteString(r[2])
+		}
+		sb.WriteByte('\n')
+	}
+	for _, wn := range b.warnings {
+		sb.WriteString("  warning: ")
+		sb.WriteString(wn)
+		sb.WriteByte('\n')
+	}
+	io.WriteString(w, sb.String())
+}
+
+// pad right-pads s with blanks to width runes.
+func pad(s string, width int) string {
+	if n := utf8.RuneCountInString(s); n < width {
+		return s + strings.Repeat(" ", width-n)
+	}
+	return s
+}
+
+// num formats x with the session's significant digits: fixed notation
+// between 1e-4 and 1e15, scientific outside; trailing zeros are kept so
+// that bounds line up. Non-finite values print as +Inf, -Inf and NaN.
+func (s *Session) num(x float64) string { return formatNum(x, s.Set.Digits) }
+
+func formatNum(x float64, digits int) string {
+	switch {
+	case math.IsNaN(x):
+		return "NaN"
+	case math.IsInf(x, 1):
+		return "+Inf"
+	case math.IsInf(x, -1):
+		return "-Inf"
+	case x == 0:
+		return "0"
+	}
+	e := int(math.Floor(math.Log10(math.Abs(x))))
+	if e >= -4 && e < 15 {
+		dec := max(0, digits-1-e)
+		out := strconv.FormatFloat(x, 'f', dec, 64)
+		// rounding may carry into a new digit (0.99996 -> 1.0000): drop one.
+		if dec > 0 && strings.TrimLeft(out, "-0.") != "" && len(strings.TrimLeft(strings.ReplaceAll(out, ".", ""), "-0")) > digits {
+			out = strconv.FormatFloat(x, 'f', dec-1, 64)
+		}
+		return out
+	}
+	out := strconv.FormatFloat(x, 'e', digits-1, 64)
+	mant, exp, _ := strings.Cut(out, "e")
+	ev, _ := strconv.Atoi(exp)
+	return mant + "e" + strconv.Itoa(ev)
+}
+
+// logNum formats a probability given by its natural log: as a number while
+// it is representable (above 1e-300), else as a power of ten, so a tail of
+// e^-12345 reads "10^-5361.3".
+func (s *Session) logNum(lp float64) string {
+	if math.IsInf(lp, -1) {
+		return "0"
+	}
+	if lp > -690 {
+		return s.num(math.Exp(lp))
+	}
+	return "10^" + strconv.FormatFloat(lp/math.Ln10, 'f', 1, 64)
+}
+
+// pct formats a level as a percentage: 0.95 -> "95%".
+func pct(x float64) string {
+	return strconv.FormatFloat(100*x, 'g', 10, 64) + "%"
+}
+
+// count formats a whole number.
+func count(n int64) string { return strconv.FormatInt(n, 10) }
+
+// kn formats a count pair.
+func kn(k, n int64) string { return count(k) + "/" + count(n) }
+
+// in formats an input value the way a user would write it (shortest
+// round-trip form).
+func in(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }

@@ -1,0 +1,167 @@
+package repl
+
+import (
+	"bufio"
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"github.com/kofnlab/kofn/internal/jsonfloat"
+)
+
+// Settings are the session-wide defaults that commands read.
+type Settings struct {
+	Level   float64           // confidence level for intervals and tests (default 0.95)
+	Digits  int               // significant digits printed (default 4)
+	JSON    bool              // print one JSON object per command instead of text blocks
+	ASCII   bool              // draw plots with plain ASCII instead of Unicode blocks
+	Width   int               // plot width in columns (default: the terminal's, else 72)
+	Methods map[string]string // default method per command name
+}
+
+// DefaultSettings returns the settings a new session starts with.
+func DefaultSettings() Settings {
+	return Settings{Level: 0.95, Digits: 4, Width: 72, Methods: map[string]string{}}
+}
+
+// Session runs command lines against one set of settings, writing results
+// to Out and error lines to Err. A Session is not safe for concurrent use.
+type Session struct {
+	Out io.Writer // results
+	Err io.Writer // one line per failed command
+	In  io.Reader // data for "each -" (standard input by default)
+	Set Settings
+
+	script bool // prefix errors with the line number
+	lineNo int
+}
+
+// NewSession returns a session with default settings writing to out and errw.
+func NewSession(out, errw io.Writer) *Session {
+	prepareSettings()
+	return &Session{Out: out, Err: errw, In: os.Stdin, Set: DefaultSettings()}
+}
+
+// Run executes one command line and prints its result, or one error line.
+// Blank lines and comments do nothing. It returns the command's error (nil
+// on success); the session stays usable whatever happened.
+func (s *Session) Run(ctx context.Context, line string) error {
+	s.lineNo++
+	words := splitLine(line)
+	if len(words) == 0 {
+		return nil
+	}
+	c, err := s.exec(ctx, line, words)
+	if err != nil {
+		if errors.Is(err, errQuit) {
+			return err
+		}
+		s.report(words[0], err)
+		return err
+	}
+	s.print(words[0], c)
+	return nil
+}
+
+// exec parses and runs one command, returning the finished call.
+func (s *Session) exec(ctx context.Context, line string, words []string) (*Call, error) {
+	verb := strings.ToLower(words[0])
+	cmd, ok := registry[verb]
+	if !ok {
+		return nil, inputErr(words[0], "is not a command"+unknownHint(verb, commandNames()))
+	}
+	args, err := parseArgs(cmd, words[1:])
+	if err != nil {
+		return nil, err
+	}
+	c := &Call{Ctx: ctx, S: s, Args: args, Line: strings.TrimSpace(line)}
+	if err := cmd.Run(c); err != nil {
+		return nil, err
+	}
+	if err := args.Check(); err != nil {
+		return nil, err
+	}
+	return c, nil
+}
+
+// report prints one error line for a failed command.
+func (s *Session) report(verb string, err error) {
+	msg := strings.ReplaceAll(err.Error(), "\n", " ")
+	if errors.Is(err, context.Canceled) {
+		msg = "stopped (interrupted); nothing was lost, the session continues"
+	}
+	if s.Set.JSON {
+		b, _ := jsonfloat.Marshal(struct {
+			Command string `json:"command"`
+			Error   string `json:"error"`
+		}{verb, msg})
+		fmt.Fprintf(s.Out, "%s\n", b)
+	}
+	prefix := "error: "
+	if s.script {
+		prefix = fmt.Sprintf("line %d: error: ", s.lineNo)
+	}
+	fmt.Fprintf(s.Err, "%s%s\n", prefix, msg)
+}
+
+// print writes the call's output as text blocks and plots, or as one JSON
+// object {"command": verb, "input": line, "result": data}.
+func (s *Session) print(verb string, c *Call) {
+	if s.Set.JSON {
+		if c.data == nil {
+			return
+		}
+		b, err := jsonfloat.Marshal(struct {
+			Command string `json:"command"`
+			Input   string `json:"input"`
+			Result  any    `json:"result"`
+		}{strings.ToLower(verb), c.Line, c.data})
+		if err != nil {
+			fmt.Fprintf(s.Err, "error: cannot encode the result as JSON: %v\n", err)
+			return
+		}
+		fmt.Fprintf(s.Out, "%s\n", b)
+		return
+	}
+	for i, p := range c.parts {
+		if i > 0 {
+			io.WriteString(s.Out, "\n")
+		}
+		if p.block != nil {
+			p.block.render(s.Out)
+		} else {
+			io.WriteString(s.Out, p.plot)
+		}
+	}
+}
+
+// RunLines runs every line of r as a command, without prompts, and
+// returns the number of lines that failed. With numbered set, errors name
+// the line number (script mode). It stops early at "quit" or when ctx is
+// cancelled (which counts as a failure).
+func (s *Session) RunLines(ctx context.Context, r io.Reader, numbered bool) (failed int) {
+	s.script = numbered
+	s.lineNo = 0
+	defer func() { s.script = false }()
+	sc := bufio.NewScanner(r)
+	sc.Buffer(make([]byte, 64*1024), 1<<20)
+	for sc.Scan() {
+		if ctx.Err() != nil {
+			return failed + 1
+		}
+		if err := s.Run(ctx, sc.Text()); err != nil {
+			if errors.Is(err, errQuit) {
+				return failed
+			}
+			failed++
+		}
+	}
+	if err := sc.Err(); err != nil {
+		fmt.Fprintf(s.Err, "error: reading commands: %v\n", err)
+		failed++
+	}
+	return failed
+}
