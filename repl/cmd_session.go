@@ -176,4 +176,3 @@ func plotStyle(ascii bool) string {
 	}
 	return "blocks"
 }
-
