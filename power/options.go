@@ -15,32 +15,45 @@ type OneSampleOptions struct {
 	Power float64
 	// Alternative is the direction of the test; the zero value is TwoSided.
 	Alternative Alternative
-	// TwoSided selects how the exact test forms a two-sided p-value; see
-	// TwoSidedMethod. Ignored by the normal approximations.
-	TwoSided TwoSidedMethod
+	// Method selects how the exact test forms a two-sided p-value; see
+	// TwoSidedMethod. Ignored by one-sided tests and the normal
+	// approximations.
+	Method TwoSidedMethod
+	// Mid selects the mid-p variant of the exact test (not guaranteed to
+	// keep the size at or below Alpha; the attained size is reported).
+	Mid bool
 	// MaxN bounds exact sample size searches and power curves; 0 means
 	// DefaultMaxN, and values above MaxSearchN give ErrTooLarge.
 	MaxN int64
+}
+
+// DefaultMaxN is the search limit of the exact one-sample and paired
+// searches when MaxN is 0.
+const DefaultMaxN int64 = 100_000
+
+// MaxSearchN is the largest MaxN the exact one-sample and paired functions
+// accept; a curve that long takes seconds.
+const MaxSearchN int64 = 10_000_000
+
+// maxN applies the default and the limit to a search bound.
+func maxN(fn string, v, def, limit int64) (int64, error) {
+	if v == 0 {
+		return def, nil
+	}
+	if v < 1 {
+		return 0, argerr.Invalid(fn, "MaxN", v, "must be at least 1 (0 means the default)")
+	}
+	if v > limit {
+		return 0, argerr.TooLarge(fn, "MaxN", v, "exceeds the limit "+argerr.Format(limit))
+	}
+	return v, nil
 }
 
 // levels validates the options and the proportions of a one-sample
 // calculation that needs an effect, returning alpha and power with defaults
 // applied.
 func (o OneSampleOptions) levels(fn string, p0, p1 float64) (alpha, pw float64, err error) {
-	if err = argerr.OpenProb(fn, "p0", p0); err != nil {
-		return
-	}
-	if err = argerr.Prob(fn, "p1", p1); err != nil {
-		return
-	}
-	if err = checkAlternative(fn, o.Alternative); err != nil {
-		return
-	}
-	alpha, pw = orDefault(o.Alpha, DefaultAlpha), orDefault(o.Power, DefaultPower)
-	if err = checkLevel(fn, "Alpha", alpha); err != nil {
-		return
-	}
-	if err = checkLevel(fn, "Power", pw); err != nil {
+	if alpha, pw, err = o.base(fn, p0, p1); err != nil {
 		return
 	}
 	if p1 == p0 {
@@ -54,6 +67,31 @@ func (o OneSampleOptions) levels(fn string, p0, p1 float64) (alpha, pw float64, 
 	}
 	if pw <= alpha {
 		err = argerr.Invalid(fn, "Power", pw, "does not exceed Alpha = "+argerr.Format(alpha)+"; a test reaches that without data")
+	}
+	return
+}
+
+// base validates the options and proportions without requiring an effect.
+func (o OneSampleOptions) base(fn string, p0, p1 float64) (alpha, pw float64, err error) {
+	if err = argerr.OpenProb(fn, "p0", p0); err != nil {
+		return
+	}
+	if err = argerr.Prob(fn, "p1", p1); err != nil {
+		return
+	}
+	if err = checkAlternative(fn, o.Alternative); err != nil {
+		return
+	}
+	if o.Method < PointProbability || o.Method > Blaker {
+		err = argerr.Invalid(fn, "Method", int(o.Method), "is not a defined TwoSidedMethod")
+		return
+	}
+	alpha, pw = orDefault(o.Alpha, DefaultAlpha), orDefault(o.Power, DefaultPower)
+	if err = checkLevel(fn, "Alpha", alpha); err != nil {
+		return
+	}
+	if err = checkLevel(fn, "Power", pw); err != nil {
+		return
 	}
 	return
 }

@@ -1,0 +1,51 @@
+package power
+
+import (
+	"context"
+	"testing"
+)
+
+// Goal (issue 5): the whole exact one-sample power curve for n = 1..2000
+// in under 2 ms one-sided and 10 ms two-sided.
+func BenchmarkOneSampleCurve2000OneSided(b *testing.B) {
+	o := OneSampleOptions{Alternative: Greater}
+	for b.Loop() {
+		if _, err := OneSampleCurve(context.Background(), 0.3, 0.35, 2000, o); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkOneSampleCurve2000TwoSided(b *testing.B) {
+	for b.Loop() {
+		if _, err := OneSampleCurve(context.Background(), 0.3, 0.35, 2000, OneSampleOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkOneSampleCurve2000Central(b *testing.B) {
+	o := OneSampleOptions{Method: Central}
+	for b.Loop() {
+		if _, err := OneSampleCurve(context.Background(), 0.3, 0.35, 2000, o); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// Goal (issue 5): a plan design search under 10 ms.
+func BenchmarkDesignPlan(b *testing.B) {
+	for b.Loop() {
+		if _, err := DesignPlan(context.Background(), 0.01, 0.06, DesignOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkDesignPlanClose(b *testing.B) {
+	for b.Loop() {
+		if _, err := DesignPlan(context.Background(), 0.01, 0.015, DesignOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

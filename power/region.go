@@ -1,0 +1,127 @@
+package power
+
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/internal/onesample"
+)
+
+// region tracks the acceptance region [lo, hi] of a one-sample exact test
+// (onesample's rule: k is accepted when its p-value is at least alpha) as
+// n grows by one, so that a whole power curve costs a few p-values per n
+// instead of a search per n.
+//
+// One-sided tests move their single boundary by 0 or 1 per step, provably:
+// for the upper test X_{n+1} = X_n + B gives P_{n+1}(X >= k) >=
+// P_n(X >= k) >= P_{n+1}(X >= k+1), and the same holds for the mid-p
+// averages and mirrored for the lower test; so one p-value decides the
+// step. Two-sided boundaries are found by a short walk from the previous
+// ones, each certified by the p-values on both sides of it (the region is
+// an interval); a walk longer than walkLimit, or an empty region, falls
+// back to onesample.Acceptance.
+type region struct {
+	t      onesample.Test
+	alpha  float64
+	la     float64
+	n      int64
+	lo, hi int64
+}
+
+const walkLimit = 6
+
+func newRegion(t onesample.Test, alpha float64) *region {
+	return &region{t: t, alpha: alpha, la: math.Log(alpha), n: -1}
+}
+
+// ok reports whether k is accepted at n trials.
+func (r *region) ok(k, n int64) bool {
+	lp, err := onesample.LogPValue(k, n, r.t)
+	return err == nil && lp >= r.la
+}
+
+// full sets the region at n by onesample.Acceptance.
+func (r *region) full(n int64) {
+	lo, hi, err := onesample.Acceptance(n, r.alpha, r.t)
+	if err != nil { // unreachable after validation; reject nothing
+		lo, hi = 0, n
+	}
+	r.n, r.lo, r.hi = n, lo, hi
+}
+
+// at moves the region to n trials (n >= 0) and returns it.
+func (r *region) at(n int64) (lo, hi int64) {
+	if r.n < 0 || n != r.n+1 || r.lo > r.hi {
+		r.full(n)
+		return r.lo, r.hi
+	}
+	r.n = n
+	switch r.t.Alternative {
+	case onesample.Greater:
+		r.lo = 0
+		if r.hi+1 <= n && r.ok(r.hi+1, n) {
+			r.hi++
+		}
+	case onesample.Less:
+		r.hi = n
+		if !r.ok(r.lo, n) {
+			r.lo++
+		}
+	default:
+		lo, okLo := r.walkLo(n)
+		hi, okHi := r.walkHi(n)
+		if !okLo || !okHi || lo > hi {
+			r.full(n)
+		} else {
+			r.lo, r.hi = lo, hi
+		}
+	}
+	return r.lo, r.hi
+}
+
+// walkLo finds the smallest accepted k near the previous lower boundary.
+func (r *region) walkLo(n int64) (int64, bool) {
+	c := min(r.lo, n)
+	if r.ok(c, n) {
+		for i := 0; c > 0; i++ {
+			if i == walkLimit {
+				return 0, false
+			}
+			if !r.ok(c-1, n) {
+				return c, true
+			}
+			c--
+		}
+		return 0, true
+	}
+	for i := 0; i < walkLimit && c < n; i++ {
+		c++
+		if r.ok(c, n) {
+			return c, true
+		}
+	}
+	return 0, false
+}
+
+// walkHi finds the largest accepted k near the previous upper boundary.
+func (r *region) walkHi(n int64) (int64, bool) {
+	c := min(r.hi, n)
+	if r.ok(c, n) {
+		for i := 0; c < n; i++ {
+			if i == walkLimit {
+				return 0, false
+			}
+			if !r.ok(c+1, n) {
+				return c, true
+			}
+			c++
+		}
+		return n, true
+	}
+	for i := 0; i < walkLimit && c > 0; i++ {
+		c--
+		if r.ok(c, n) {
+			return c, true
+		}
+	}
+	return 0, false
+}
