@@ -46,7 +46,7 @@ func Acceptance(n int64, alpha float64, t Test) (lo, hi int64, err error) {
 	if t.Method == PointProbability {
 		m = d.Mode()
 	} else {
-		m = blakerOrder(d).peak
+		m = blakerOrder(d, 0, n).peak
 	}
 	if m > 0 && t.logP(d, m-1) > t.logP(d, m) {
 		m--

@@ -134,23 +134,43 @@ func LogAcceptability(k, n int64, p0 float64, mid bool) (float64, error) {
 
 // logP is LogPValue without the argument checks.
 func (t Test) logP(d binom.Dist, k int64) float64 {
-	switch t.Alternative {
+	return LogPValueOf(d, 0, d.N, k, t.Method, t.Mid, t.Alternative)
+}
+
+// Discrete is a distribution on the integers lo..hi whose PMF increases up
+// to Mode() and decreases after it, with log-space tails; binom.Dist and
+// binom.Hyper are Discrete.
+type Discrete interface {
+	LogProb(k int64) float64     // ln P(X = k)
+	LogCDF(k int64) float64      // ln P(X <= k)
+	LogSurvival(k int64) float64 // ln P(X > k)
+	Mode() int64                 // a most probable value
+}
+
+// LogPValueOf returns the log p-value of the observed value x of d, whose
+// support is lo..hi, under the definition (m, mid, alt) of the package
+// comment: the one-sided tails for Less and Greater, the point-probability,
+// central or Blaker two-sided p-value otherwise. Fisher's exact test is
+// this applied to the hypergeometric distribution. It does not validate
+// its arguments: x must lie in lo..hi.
+func LogPValueOf(d Discrete, lo, hi, x int64, m Method, mid bool, alt Alternative) float64 {
+	switch alt {
 	case Less:
-		return lowerTail(d, k, t.Mid)
+		return lowerTail(d, x, mid)
 	case Greater:
-		return upperTail(d, k, t.Mid)
+		return upperTail(d, x, mid)
 	}
-	switch t.Method {
+	switch m {
 	case Central:
-		return math.Min(0, math.Ln2+math.Min(lowerTail(d, k, t.Mid), upperTail(d, k, t.Mid)))
+		return math.Min(0, math.Ln2+math.Min(lowerTail(d, x, mid), upperTail(d, x, mid)))
 	case Blaker:
-		return orderedP(d, k, blakerOrder(d), t.Mid)
+		return orderedP(d, lo, hi, x, blakerOrder(d, lo, hi), mid)
 	}
-	return orderedP(d, k, pointOrder(d), t.Mid)
+	return orderedP(d, lo, hi, x, pointOrder(d), mid)
 }
 
 // lowerTail returns ln P(X <= k), or with mid ln(P(X < k) + P(X = k)/2).
-func lowerTail(d binom.Dist, k int64, mid bool) float64 {
+func lowerTail(d Discrete, k int64, mid bool) float64 {
 	if !mid {
 		return d.LogCDF(k)
 	}
@@ -158,16 +178,16 @@ func lowerTail(d binom.Dist, k int64, mid bool) float64 {
 }
 
 // upperTail returns ln P(X >= k), or with mid ln(P(X > k) + P(X = k)/2).
-func upperTail(d binom.Dist, k int64, mid bool) float64 {
+func upperTail(d Discrete, k int64, mid bool) float64 {
 	if !mid {
 		return d.LogSurvival(k - 1)
 	}
 	return LogAddExp(d.LogSurvival(k), d.LogProb(k)-math.Ln2)
 }
 
-// order is an ordering of the outcomes 0..N by a log-scale value e (smaller
-// is more extreme) that increases on [0, peak-1] and decreases on
-// [peak, N].
+// order is an ordering of the outcomes lo..hi by a log-scale value e
+// (smaller is more extreme) that increases on [lo, peak-1] and decreases on
+// [peak, hi].
 type order struct {
 	e    func(int64) float64
 	peak int64
@@ -175,15 +195,15 @@ type order struct {
 
 // pointOrder orders outcomes by their probability: the PMF increases up to
 // the mode and decreases after it.
-func pointOrder(d binom.Dist) order {
+func pointOrder(d Discrete) order {
 	return order{e: d.LogProb, peak: d.Mode()}
 }
 
 // blakerOrder orders outcomes by their smaller tail t(j) = min(P(X <= j),
 // P(X >= j)). The lower tail rules below peak, the smallest j with
 // P(X <= j) >= P(X >= j); from peak on t(j) = P(X >= j), decreasing.
-func blakerOrder(d binom.Dist) order {
-	peak := root.SmallestInt(func(j int64) bool { return d.LogCDF(j) >= d.LogSurvival(j-1) }, 0, d.N)
+func blakerOrder(d Discrete, lo, hi int64) order {
+	peak := root.SmallestInt(func(j int64) bool { return d.LogCDF(j) >= d.LogSurvival(j-1) }, lo, hi)
 	e := func(j int64) float64 { return math.Min(d.LogCDF(j), d.LogSurvival(j-1)) }
 	return order{e: e, peak: peak}
 }
@@ -191,15 +211,15 @@ func blakerOrder(d binom.Dist) order {
 // above returns [a, b], the set of outcomes j with o.e(j) > thr (a > b when
 // it is empty). On k's side of the peak it searches only between k and the
 // peak or between k and the end, whichever holds the boundary.
-func (o order) above(n, k int64, thr float64) (a, b int64) {
+func (o order) above(lo, hi, k int64, thr float64) (a, b int64) {
 	gt := func(j int64) bool { return o.e(j) > thr }
 	le := func(j int64) bool { return o.e(j) <= thr }
 	kin := gt(k)
 	switch {
 	case k >= o.peak:
-		a = root.SmallestInt(gt, 0, o.peak-1)
+		a = root.SmallestInt(gt, lo, o.peak-1)
 	case kin:
-		a = root.SmallestInt(gt, 0, k)
+		a = root.SmallestInt(gt, lo, k)
 	case k+1 < o.peak && gt(k+1):
 		a = k + 1
 	default:
@@ -207,9 +227,9 @@ func (o order) above(n, k int64, thr float64) (a, b int64) {
 	}
 	switch {
 	case k < o.peak:
-		b = root.SmallestInt(le, o.peak, n) - 1
+		b = root.SmallestInt(le, o.peak, hi) - 1
 	case kin:
-		b = root.SmallestInt(le, k, n) - 1
+		b = root.SmallestInt(le, k, hi) - 1
 	case k-1 >= o.peak && gt(k-1):
 		b = k - 1
 	default:
@@ -220,13 +240,13 @@ func (o order) above(n, k int64, thr float64) (a, b int64) {
 
 // orderedP returns ln P(e(X) <= e(k)) within the tolerance, or its mid-p
 // variant ln(P(e(X) < e(k)) + P(e(X) = e(k))/2).
-func orderedP(d binom.Dist, k int64, o order, mid bool) float64 {
+func orderedP(d Discrete, lo, hi, k int64, o order, mid bool) float64 {
 	ek := o.e(k)
-	a1, b1 := o.above(d.N, k, ek+logRel)
+	a1, b1 := o.above(lo, hi, k, ek+logRel)
 	if !mid {
 		return outside(d, a1, b1)
 	}
-	a0, b0 := o.above(d.N, k, ek-logRel)
+	a0, b0 := o.above(lo, hi, k, ek-logRel)
 	if a0 > b0 { // cannot happen: k itself is above ek - logRel
 		a0, b0 = k, k
 	}
@@ -241,7 +261,7 @@ func orderedP(d binom.Dist, k int64, o order, mid bool) float64 {
 }
 
 // outside returns ln P(X < a or X > b); 0 when a > b (every outcome).
-func outside(d binom.Dist, a, b int64) float64 {
+func outside(d Discrete, a, b int64) float64 {
 	if a > b {
 		return 0
 	}
@@ -249,12 +269,12 @@ func outside(d binom.Dist, a, b int64) float64 {
 }
 
 // logRange returns ln P(lo <= X <= hi), summing the PMF for short ranges.
-func logRange(d binom.Dist, lo, hi int64) float64 {
+func logRange(d Discrete, lo, hi int64) float64 {
 	if lo > hi {
 		return math.Inf(-1)
 	}
-	if hi-lo > 32 {
-		return d.LogProbRange(lo, hi)
+	if r, ok := d.(interface{ LogProbRange(lo, hi int64) float64 }); ok && hi-lo > 32 {
+		return r.LogProbRange(lo, hi)
 	}
 	s := math.Inf(-1)
 	for j := lo; j <= hi; j++ {
