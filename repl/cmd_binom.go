@@ -98,19 +98,8 @@ func runSpread(c *Call) error {
 			return inputErr("k="+a.Str("k", ""), "reaches beyond n = "+count(d.N))
 		}
 	}
-	cols := c.S.plotColumns(7)
-	width := (phi - plo + int64(cols)) / int64(cols) // k values per column
-	if width < 1 {
-		width = 1
-	}
-	var xs, ys []float64
-	for k := plo; k <= phi; k += width {
-		to := min(k+width-1, phi)
-		pr := d.ProbRange(k, to)
-		r.Mass = append(r.Mass, massBin{k, to, pr})
-		xs = append(xs, float64(k))
-		ys = append(ys, pr)
-	}
+	var plot string
+	r.Mass, plot = massPlot(c.S, plo, phi, d.ProbRange)
 	c.Data(r)
 	s := c.S
 	nf := float64(d.N)
@@ -125,19 +114,7 @@ func runSpread(c *Call) error {
 	if d.N == 0 {
 		b.Warn("n = 0: no trials, k is always 0")
 	}
-	top := 0.0
-	for _, y := range ys {
-		top = math.Max(top, y)
-	}
-	if top > 0 {
-		label := "k"
-		if width > 1 {
-			label = "k (" + count(width) + " values per column)"
-		}
-		ch := chart{xs: xs, series: []series{{"P(X = k)", ys}}, yLo: 0, yHi: top, ref: math.NaN(),
-			height: 8, ascii: s.Set.ASCII, digits: 2, xLabel: label}
-		c.Plot("P(X = k)\n" + ch.render())
-	}
+	c.Plot(plot)
 	return nil
 }
 
@@ -315,4 +292,33 @@ func runCut(c *Call) error {
 	b.Row("lower cut-off", count(lo), "smallest k with P(X "+s.le()+" k) "+s.ge()+" "+in(q)+"; actual "+s.num(r.LowerTail))
 	b.Row("upper cut-off", count(hi), "smallest k with P(X > k) "+s.le()+" "+in(q)+"; actual "+s.num(r.UpperTail))
 	return nil
+}
+
+// massPlot bins the probabilities of k = lo..hi into at most as many
+// columns as the session width allows (each column summing its values with
+// probRange) and returns the bins and the rendered plot.
+func massPlot(s *Session, lo, hi int64, probRange func(a, b int64) float64) ([]massBin, string) {
+	cols := int64(s.plotColumns(7))
+	width := max((hi-lo+cols)/cols, 1) // k values per column
+	var bins []massBin
+	var xs, ys []float64
+	top := 0.0
+	for k := lo; k <= hi; k += width {
+		to := min(k+width-1, hi)
+		pr := probRange(k, to)
+		bins = append(bins, massBin{k, to, pr})
+		xs = append(xs, float64(k))
+		ys = append(ys, pr)
+		top = math.Max(top, pr)
+	}
+	if top == 0 {
+		return bins, ""
+	}
+	label := "k"
+	if width > 1 {
+		label = "k (" + count(width) + " values per column)"
+	}
+	ch := chart{xs: xs, series: []series{{"P(X = k)", ys}}, yLo: 0, yHi: top, ref: math.NaN(),
+		height: 8, ascii: s.Set.ASCII, digits: 2, xLabel: label}
+	return bins, "P(X = k)\n" + ch.render()
 }

@@ -52,7 +52,7 @@ func parseProb(tok string) (float64, error) {
 		return 0, err
 	}
 	if !(v >= 0 && v <= 1) {
-		if !pct && v > 1 && v <= 100 {
+		if !pct && v >= 10 && v <= 100 {
 			return 0, inputErr(tok, "is not a probability in [0, 1]; for a percentage write "+tok+"%")
 		}
 		return 0, inputErr(tok, "is not a probability in [0, 1]")
@@ -68,7 +68,7 @@ func parseOpenProb(tok string) (float64, error) {
 		return 0, err
 	}
 	if !(v > 0 && v < 1) {
-		if !pct && v > 1 && v < 100 {
+		if !pct && v >= 10 && v < 100 {
 			return 0, inputErr(tok, "must lie strictly between 0 and 1; for a percentage write "+tok+"%")
 		}
 		return 0, inputErr(tok, "must lie strictly between 0 and 1 (or 0% and 100%)")
@@ -82,7 +82,7 @@ func parsePercent(tok string) (float64, bool, error) {
 	body, pct := strings.CutSuffix(tok, "%")
 	v, err := parseFloat(body)
 	if err != nil {
-		return 0, false, inputErr(tok, numberProblem(body))
+		return 0, false, inputErr(tok, reasonOf(err))
 	}
 	if pct {
 		v /= 100

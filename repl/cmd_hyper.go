@@ -1,0 +1,111 @@
+package repl
+
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/binom"
+)
+
+func init() { register(urnCmd) }
+
+var urnCmd = &Command{
+	Name:    "urn",
+	Group:   "distribution",
+	Summary: "drawing without replacement: the hypergeometric distribution, with tails at k",
+	Usage:   "urn total=N marked=M draws=D [k=K]",
+	Options: []Opt{
+		{Name: "total", Doc: "items in the population (a lot, a deck, a panel)"},
+		{Name: "marked", Doc: "how many of them are successes (defective, eligible, ...)"},
+		{Name: "draws", Doc: "items drawn without replacement"},
+		{Name: "k", Doc: "a count of marked items in the draw: print its point and tail probabilities"},
+	},
+	Help: Help{
+		Computes: "The hypergeometric distribution of the number of marked items among draws items taken " +
+			"without replacement from total items of which marked are marked: mean, standard deviation, the " +
+			"possible range, the most likely count and a plot; with k=, P(X = k), P(X <= k) and P(X >= k). It " +
+			"is the exact model for inspecting a sample from a finite lot, and the distribution behind " +
+			"Fisher's exact test for a 2x2 table with fixed margins.",
+		Assumptions: "Every subset of draws items is equally likely to be drawn.",
+		Examples:    []string{"urn total=500 marked=25 draws=50", "urn total=500 marked=25 draws=50 k=0"},
+		Sources:     "Johnson NL, Kemp AW, Kotz S (2005), Univariate Discrete Distributions, 3rd ed., chapter 6.",
+	},
+	Run: runUrn,
+}
+
+type urnResult struct {
+	Total       int64     `json:"total"`
+	Marked      int64     `json:"marked"`
+	Draws       int64     `json:"draws"`
+	Mean        float64   `json:"mean"`
+	StdDev      float64   `json:"std_dev"`
+	SupportFrom int64     `json:"support_from"`
+	SupportTo   int64     `json:"support_to"`
+	Mode        int64     `json:"mode"`
+	K           *int64    `json:"k,omitempty"`
+	Equal       *float64  `json:"p_equal,omitempty"`
+	AtMost      *float64  `json:"p_at_most,omitempty"`
+	AtLeast     *float64  `json:"p_at_least,omitempty"`
+	Mass        []massBin `json:"mass"`
+}
+
+func runUrn(c *Call) error {
+	a := c.Args
+	if err := a.Want(0, 0); err != nil {
+		return err
+	}
+	if err := a.Need("total", "marked", "draws"); err != nil {
+		return err
+	}
+	total, err := a.Count("total", 0)
+	if err != nil {
+		return err
+	}
+	marked, err := a.Count("marked", 0)
+	if err != nil {
+		return err
+	}
+	draws, err := a.Count("draws", 0)
+	if err != nil {
+		return err
+	}
+	if marked > total {
+		return inputErr("marked="+a.Str("marked", ""), "exceeds total = "+count(total))
+	}
+	if draws > total {
+		return inputErr("draws="+a.Str("draws", ""), "exceeds total = "+count(total))
+	}
+	h, err := binom.NewHyper(total, marked, draws)
+	if err != nil {
+		return err
+	}
+	lo, hi := h.Support()
+	r := urnResult{Total: total, Marked: marked, Draws: draws, Mean: h.Mean(), StdDev: h.StdDev(),
+		SupportFrom: lo, SupportTo: hi, Mode: h.Mode()}
+	s := c.S
+	b := c.Block("hypergeometric: " + count(draws) + " drawn from " + count(total) + " of which " + count(marked) + " marked")
+	b.Row("mean", s.num(r.Mean))
+	b.Row("std deviation", s.num(r.StdDev))
+	b.Row("possible k", count(lo)+" to "+count(hi))
+	b.Row("most likely k", count(r.Mode))
+	if a.Has("k") {
+		k, err := a.Count("k", 0)
+		if err != nil {
+			return err
+		}
+		eq, le, ge := h.LogProb(k), h.LogCDF(k), h.LogSurvival(k-1)
+		r.K = &k
+		ve, vl, vg := math.Exp(eq), math.Exp(le), math.Exp(ge)
+		r.Equal, r.AtMost, r.AtLeast = &ve, &vl, &vg
+		ks := count(k)
+		b.Row("P(X = "+ks+")", s.logNum(eq))
+		b.Row("P(X "+s.le()+" "+ks+")", s.logNum(le), "lower tail")
+		b.Row("P(X "+s.ge()+" "+ks+")", s.logNum(ge), "upper tail")
+	}
+	// Plot where all but about 1e-4 of the probability lies.
+	plo, phi := max(lo, h.Quantile(5e-5)), min(hi, h.UpperQuantile(5e-5))
+	var plot string
+	r.Mass, plot = massPlot(s, plo, phi, h.ProbRange)
+	c.Data(r)
+	c.Plot(plot)
+	return nil
+}
