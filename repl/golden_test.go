@@ -87,4 +87,3 @@ func firstDiff(want, got string) string {
 	}
 	return ""
 }
-
