@@ -131,3 +131,12 @@ func kn(k, n int64) string { return count(k) + "/" + count(n) }
 // in formats an input value the way a user would write it (shortest
 // round-trip form).
 func in(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+
+// stat formats a test statistic: whole numbers plainly (a count), others
+// with the session's digits.
+func (s *Session) stat(x float64) string {
+	if x == math.Trunc(x) && math.Abs(x) < 1e15 {
+		return strconv.FormatInt(int64(x), 10)
+	}
+	return s.num(x)
+}

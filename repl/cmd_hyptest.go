@@ -1,0 +1,176 @@
+package repl
+
+import (
+	"github.com/kofnlab/kofn/test"
+)
+
+func init() { register(checkCmd, flipsCmd) }
+
+var binomialTestMethods = enumWords(func(m test.BinomialMethod) string { return m.String() })
+var mcnemarMethods = enumWords(func(m test.McNemarMethod) string {
+	s := m.String()
+	if len(s) > 8 && s[:8] == "McNemar " {
+		return s[8:]
+	}
+	return s
+})
+
+const cautionSides = "side=high or side=low is honest only when the direction was fixed before the data were seen."
+
+var optTestSide = Opt{Name: "side", Doc: "two (default): the proportion differs; high: it is higher; low: it is lower", Values: sideWords}
+
+var checkCmd = &Command{
+	Name:    "check",
+	Group:   "tests",
+	Summary: "test one proportion against a stated value p, with the interval that inverts the test",
+	Usage:   "check K/N p=P [method=M] [side=two|high|low] [level=L]",
+	Methods: binomialTestMethods,
+	Options: []Opt{optP, optMethod("test", binomialTestMethods), optTestSide, optLevel},
+	Help: Help{
+		Computes: "The p-value for H0: the success probability equals p, from K successes in N trials, and " +
+			"the confidence interval made of the values of p the same test does not reject. " + cautionSides,
+		Methods: "Exact tests: point-probability (default; two-sided p-value sums the outcomes no more likely " +
+			"than the one observed; inverts to Sterne's interval), central (twice the smaller tail; inverts to " +
+			"Clopper-Pearson), Blaker (Blaker 2000), each also as mid-p. Large-sample tests: score (inverts to " +
+			"Wilson), score-cc (with continuity correction), likelihood-ratio.",
+		Assumptions: "Independent trials with one common success probability; the large-sample tests need " +
+			"n p and n (1-p) of about 5 or more (common practice).",
+		Examples: []string{"check 17/40 p=0.3", "check 3/50 p=0.15 side=low method=central", "check 81/263 p=0.25 method=score"},
+		Sources: "Sterne TE (1954), Biometrika 41:275-278; Clopper CJ, Pearson ES (1934), Biometrika 26:404-413; " +
+			"Blaker H (2000), Canadian Journal of Statistics 28:783-798; Lancaster HO (1961), JASA 56:223-234 (mid-p).",
+	},
+	Run: runCheck,
+}
+
+// testSide reads side= as a test alternative.
+func testSide(a *Args) (test.Alternative, string, error) {
+	w, err := a.Choice("side", "two", sideWords...)
+	if err != nil {
+		return 0, "", err
+	}
+	switch w {
+	case "high":
+		return test.Greater, "one-sided, higher", nil
+	case "low":
+		return test.Less, "one-sided, lower", nil
+	}
+	return test.TwoSided, "two-sided", nil
+}
+
+func runCheck(c *Call) error {
+	a := c.Args
+	if err := a.Want(1, 1); err != nil {
+		return err
+	}
+	k, n, err := a.KN(0, "a count K/N")
+	if err != nil {
+		return err
+	}
+	if err := a.Need("p"); err != nil {
+		return err
+	}
+	p0, err := a.OpenProb("p", 0)
+	if err != nil {
+		return err
+	}
+	m, err := c.Method()
+	if err != nil {
+		return err
+	}
+	alt, sideText, err := testSide(a)
+	if err != nil {
+		return err
+	}
+	level, err := c.Level()
+	if err != nil {
+		return err
+	}
+	r, err := test.Binomial(k, n, p0, test.BinomialOptions{Method: enumValue[test.BinomialMethod](binomialTestMethods, m), Alternative: alt, Level: level})
+	if err != nil {
+		return err
+	}
+	c.Data(r)
+	s := c.S
+	b := c.Block(r.Method + " test of p = " + in(p0) + ", " + sideText)
+	b.Row("observed", kn(k, n), "k/n = "+s.num(r.Estimate))
+	testRows(s, b, r, "proportion")
+	return nil
+}
+
+// testRows writes the common rows of a test result: p-value, statistic,
+// inverted interval, warnings.
+func testRows(s *Session, b *Block, r test.Result, what string) {
+	b.Row("p-value", s.logNum(r.LogPValue))
+	b.Row("statistic", r.StatisticName+" = "+s.stat(r.Statistic))
+	if r.Interval != nil {
+		b.Row(pct(r.Interval.Level)+" interval", s.num(r.Interval.Lower)+" to "+s.num(r.Interval.Upper), what+" values this test does not reject")
+	}
+	b.Warn(r.Warnings...)
+}
+
+var flipsCmd = &Command{
+	Name:    "flips",
+	Group:   "tests",
+	Summary: "paired yes/no data: test whether the two answers differ (McNemar)",
+	Usage:   "flips A B C D [method=M] [side=two|high|low]",
+	Methods: mcnemarMethods,
+	Options: []Opt{optMethod("test", mcnemarMethods), optTestSide},
+	Help: Help{
+		Computes: "For n pairs each scored yes/no twice (before and after, two raters, two tests on one " +
+			"sample), the counts A B C D in reading order: A both yes, B yes then no, C no then yes, D both no. " +
+			"Tests H0: the chance of a yes is the same the first and the second time, which depends only on " +
+			"the pairs that flipped (B and C). side=high claims the first yes-rate is higher. " + cautionSides,
+		Methods: "McNemar mid-p (default: closest to the nominal size in Fagerland et al. 2013), exact " +
+			"(conditional binomial; never exceeds the size), asymptotic (chi-square), asymptotic-cc (with " +
+			"Edwards' continuity correction).",
+		Assumptions: "Pairs are independent of each other; each pair is scored twice on the same scale.",
+		Examples:    []string{"flips 1 1 7 12", "flips 30 12 4 54 method=exact"},
+		Sources: "McNemar Q (1947), Psychometrika 12:153-157; Fagerland MW, Lydersen S, Laake P (2013), BMC " +
+			"Medical Research Methodology 13:91.",
+	},
+	Run: runFlips,
+}
+
+// pairCounts reads the four cell counts A B C D of a paired table.
+func pairCounts(a *Args) ([4]int64, error) {
+	var cells [4]int64
+	if err := a.Want(4, 4); err != nil {
+		return cells, err
+	}
+	for i := range cells {
+		v, err := parseCount(a.Pos(i))
+		if err != nil {
+			return cells, err
+		}
+		cells[i] = v
+	}
+	return cells, nil
+}
+
+func runFlips(c *Call) error {
+	a := c.Args
+	cells, err := pairCounts(a)
+	if err != nil {
+		return err
+	}
+	m, err := c.Method()
+	if err != nil {
+		return err
+	}
+	alt, sideText, err := testSide(a)
+	if err != nil {
+		return err
+	}
+	r, err := test.McNemar(cells[1], cells[2], test.McNemarOptions{Method: enumValue[test.McNemarMethod](mcnemarMethods, m), Alternative: alt})
+	if err != nil {
+		return err
+	}
+	c.Data(r)
+	s := c.S
+	n := cells[0] + cells[1] + cells[2] + cells[3]
+	b := c.Block(r.Method + " test for paired data, " + sideText)
+	b.Row("pairs", count(n), "both yes "+count(cells[0])+", yes-no "+count(cells[1])+", no-yes "+count(cells[2])+", both no "+count(cells[3]))
+	b.Row("flipped", count(cells[1]+cells[2]), "estimate (B - C)/(B + C) = "+s.num(r.Estimate))
+	testRows(s, b, r, "")
+	return nil
+}

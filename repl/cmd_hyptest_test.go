@@ -1,0 +1,67 @@
+package repl
+
+import (
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/test"
+)
+
+func TestCheckAndFlipsValues(t *testing.T) {
+	t.Parallel()
+	tests := []struct {
+		line, path string
+		want, rel  float64
+		src        string
+	}{
+		// Fagerland MW, Lydersen S, Laake P (2013), BMC Med Res Methodol 13:91: pairs 1, 1, 7, 12
+		// (data read; p-values recalled, recomputed): exact 18/256, mid-p 10/256, asymptotic 0.034, cc 0.077.
+		{"flips 1 1 7 12 method=exact", "PValue", 18.0 / 256, 1e-12, "Fagerland 2013"},
+		{"flips 1 1 7 12", "PValue", 10.0 / 256, 1e-12, "Fagerland 2013"},
+		{"flips 1 1 7 12 method=asymptotic", "Statistic", 4.5, 1e-12, "Fagerland 2013"},
+		{"flips 1 1 7 12 method=asymptotic", "PValue", 0.0339, 2e-3, "Fagerland 2013"},
+		{"flips 1 1 7 12 method=asymptotic-cc", "PValue", 0.0771, 2e-3, "Fagerland 2013"},
+		// Newcombe RG (1998), Stat Med 17:857-872, Table II, method 3 (Wilson score, which the score
+		// test inverts), 81/263 (recalled, recomputed): 0.2553 to 0.3662.
+		{"check 81/263 p=0.3 method=score", "Interval.Lower", 0.2553, 2e-4, "Newcombe 1998 single"},
+		{"check 81/263 p=0.3 method=score", "Interval.Upper", 0.3662, 2e-4, "Newcombe 1998 single"},
+		// Same table, method 5 (Clopper-Pearson, which the central test inverts): 0.2527 to 0.3676.
+		{"check 81/263 p=0.3 method=central", "Interval.Lower", 0.2527, 2e-4, "Newcombe 1998 single"},
+		{"check 81/263 p=0.3 method=central", "Interval.Upper", 0.3676, 2e-4, "Newcombe 1998 single"},
+		// NIST/SEMATECH e-Handbook 7.2.4: 4 defectives in 20, 90% (limits recalled, recomputed).
+		{"check 4/20 p=0.2 method=central level=90%", "Interval.Lower", 0.0714, 1e-3, "NIST 7.2.4"},
+		{"check 4/20 p=0.2 method=central level=90%", "Interval.Upper", 0.4010, 1e-3, "NIST 7.2.4"},
+	}
+	for _, tc := range tests {
+		got := num(t, runJSON(t, tc.line), tc.path)
+		if diff := cmp.Diff(tc.want, got, cmpopts.EquateApprox(tc.rel, 0)); diff != "" {
+			t.Errorf("%s %s (%s) (-want +got):\n%s", tc.line, tc.path, tc.src, diff)
+		}
+	}
+}
+
+// TestCheckMatchesPackage checks that the shell passes its options through
+// unchanged: its JSON equals the package's result for the same call.
+func TestCheckMatchesPackage(t *testing.T) {
+	t.Parallel()
+	for i, m := range binomialTestMethods {
+		for _, side := range []struct {
+			word string
+			alt  test.Alternative
+		}{{"two", test.TwoSided}, {"high", test.Greater}, {"low", test.Less}} {
+			line := "check 17/40 p=0.3 method=" + m + " side=" + side.word + " level=0.9"
+			obj := runJSON(t, line)
+			want, err := test.Binomial(17, 40, 0.3, test.BinomialOptions{Method: test.BinomialMethod(i), Alternative: side.alt, Level: 0.9})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := num(t, obj, "PValue"); got != want.PValue {
+				t.Errorf("%s: p-value %v, package %v", line, got, want.PValue)
+			}
+			if got := num(t, obj, "Interval.Upper"); got != want.Interval.Upper {
+				t.Errorf("%s: upper %v, package %v", line, got, want.Interval.Upper)
+			}
+		}
+	}
+}
