@@ -141,17 +141,17 @@ func OneSampleCurve(ctx context.Context, p0, p1 float64, nMax int64, o OneSample
 
 // oneCurve evaluates the power of a one-sample test along n = 1, 2, ...
 type oneCurve struct {
-	reg *region
-	p1  float64
+	reg   *region
+	tails *tailPair
 }
 
 func newCurve(p0, p1, alpha float64, o OneSampleOptions) *oneCurve {
-	return &oneCurve{reg: newRegion(oneTest(p0, o.Alternative, o.Method, o.Mid), alpha), p1: p1}
+	return &oneCurve{reg: newRegion(oneTest(p0, o.Alternative, o.Method, o.Mid), alpha), tails: newTailPair(p1)}
 }
 
 func (c *oneCurve) power(n int64) float64 {
 	lo, hi := c.reg.at(n)
-	return rejectProb(n, c.p1, lo, hi)
+	return c.tails.at(n, lo, hi)
 }
 
 // ExactSize is the result of an exact sample size search.

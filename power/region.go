@@ -66,7 +66,28 @@ func (r *region) at(n int64) (lo, hi int64) {
 		if !r.ok(r.lo, n) {
 			r.lo++
 		}
-	default:
+	case onesample.TwoSided:
+		if r.t.Method == onesample.Central && r.hi-r.lo >= 2 {
+			// Each boundary is a one-sided boundary at alpha/2 (the doubled
+			// smaller tail): the same 0-or-1 step holds while the region
+			// keeps at least three outcomes, so neither boundary's
+			// opposite tail can be the smaller one.
+			if !r.ok(r.lo, n) {
+				r.lo++
+			}
+			if r.hi+1 <= n && r.ok(r.hi+1, n) {
+				r.hi++
+			}
+			break
+		}
+		if r.t.Method == onesample.PointProbability {
+			if lo, hi, ok := r.certify(n); ok {
+				r.lo, r.hi = lo, hi
+				break
+			}
+			r.full(n)
+			break
+		}
 		lo, okLo := r.walkLo(n)
 		hi, okHi := r.walkHi(n)
 		if !okLo || !okHi || lo > hi {
@@ -124,4 +145,75 @@ func (r *region) walkHi(n int64) (int64, bool) {
 		}
 	}
 	return 0, false
+}
+
+// certify moves a two-sided point-probability region to n. Its p-value
+// p(k) = P(f(X) <= f(k)) is a non-decreasing function of the outcome's
+// probability f(k), and f is unimodal, so the region [lo, hi] is exact
+// when the more likely of the two outcomes just outside it is rejected
+// (then so is everything beyond) and the less likely of its two end
+// outcomes is accepted (then so is everything inside): two p-values. A
+// failed check moves the corresponding boundary by one and checks again;
+// decisions are cached within n. Mid-p is handled the same way (its
+// p-value is also monotone in f(k)). It gives up (ok = false) after
+// walkLimit moves.
+func (r *region) certify(n int64) (lo, hi int64, ok bool) {
+	d := binomDist(n, r.t.P0)
+	lo, hi = min(r.lo, n), min(r.hi, n)
+	var cache [8]struct {
+		k  int64
+		ok bool
+	}
+	nc := 0
+	accepted := func(k int64) bool {
+		for i := 0; i < nc; i++ {
+			if cache[i].k == k {
+				return cache[i].ok
+			}
+		}
+		v := r.ok(k, n)
+		if nc < len(cache) {
+			cache[nc].k, cache[nc].ok = k, v
+			nc++
+		}
+		return v
+	}
+	for moves := 0; moves <= walkLimit; moves++ {
+		if lo > hi {
+			return 0, 0, false
+		}
+		// Outside: the more likely of lo-1 and hi+1.
+		out, fo := int64(-1), math.Inf(-1)
+		if lo > 0 {
+			out, fo = lo-1, d.LogProb(lo-1)
+		}
+		if hi < n {
+			if f := d.LogProb(hi + 1); out < 0 || f > fo {
+				out, fo = hi+1, f
+			}
+		}
+		if out >= 0 && accepted(out) {
+			if out < lo {
+				lo--
+			} else {
+				hi++
+			}
+			continue
+		}
+		// Inside: the less likely of lo and hi.
+		in := lo
+		if hi != lo && d.LogProb(hi) < d.LogProb(lo) {
+			in = hi
+		}
+		if !accepted(in) {
+			if in == lo {
+				lo++
+			} else {
+				hi--
+			}
+			continue
+		}
+		return lo, hi, true
+	}
+	return 0, 0, false
 }
