@@ -1,0 +1,44 @@
+package test
+
+import (
+	"context"
+	"math"
+	"testing"
+)
+
+// TestBoschlooStatistic: the ordering statistic of the observed table,
+// computed from lgamma over the whole margin, equals Fisher's p-value
+// computed by Fisher through binom.Hyper; p-values lie in [0, 1]. Values
+// are checked against SciPy in the golden test.
+func TestBoschlooStatistic(t *testing.T) {
+	t.Parallel()
+	for _, c := range [][4]int64{{7, 15, 12, 15}, {3, 4, 1, 4}, {0, 10, 5, 12}, {30, 60, 20, 45}} {
+		for _, alt := range []Alternative{TwoSided, Less, Greater} {
+			for _, m := range []FisherMethod{FisherPointProbability, FisherCentral} {
+				r, err := Boschloo(context.Background(), c[0], c[1], c[2], c[3], UnconditionalOptions{Alternative: alt, Fisher: m})
+				if err != nil {
+					t.Fatal(err)
+				}
+				f, _ := Fisher(c[0], c[1], c[2], c[3], FisherOptions{Alternative: alt, Method: m})
+				if math.Abs(r.Statistic-f.PValue) > 1e-10*f.PValue {
+					t.Errorf("%v %v %v: statistic %v, Fisher p %v", c, alt, m, r.Statistic, f.PValue)
+				}
+				if r.PValue < 0 || r.PValue > 1 {
+					t.Errorf("%v %v: p = %v", c, alt, r.PValue)
+				}
+			}
+		}
+	}
+}
+
+func BenchmarkBoschloo100(b *testing.B) {
+	for b.Loop() {
+		_, _ = Boschloo(context.Background(), 40, 100, 55, 100, UnconditionalOptions{})
+	}
+}
+
+func BenchmarkBoschloo500(b *testing.B) {
+	for b.Loop() {
+		_, _ = Boschloo(context.Background(), 200, 500, 235, 500, UnconditionalOptions{})
+	}
+}

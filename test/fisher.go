@@ -1,0 +1,129 @@
+package test
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/kofnlab/kofn/binom"
+	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/onesample"
+)
+
+// FisherMethod is the two-sided definition of Fisher's exact test.
+//
+// The zero value, FisherPointProbability, is the default: it is Fisher's
+// own definition (tables no more probable than the observed one) and the
+// one most software reports.
+type FisherMethod int
+
+// Two-sided definitions of Fisher's test, on the conditional
+// (hypergeometric) distribution f of x1 given the margins.
+const (
+	// FisherPointProbability: P(f(X1) <= f(x1)), "<=" within the relative
+	// tolerance 1e-7, so tables of equal probability in exact arithmetic
+	// are counted together.
+	FisherPointProbability FisherMethod = iota
+	// FisherCentral: twice the smaller conditional tail, capped at 1.
+	FisherCentral
+)
+
+var fisherNames = [...]string{"Fisher point-probability", "Fisher central"}
+
+// String returns "Fisher point-probability" or "Fisher central".
+func (m FisherMethod) String() string {
+	if m < 0 || int(m) >= len(fisherNames) {
+		return fmt.Sprintf("FisherMethod(%d)", int(m))
+	}
+	return fisherNames[m]
+}
+
+// MarshalText encodes the method by its name.
+func (m FisherMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+
+// ParseFisherMethod returns the method whose String() is s, ignoring case;
+// "point-probability" and "central" are accepted without the prefix.
+func ParseFisherMethod(s string) (FisherMethod, error) {
+	t := strings.TrimSpace(s)
+	for i, name := range fisherNames {
+		if strings.EqualFold(t, name) || strings.EqualFold(t, strings.TrimPrefix(name, "Fisher ")) {
+			return FisherMethod(i), nil
+		}
+	}
+	return 0, argerr.Invalid("test.ParseFisherMethod", "s", s, "is not a Fisher two-sided definition; use point-probability or central")
+}
+
+func (m FisherMethod) onesample() onesample.Method {
+	if m == FisherCentral {
+		return onesample.Central
+	}
+	return onesample.PointProbability
+}
+
+// FisherOptions are the options of Fisher; the zero value is the two-sided
+// point-probability test without mid-p.
+type FisherOptions struct {
+	Method      FisherMethod // two-sided definition
+	MidP        bool         // mid-p: half the probability of the tables exactly as extreme
+	Alternative Alternative  // Less: p1 < p2; Greater: p1 > p2
+}
+
+// Fisher performs Fisher's exact test of H0: p1 = p2 for k1 successes of
+// n1 and k2 of n2, conditional on both margins: given s = k1 + k2, the
+// count X1 is hypergeometric,
+//
+//	P(X1 = x) = C(n1, x) C(n2, s-x) / C(n1+n2, s).
+//
+// One-sided p-values are the tails P(X1 <= k1) (Less) and P(X1 >= k1)
+// (Greater); two-sided as opt.Method says. The mid-p value replaces the
+// probability of the tables exactly as extreme as the observed one by half
+// of it (Lancaster 1961; for one-sided tests P(X1 < k1) + P(X1 = k1)/2).
+//
+// Result: Statistic is k1 ("x1"), Estimate p1 - p2 (NaN with an empty
+// sample), Null 0. No interval is attached.
+//
+// Errors: a count negative or above its sample size, n1 + n2 > 2^53, an
+// unknown method or alternative.
+//
+// Accuracy and cost: the log p-value to about 1e-12 relative to
+// max(1, |ln p|); the tables of equal probability on the other side are
+// located by bisection on the PMF, then two tail evaluations, so the cost
+// is O(log n) plus the tails (microseconds at totals of 1e6).
+//
+// Source: Fisher RA (1935), The Design of Experiments; Agresti A (2002),
+// Categorical Data Analysis, 2nd ed., section 3.5.
+func Fisher(k1, n1, k2, n2 int64, opt FisherOptions) (Result, error) {
+	const fn = "test.Fisher"
+	if err := checkTwo(fn, k1, n1, k2, n2); err != nil {
+		return Result{}, err
+	}
+	if opt.Method < 0 || int(opt.Method) >= len(fisherNames) {
+		return Result{}, argerr.Invalid(fn, "method", int(opt.Method), "is not a Fisher two-sided definition")
+	}
+	if err := checkAlt(fn, opt.Alternative); err != nil {
+		return Result{}, err
+	}
+	name := opt.Method.String()
+	if opt.MidP {
+		name += " mid-p"
+	}
+	r := newResult(name, opt.Alternative, fisherLogP(k1, n1, k2, n2, opt))
+	r.Statistic, r.StatisticName = float64(k1), "x1"
+	r.Estimate = diffEstimate(k1, n1, k2, n2)
+	if opt.MidP {
+		r.Warnings = append(r.Warnings, "mid-p value: not guaranteed to keep the size at or below alpha")
+	}
+	if s := k1 + k2; s == 0 || s == n1+n2 || n1 == 0 || n2 == 0 {
+		r.Warnings = append(r.Warnings, "a margin is 0: only one table is possible and the p-value is 1")
+	}
+	return r, nil
+}
+
+// fisherLogP returns the log p-value of Fisher's test for valid counts.
+func fisherLogP(k1, n1, k2, n2 int64, opt FisherOptions) float64 {
+	h := binom.Hyper{Total: n1 + n2, Successes: n1, Draws: k1 + k2}
+	lo, hi := h.Support()
+	if lo == hi {
+		return 0
+	}
+	return onesample.LogPValueOf(h, lo, hi, k1, opt.Method.onesample(), opt.MidP, onesample.Alternative(opt.Alternative))
+}

@@ -1,0 +1,383 @@
+package test
+
+import (
+	"context"
+	"math"
+
+	"github.com/kofnlab/kofn/internal/argerr"
+)
+
+// MaxUnconditionalTables is the size limit of Barnard and Boschloo: the
+// number of possible tables (n1+1)(n2+1) may not exceed it (about
+// 2000 x 2000), which keeps a test to a few seconds on one core.
+const MaxUnconditionalTables = 4_100_000
+
+// UnconditionalOptions are the options of Barnard and Boschloo. The zero
+// value is the two-sided test with the supremum over the whole range
+// [0, 1] of the nuisance parameter.
+type UnconditionalOptions struct {
+	Alternative Alternative // Less: p1 < p2; Greater: p1 > p2
+	// BergerBoos is the gamma of the Berger-Boos restriction: the
+	// supremum is taken over the (1 - gamma) Clopper-Pearson interval for
+	// the common proportion from the pooled count, and gamma is added to
+	// it (the p-value stays valid). 0 means no restriction; otherwise it
+	// must lie in (0, 0.5); 0.001 is the common choice. Berger RL, Boos DD
+	// (1994), P values maximised over a confidence set for the nuisance
+	// parameter, JASA 89:1012-1016.
+	BergerBoos float64
+	// Fisher is the two-sided definition of Fisher's p-value that orders
+	// the tables in Boschloo's test; Barnard ignores it.
+	Fisher FisherMethod
+}
+
+// region is a rejection region of 2x2 tables (x1 of n1, x2 of n2): for
+// each x1 a prefix [0, pre[x1]] and a suffix [suf[x1], n2] of x2 values,
+// and, only where the ordering breaks Barnard's convexity condition,
+// interior runs. Under an ordering that satisfies the condition every row
+// is a prefix, a suffix or both, so the probability of the region at a
+// nuisance value costs O(n1 + n2) tail sums.
+type region struct {
+	n1, n2   int
+	pre, suf []int
+	inner    [][3]int // {x1, a, b}: x2 in [a, b] strictly inside the row
+	in00     bool     // the table (0, 0) belongs to the region
+	inNN     bool     // the table (n1, n2) belongs to the region
+	lc1, lc2 []float64
+}
+
+// newRegion builds the region {(x1, x2) : in(x1, x2)}, checking ctx once
+// per row.
+func newRegion(ctx context.Context, fn string, n1, n2 int, in func(x1, x2 int) bool) (*region, error) {
+	r := &region{n1: n1, n2: n2, pre: make([]int, n1+1), suf: make([]int, n1+1)}
+	for x1 := 0; x1 <= n1; x1++ {
+		if x1%64 == 0 {
+			if err := argerr.Canceled(fn, ctx); err != nil {
+				return nil, err
+			}
+		}
+		a := 0
+		for a <= n2 && in(x1, a) {
+			a++
+		}
+		r.pre[x1] = a - 1
+		b := n2
+		for b >= a && in(x1, b) {
+			b--
+		}
+		r.suf[x1] = b + 1
+		for x2 := a; x2 <= b; x2++ {
+			if !in(x1, x2) {
+				continue
+			}
+			e := x2
+			for e+1 <= b && in(x1, e+1) {
+				e++
+			}
+			r.inner = append(r.inner, [3]int{x1, x2, e})
+			x2 = e
+		}
+	}
+	r.in00 = in(0, 0)
+	r.inNN = in(n1, n2)
+	r.lc1 = logChooseRow(n1)
+	r.lc2 = logChooseRow(n2)
+	return r, nil
+}
+
+// logChooseRow returns ln C(n, x) for x = 0..n, from lgamma (absolute
+// error about 1e-13 at n = 2000, far below what the p-value needs).
+func logChooseRow(n int) []float64 {
+	c := make([]float64, n+1)
+	ln, _ := math.Lgamma(float64(n + 1))
+	for x := 0; x <= n; x++ {
+		a, _ := math.Lgamma(float64(x + 1))
+		b, _ := math.Lgamma(float64(n - x + 1))
+		c[x] = ln - a - b
+	}
+	return c
+}
+
+// scratch holds the buffers of one evaluation of a region's probability.
+type scratch struct {
+	l1, l2           []float64
+	preM, preS       []float64
+	sufM, sufS, term []float64
+}
+
+func newScratch(n1, n2 int) *scratch {
+	return &scratch{
+		l1: make([]float64, n1+1), l2: make([]float64, n2+1),
+		preM: make([]float64, n2+1), preS: make([]float64, n2+1),
+		sufM: make([]float64, n2+1), sufS: make([]float64, n2+1),
+		term: make([]float64, n1+1),
+	}
+}
+
+// logProb returns ln P(region) when X1 ~ Bin(n1, pi) and X2 ~ Bin(n2, pi)
+// independently. It first sums in linear space, each PMF scaled by its
+// largest term (n1 + n2 exponentials and one logarithm); when the scaled
+// sum falls below 1e-250, where terms that underflowed could matter, it
+// repeats the sum in log space (logProbLog), where nothing underflows.
+func (r *region) logProb(w *scratch, pi float64) float64 {
+	switch {
+	case pi <= 0:
+		return logIf(r.in00)
+	case pi >= 1:
+		return logIf(r.inNN)
+	}
+	lp, lq := math.Log(pi), math.Log1p(-pi)
+	m1, m2 := math.Inf(-1), math.Inf(-1)
+	for x := 0; x <= r.n1; x++ {
+		w.l1[x] = r.lc1[x] + float64(x)*lp + float64(r.n1-x)*lq
+		m1 = math.Max(m1, w.l1[x])
+	}
+	for x := 0; x <= r.n2; x++ {
+		w.l2[x] = r.lc2[x] + float64(x)*lp + float64(r.n2-x)*lq
+		m2 = math.Max(m2, w.l2[x])
+	}
+	// preS[c] = sum of the scaled PMF of X2 over [0, c], sufS[c] over [c, n2].
+	acc := 0.0
+	for x := 0; x <= r.n2; x++ {
+		w.sufM[x] = math.Exp(w.l2[x] - m2) // scaled PMF, kept for the interior runs
+		acc += w.sufM[x]
+		w.preS[x] = acc
+	}
+	acc = 0
+	for x := r.n2; x >= 0; x-- {
+		acc += w.sufM[x]
+		w.sufS[x] = acc
+	}
+	for x1 := 0; x1 <= r.n1; x1++ {
+		t := 0.0
+		if c := r.pre[x1]; c >= 0 {
+			t = w.preS[c]
+		}
+		if c := r.suf[x1]; c <= r.n2 {
+			t += w.sufS[c]
+		}
+		w.term[x1] = t
+	}
+	for _, run := range r.inner {
+		for x2 := run[1]; x2 <= run[2]; x2++ {
+			w.term[run[0]] += w.sufM[x2]
+		}
+	}
+	total := 0.0
+	for x1 := 0; x1 <= r.n1; x1++ {
+		if t := w.term[x1]; t > 0 {
+			total += math.Exp(w.l1[x1]-m1) * t
+		}
+	}
+	if total >= 1e-250 {
+		return math.Min(0, m1+m2+math.Log(total))
+	}
+	return r.logProbLog(w)
+}
+
+// logProbLog is logProb in log space, for w.l1 and w.l2 already filled:
+// for each row the prefix and suffix tails of X2 come from cumulative sums
+// held as (max, scaled sum) pairs, so nothing underflows.
+func (r *region) logProbLog(w *scratch) float64 {
+	// Running sums S = e^m s, one exponential per step.
+	m, s := math.Inf(-1), 0.0
+	for x := 0; x <= r.n2; x++ {
+		m, s = addScaled(m, s, w.l2[x])
+		w.preM[x], w.preS[x] = m, s
+	}
+	m, s = math.Inf(-1), 0.0
+	for x := r.n2; x >= 0; x-- {
+		m, s = addScaled(m, s, w.l2[x])
+		w.sufM[x], w.sufS[x] = m, s
+	}
+	for x1 := 0; x1 <= r.n1; x1++ {
+		t := math.Inf(-1)
+		if c := r.pre[x1]; c >= 0 {
+			t = w.preM[c] + math.Log(w.preS[c])
+		}
+		if c := r.suf[x1]; c <= r.n2 {
+			t = logAddExp(t, w.sufM[c]+math.Log(w.sufS[c]))
+		}
+		w.term[x1] = t
+	}
+	for _, run := range r.inner {
+		t := w.term[run[0]]
+		for x2 := run[1]; x2 <= run[2]; x2++ {
+			t = logAddExp(t, w.l2[x2])
+		}
+		w.term[run[0]] = t
+	}
+	mx := math.Inf(-1)
+	for x1 := range w.term {
+		w.term[x1] += w.l1[x1]
+		mx = math.Max(mx, w.term[x1])
+	}
+	if math.IsInf(mx, -1) {
+		return mx
+	}
+	sum := 0.0
+	for _, t := range w.term {
+		sum += math.Exp(t - mx)
+	}
+	return math.Min(0, mx+math.Log(sum))
+}
+
+// addScaled adds e^l to the sum e^m s.
+func addScaled(m, s, l float64) (float64, float64) {
+	switch {
+	case math.IsInf(l, -1):
+		return m, s
+	case l <= m:
+		return m, s + math.Exp(l-m)
+	}
+	return l, s*math.Exp(m-l) + 1
+}
+
+func logIf(b bool) float64 {
+	if b {
+		return 0
+	}
+	return math.Inf(-1)
+}
+
+// logAddExp returns ln(e^a + e^b).
+func logAddExp(a, b float64) float64 {
+	if a < b {
+		a, b = b, a
+	}
+	if math.IsInf(a, -1) {
+		return a
+	}
+	return a + math.Log1p(math.Exp(b-a))
+}
+
+// supremum returns the largest ln P(region; pi) over pi in [lo, hi] and
+// where it is attained. The function is a polynomial in pi whose peaks have
+// widths of order sqrt(pi (1-pi) / (n1+n2)), so it is first evaluated on a
+// grid equally spaced in arcsin(sqrt(pi)) with about 8 sqrt(n1+n2) points
+// (at least 64), fine enough that no peak falls between grid points; every
+// grid point that is a local maximum within 2% of the best is then refined
+// by golden-section search on its two neighbouring cells, to 1e-7 in pi (so
+// the supremum is located to better than 1e-6).
+func (r *region) supremum(ctx context.Context, fn string, lo, hi float64) (logP, at float64, err error) {
+	w := newScratch(r.n1, r.n2)
+	g := int(math.Max(64, 8*math.Sqrt(float64(r.n1+r.n2))))
+	t0, t1 := math.Asin(math.Sqrt(lo)), math.Asin(math.Sqrt(hi))
+	xs := make([]float64, g+1)
+	vs := make([]float64, g+1)
+	best, bestAt := math.Inf(-1), lo
+	for i := 0; i <= g; i++ {
+		if i%16 == 0 {
+			if err := argerr.Canceled(fn, ctx); err != nil {
+				return 0, 0, err
+			}
+		}
+		s := math.Sin(t0 + (t1-t0)*float64(i)/float64(g))
+		x := s * s
+		switch i {
+		case 0:
+			x = lo
+		case g:
+			x = hi
+		}
+		xs[i], vs[i] = x, r.logProb(w, x)
+		if vs[i] > best {
+			best, bestAt = vs[i], x
+		}
+	}
+	// A peak rises above its best grid point by well under 0.1% at this
+	// grid density (measured: 0.04% at n1 = n2 = 100), so only grid maxima
+	// within 2% of the best can hold the supremum.
+	cut := best - 0.02
+	for i := 0; i <= g; i++ {
+		if vs[i] < cut || (i > 0 && vs[i-1] > vs[i]) || (i < g && vs[i+1] > vs[i]) {
+			continue
+		}
+		if err := argerr.Canceled(fn, ctx); err != nil {
+			return 0, 0, err
+		}
+		a, b := xs[max(i-1, 0)], xs[min(i+1, g)]
+		x, v := goldenMax(func(p float64) float64 { return r.logProb(w, p) }, a, b, 1e-7)
+		if v > best {
+			best, bestAt = v, x
+		}
+	}
+	return best, bestAt, nil
+}
+
+// goldenMax maximizes f on [a, b] by golden-section search until the
+// bracket is narrower than tol, returning the best point seen.
+func goldenMax(f func(float64) float64, a, b, tol float64) (float64, float64) {
+	const invPhi = 0.6180339887498949
+	c := b - invPhi*(b-a)
+	d := a + invPhi*(b-a)
+	fc, fd := f(c), f(d)
+	for b-a > tol {
+		if fc >= fd {
+			b, d, fd = d, c, fc
+			c = b - invPhi*(b-a)
+			fc = f(c)
+		} else {
+			a, c, fc = c, d, fd
+			d = a + invPhi*(b-a)
+			fd = f(d)
+		}
+	}
+	if fc >= fd {
+		return c, fc
+	}
+	return d, fd
+}
+
+// unconditional runs the common part of Barnard and Boschloo: argument
+// checks, the region, the supremum (over the Berger-Boos interval when
+// asked) and the result.
+func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64, opt UnconditionalOptions,
+	build func(ctx context.Context) (*region, float64, string, error)) (Result, error) {
+	if err := checkTwo(fn, k1, n1, k2, n2); err != nil {
+		return Result{}, err
+	}
+	if err := checkAlt(fn, opt.Alternative); err != nil {
+		return Result{}, err
+	}
+	if !(opt.BergerBoos == 0 || opt.BergerBoos > 0 && opt.BergerBoos < 0.5) {
+		return Result{}, argerr.Invalid(fn, "BergerBoos", opt.BergerBoos, "must be 0 (no restriction) or lie in (0, 0.5); 0.001 is usual")
+	}
+	if opt.Fisher < 0 || int(opt.Fisher) >= len(fisherNames) {
+		return Result{}, argerr.Invalid(fn, "Fisher", int(opt.Fisher), "is not a Fisher two-sided definition")
+	}
+	if float64(n1+1)*float64(n2+1) > MaxUnconditionalTables {
+		return Result{}, argerr.TooLarge(fn, "n1", n1, "with n2 = "+argerr.Format(n2)+" gives more than 4.1e6 possible tables, the size limit of the unconditional tests; use Fisher or an asymptotic test")
+	}
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	reg, stat, statName, err := build(ctx)
+	if err != nil {
+		return Result{}, err
+	}
+	lo, hi := 0.0, 1.0
+	if g := opt.BergerBoos; g > 0 {
+		s, n := k1+k2, n1+n2
+		lp := func(p float64) float64 { return binomialLogP(ExactCentral, s, n, p, TwoSided) }
+		lo, hi, _ = invert(lp, math.Log(g), float64(s)/float64(n), TwoSided, false)
+		method += " (Berger-Boos)"
+	}
+	lp, at, err := reg.supremum(ctx, fn, lo, hi)
+	if err != nil {
+		return Result{}, err
+	}
+	if g := opt.BergerBoos; g > 0 {
+		lp = math.Log(math.Min(1, math.Exp(lp)+g))
+		if lp < math.Log(g) { // e^lp underflowed
+			lp = math.Log(g)
+		}
+	}
+	res := newResult(method, opt.Alternative, lp)
+	res.Statistic, res.StatisticName = stat, statName
+	res.Estimate = diffEstimate(k1, n1, k2, n2)
+	res.Nuisance = at
+	if n1 == 0 || n2 == 0 {
+		res.Warnings = append(res.Warnings, "an empty sample: the data carry no information on p1 - p2")
+	}
+	return res, nil
+}
