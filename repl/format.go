@@ -140,3 +140,21 @@ func (s *Session) stat(x float64) string {
 	}
 	return s.num(x)
 }
+
+// complement returns 1 - x rounded to 12 significant digits, so that the
+// alpha of a 95% level prints as 0.05, not 0.050000000000000044.
+func complement(x float64) float64 {
+	v, _ := strconv.ParseFloat(strconv.FormatFloat(1-x, 'g', 12, 64), 64)
+	return v
+}
+
+// numApart formats x with the session's digits, or with more when those
+// would print x equal to ref although it differs (0.94996 against 0.95).
+func (s *Session) numApart(x, ref float64) string {
+	for d := s.Set.Digits; d < 17; d++ {
+		if x == ref || formatNum(x, d) != formatNum(ref, d) {
+			return formatNum(x, d)
+		}
+	}
+	return formatNum(x, 17)
+}

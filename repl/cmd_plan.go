@@ -1,0 +1,477 @@
+package repl
+
+import (
+	"math"
+	"strings"
+
+	"github.com/kofnlab/kofn/power"
+)
+
+func init() { register(detectCmd, sizeCmd) }
+
+// oneSampleMethods are the method words of the one-sample planning forms:
+// the exact test's two-sided definitions, their mid-p variants, and the
+// normal approximation.
+var oneSampleMethods = func() []string {
+	ws := enumWords(func(m power.TwoSidedMethod) string { return m.String() })
+	for _, w := range ws[:len(ws):len(ws)] {
+		ws = append(ws, w+"-mid-p")
+	}
+	return append(ws, "normal")
+}()
+
+var twoSampleWords = struct{ variance, correction, hypothesis []string }{
+	enumWords(func(v power.Variance) string { return v.String() }),
+	enumWords(func(v power.Correction) string { return v.String() }),
+	enumWords(func(v power.Hypothesis) string { return v.String() }),
+}
+
+var planOptions = []Opt{
+	{Name: "p", Doc: "one sample: the proportion under H0"},
+	{Name: "truth", Doc: "one sample: the true proportion the study should detect"},
+	{Name: "p1", Doc: "two groups: the proportion in group 1"},
+	{Name: "p2", Doc: "two groups: the proportion in group 2"},
+	{Name: "yn", Doc: "paired: probability a pair is yes then no"},
+	{Name: "ny", Doc: "paired: probability a pair is no then yes"},
+	{Name: "alpha", Doc: "significance level (default: 1 - the session level)"},
+	optTestSide,
+	{Name: "method", Doc: "one sample: the exact test's two-sided definition, a mid-p variant, or normal", Values: oneSampleMethods},
+	{Name: "variance", Doc: "two groups: null variance of the normal formula", Values: twoSampleWords.variance},
+	{Name: "correction", Doc: "two groups: continuity correction (cps: Casagrande-Pike-Smith; none)", Values: twoSampleWords.correction},
+	{Name: "hypothesis", Doc: "two groups: equality, non-inferiority or equivalence", Values: twoSampleWords.hypothesis},
+	{Name: "margin", Doc: "two groups: the non-inferiority or equivalence margin on p1 - p2"},
+}
+
+const planSources = "Exact binomial power by enumeration of the rejection region (e.g. Chernick MR, Liu CY (2002), " +
+	"The saw-toothed behavior of power versus sample size and software solutions, The American Statistician " +
+	"56:149-155); Fleiss JL (1981), Statistical Methods for Rates and Proportions, 2nd ed.; Casagrande JT, Pike " +
+	"MC, Smith PG (1978), Biometrics 34:483-486; Connor RJ (1987), Biometrics 43:207-211 (paired)."
+
+var detectCmd = &Command{
+	Name:    "detect",
+	Group:   "planning",
+	Summary: "power: the chance a study of n trials detects a given effect; n=LO..HI plots the sawtooth",
+	Usage:   "detect n=N|LO..HI (p=P0 truth=P1 | p1=P1 p2=P2 [n2=N2] | yn=A ny=B) [alpha=A] [side=S] [method=M]",
+	Options: append([]Opt{{Name: "n", Doc: "trials (one sample), group 1 size (two groups) or pairs; LO..HI for a curve"},
+		{Name: "n2", Doc: "two groups: size of group 2 (default: n)"}}, planOptions...),
+	Help: Help{
+		Computes: "The probability that a test at level alpha rejects H0 when the truth is as stated. One " +
+			"sample (p, truth): the exact binomial test's power, by summing the true distribution over the " +
+			"rejection region, with the attained size and the counts that do not reject. Two groups (p1, p2): " +
+			"the normal-approximation power of the comparison. Paired (yn, ny): the asymptotic power of " +
+			"McNemar's test. With n=LO..HI the power is drawn against n: exact power is a sawtooth, because " +
+			"adding a trial can shrink the rejection region.",
+		Methods: "One sample: exact with the point-probability (default), central or blaker two-sided " +
+			"definition, their -mid-p variants, or normal. Two groups: Fleiss' formula with pooled or unpooled " +
+			"null variance and the Casagrande-Pike-Smith correction. Paired: Connor's formula.",
+		Assumptions: "Independent trials; fixed n; the stated truth is the effect worth detecting.",
+		Examples: []string{"detect n=40 p=0.3 truth=0.5", "detect n=10..120 p=0.3 truth=0.5",
+			"detect n=474 p1=0.05 p2=0.10", "detect n=100 yn=0.15 ny=0.05"},
+		Sources: planSources,
+	},
+	Run: runDetect,
+}
+
+var sizeCmd = &Command{
+	Name:    "size",
+	Group:   "planning",
+	Summary: "sample size for a target power (exact sawtooth-aware for one sample)",
+	Usage:   "size (p=P0 truth=P1 | p1=P1 p2=P2 [ratio=R] | yn=A ny=B) [power=0.8] [alpha=A] [side=S] [method=M]",
+	Options: append([]Opt{{Name: "power", Doc: "target power (default 0.8)"},
+		{Name: "ratio", Doc: "two groups: n2/n1 (default 1)"},
+		{Name: "upto", Doc: "largest n searched (one sample and paired exact searches)"}}, planOptions...),
+	Help: Help{
+		Computes: "The number of trials (per group, or pairs) that gives the target power. One sample: the " +
+			"exact search reports the first n whose power reaches the target and the n from which every larger " +
+			"n keeps it (they differ because exact power is a sawtooth in n), beside the normal-approximation " +
+			"n, with a plot of the sawtooth. Two groups: Fleiss' formula with the Casagrande-Pike-Smith " +
+			"continuity correction by default, also for non-inferiority and equivalence margins. Paired: " +
+			"Connor's formula for McNemar's test.",
+		Methods:     detectCmd.Help.Methods,
+		Assumptions: "Independent trials; the stated truth is the smallest effect worth detecting.",
+		Examples: []string{"size p=0.3 truth=0.5", "size p1=0.05 p2=0.10", "size p1=0.05 p2=0.10 correction=none",
+			"size yn=0.15 ny=0.05 power=90%"},
+		Sources: planSources + " Fleiss (1981) Table A.3 gives 474 per group for 0.05 against 0.10.",
+	},
+	Run: runSize,
+}
+
+// planForm is the design a planning command was called for.
+type planForm int
+
+const (
+	oneSample planForm = iota
+	twoSample
+	paired
+)
+
+// planInputs holds the parsed common inputs of detect and size.
+type planInputs struct {
+	form         planForm
+	p0, p1       float64 // one sample
+	q1, q2       float64 // two groups
+	yn, ny       float64 // paired
+	alpha        float64
+	alt          power.Alternative
+	sideText     string
+	method       string
+	two          power.TwoSampleOptions
+	exactOneSide power.OneSampleOptions
+}
+
+func planArgs(c *Call) (planInputs, error) {
+	a := c.Args
+	var in planInputs
+	var err error
+	switch {
+	case a.Has("p") || a.Has("truth"):
+		in.form = oneSample
+		if err = a.Need("p", "truth"); err != nil {
+			return in, err
+		}
+		if in.p0, err = a.OpenProb("p", 0); err != nil {
+			return in, err
+		}
+		if in.p1, err = a.Prob("truth", 0); err != nil {
+			return in, err
+		}
+	case a.Has("p1") || a.Has("p2"):
+		in.form = twoSample
+		if err = a.Need("p1", "p2"); err != nil {
+			return in, err
+		}
+		if in.q1, err = a.Prob("p1", 0); err != nil {
+			return in, err
+		}
+		if in.q2, err = a.Prob("p2", 0); err != nil {
+			return in, err
+		}
+	case a.Has("yn") || a.Has("ny"):
+		in.form = paired
+		if err = a.Need("yn", "ny"); err != nil {
+			return in, err
+		}
+		if in.yn, err = a.Prob("yn", 0); err != nil {
+			return in, err
+		}
+		if in.ny, err = a.Prob("ny", 0); err != nil {
+			return in, err
+		}
+	default:
+		return in, &InputError{Token: a.cmd.Name, Reason: "needs p= and truth= (one sample), p1= and p2= (two groups) or yn= and ny= (paired); usage: " + a.cmd.Usage}
+	}
+	if in.alpha, err = a.OpenProb("alpha", complement(c.S.Set.Level)); err != nil {
+		return in, err
+	}
+	w, err := a.Choice("side", "two", sideWords...)
+	if err != nil {
+		return in, err
+	}
+	in.alt, in.sideText = map[string]power.Alternative{"two": power.TwoSided, "high": power.Greater, "low": power.Less}[w], map[string]string{"two": "two-sided", "high": "one-sided, higher", "low": "one-sided, lower"}[w]
+	if in.form == oneSample {
+		if in.method, err = a.Choice("method", oneSampleMethods[0], oneSampleMethods...); err != nil {
+			return in, err
+		}
+		base := strings.TrimSuffix(in.method, "-mid-p")
+		in.exactOneSide = power.OneSampleOptions{Alpha: in.alpha, Alternative: in.alt, Mid: base != in.method,
+			Method: enumValue[power.TwoSidedMethod](oneSampleMethods, base)}
+	}
+	if in.form == twoSample {
+		o := power.TwoSampleOptions{Alpha: in.alpha, Alternative: in.alt}
+		v, err := a.Choice("variance", twoSampleWords.variance[0], twoSampleWords.variance...)
+		if err != nil {
+			return in, err
+		}
+		o.Variance = enumValue[power.Variance](twoSampleWords.variance, v)
+		cc, err := a.Choice("correction", twoSampleWords.correction[0], twoSampleWords.correction...)
+		if err != nil {
+			return in, err
+		}
+		o.Correction = enumValue[power.Correction](twoSampleWords.correction, cc)
+		h, err := a.Choice("hypothesis", twoSampleWords.hypothesis[0], twoSampleWords.hypothesis...)
+		if err != nil {
+			return in, err
+		}
+		o.Hypothesis = enumValue[power.Hypothesis](twoSampleWords.hypothesis, h)
+		if o.Margin, err = a.Prob("margin", 0); err != nil {
+			return in, err
+		}
+		in.two = o
+	}
+	return in, nil
+}
+
+// describe returns the title words for the design.
+func (in planInputs) describe(s *Session) string {
+	switch in.form {
+	case oneSample:
+		return "one sample, H0 p = " + fmtIn(in.p0) + ", truth " + fmtIn(in.p1) + ", alpha " + fmtIn(in.alpha) + ", " + in.sideText
+	case twoSample:
+		h := ""
+		if in.two.Hypothesis != power.Equality {
+			h = ", " + in.two.Hypothesis.String() + " margin " + fmtIn(in.two.Margin)
+		}
+		return "two groups, p1 = " + fmtIn(in.q1) + ", p2 = " + fmtIn(in.q2) + ", alpha " + fmtIn(in.alpha) + ", " + in.sideText + h
+	}
+	return "paired, yes-no " + fmtIn(in.yn) + ", no-yes " + fmtIn(in.ny) + ", alpha " + fmtIn(in.alpha) + ", " + in.sideText
+}
+
+func fmtIn(x float64) string { return in(x) }
+
+// powerAt returns the power of the design at size n (group 1 n, group 2
+// n2) by the form's method, and the method's name.
+func (in planInputs) powerAt(n, n2 int64) (float64, string, error) {
+	switch in.form {
+	case oneSample:
+		if in.method == "normal" {
+			p, err := power.OneSampleNormalPower(n, in.p0, in.p1, power.OneSampleOptions{Alpha: in.alpha, Alternative: in.alt})
+			return p, "normal approximation", err
+		}
+		r, err := power.OneSamplePower(n, in.p0, in.p1, in.exactOneSide)
+		return r.Power, r.Test, err
+	case twoSample:
+		p, err := power.TwoSampleNormalPower(n, n2, in.q1, in.q2, in.two)
+		return p, "normal approximation (" + in.two.Variance.String() + " variance, correction " + in.two.Correction.String() + ")", err
+	}
+	p, err := power.PairedNormalPower(n, in.yn, in.ny, power.PairedOptions{Alpha: in.alpha, Alternative: in.alt})
+	return p, "McNemar, normal approximation", err
+}
+
+type detectResult struct {
+	Method string            `json:"method"`
+	N      int64             `json:"n,omitempty"`
+	N2     int64             `json:"n2,omitempty"`
+	Power  float64           `json:"power"`
+	Exact  *power.ExactPower `json:"exact,omitempty"`
+	Curve  []power.NPower    `json:"curve,omitempty"`
+}
+
+func runDetect(c *Call) error {
+	a := c.Args
+	if err := a.Want(0, 0); err != nil {
+		return err
+	}
+	if err := a.Need("n"); err != nil {
+		return err
+	}
+	lo, hi, err := a.Range("n", 0)
+	if err != nil {
+		return err
+	}
+	if lo < 1 {
+		return inputErr("n="+a.Str("n", ""), "must be at least 1")
+	}
+	in, err := planArgs(c)
+	if err != nil {
+		return err
+	}
+	n2 := lo
+	if in.form == twoSample {
+		if n2, err = a.Count("n2", lo); err != nil {
+			return err
+		}
+	}
+	s := c.S
+	if lo == hi {
+		pw, method, err := in.powerAt(lo, n2)
+		if err != nil {
+			return err
+		}
+		r := detectResult{Method: method, N: lo, Power: pw}
+		b := c.Block("power, " + in.describe(s))
+		b.Row("method", method)
+		if in.form == twoSample {
+			r.N2 = n2
+			b.Row("n", count(lo)+" and "+count(n2), "group sizes")
+		} else {
+			b.Row("n", count(lo))
+		}
+		b.Row("power", s.num(pw), "chance the test rejects H0 under the stated truth")
+		if in.form == oneSample && in.method != "normal" {
+			ex, err := power.OneSamplePower(lo, in.p0, in.p1, in.exactOneSide)
+			if err != nil {
+				return err
+			}
+			r.Exact = &ex
+			b.Row("attained size", s.num(ex.Size), "chance it rejects when H0 is true (alpha "+fmtIn(in.alpha)+")")
+			if ex.AcceptLo <= ex.AcceptHi {
+				b.Row("not rejected", "k = "+count(ex.AcceptLo)+" to "+count(ex.AcceptHi))
+			} else {
+				b.Row("not rejected", "none: every outcome rejects")
+			}
+		}
+		c.Data(r)
+		return nil
+	}
+	// A curve over n.
+	if hi-lo > 100000 {
+		return inputErr("n="+a.Str("n", ""), "spans more than 100000 sizes; narrow the range")
+	}
+	if in.form == twoSample && a.Has("n2") {
+		return inputErr("n2="+a.Str("n2", ""), "does not combine with a range of n; the curve uses equal groups")
+	}
+	var curve []power.NPower
+	method := ""
+	if in.form == oneSample && in.method != "normal" {
+		all, err := power.OneSampleCurve(c.Ctx, in.p0, in.p1, hi, in.exactOneSide)
+		if err != nil {
+			return err
+		}
+		curve = all[lo-1:]
+		_, method, _ = in.powerAt(lo, lo)
+	} else {
+		for n := lo; n <= hi; n++ {
+			if n%1024 == 0 && c.Ctx.Err() != nil {
+				return c.Ctx.Err()
+			}
+			pw, m, err := in.powerAt(n, n)
+			if err != nil {
+				return err
+			}
+			method = m
+			curve = append(curve, power.NPower{N: n, Power: pw})
+		}
+	}
+	c.Data(detectResult{Method: method, Power: curve[len(curve)-1].Power, Curve: curve})
+	b := c.Block("power against n, " + in.describe(s))
+	b.Row("method", method)
+	minP, maxP := curve[0], curve[0]
+	for _, pt := range curve {
+		if pt.Power < minP.Power {
+			minP = pt
+		}
+		if pt.Power > maxP.Power {
+			maxP = pt
+		}
+	}
+	b.Row("n", count(lo)+" to "+count(hi))
+	b.Row("lowest power", s.num(minP.Power), "at n = "+count(minP.N))
+	b.Row("highest power", s.num(maxP.Power), "at n = "+count(maxP.N))
+	c.Plot(powerPlot(s, curve, 0.8))
+	return nil
+}
+
+// powerPlot draws power against n as bars, one column per n (every k-th n
+// when the range is wider than the plot), with a reference line at target.
+func powerPlot(s *Session, curve []power.NPower, target float64) string {
+	cols := s.plotColumns(6)
+	step := max(1, (len(curve)+cols-1)/cols)
+	var xs, ys []float64
+	lo, hi := 1.0, 0.0
+	for i := 0; i < len(curve); i += step {
+		xs = append(xs, float64(curve[i].N))
+		ys = append(ys, curve[i].Power)
+		lo, hi = math.Min(lo, curve[i].Power), math.Max(hi, curve[i].Power)
+	}
+	yLo, yHi := niceRange(math.Min(lo, target), math.Max(hi, target), 0.1, 0, 1)
+	label := "n"
+	if step > 1 {
+		label = "n (one column per " + count(int64(step)) + " sizes; narrow the range to see each)"
+	}
+	ch := chart{xs: xs, series: []series{{"power", ys}}, yLo: yLo, yHi: yHi, ref: target, height: 10,
+		ascii: s.Set.ASCII, digits: 2, xLabel: label}
+	return "power (line at " + fmtIn(target) + ")\n" + ch.render()
+}
+
+type sizeResult struct {
+	Exact  *power.ExactSize  `json:"exact,omitempty"`
+	Normal *power.NormalSize `json:"normal,omitempty"`
+}
+
+func runSize(c *Call) error {
+	a := c.Args
+	if err := a.Want(0, 0); err != nil {
+		return err
+	}
+	in, err := planArgs(c)
+	if err != nil {
+		return err
+	}
+	target, err := a.OpenProb("power", 0.8)
+	if err != nil {
+		return err
+	}
+	upto, err := a.Count("upto", 0)
+	if err != nil {
+		return err
+	}
+	s := c.S
+	b := c.Block("sample size for power " + fmtIn(target) + ", " + in.describe(s))
+	switch in.form {
+	case oneSample:
+		if in.method == "normal" {
+			r, err := power.OneSampleNormalN(in.p0, in.p1, power.OneSampleOptions{Alpha: in.alpha, Power: target, Alternative: in.alt})
+			if err != nil {
+				return err
+			}
+			c.Data(sizeResult{Normal: &r})
+			normalRows(s, b, r, "trials")
+			return nil
+		}
+		o := in.exactOneSide
+		o.Power, o.MaxN = target, upto
+		r, err := power.OneSampleN(c.Ctx, in.p0, in.p1, o)
+		if err != nil {
+			return err
+		}
+		c.Data(sizeResult{Exact: &r})
+		b.Row("method", r.Test)
+		b.Row("first n", count(r.First), "power "+s.num(r.FirstPower)+": the smallest n reaching "+fmtIn(target))
+		if r.Stable > 0 {
+			b.Row("safe n", count(r.Stable), "power "+s.num(r.StablePower)+": every n from here to "+count(r.Horizon)+" reaches it")
+		} else {
+			b.Row("safe n", "not found", "power drops below the target again up to n = "+count(r.Horizon))
+		}
+		b.Row("attained size", s.num(r.Size))
+		b.Row("normal approx.", count(r.Normal.N), r.Normal.Method)
+		b.Warn(r.Warnings...)
+		// Plot the sawtooth around the first and safe n.
+		cols := int64(s.plotColumns(6))
+		from := max(1, r.First-cols/3)
+		to := min(r.Horizon, from+cols-1)
+		if r.Stable > to {
+			to = min(r.Horizon, r.Stable+cols/6)
+			from = max(1, to-cols+1)
+		}
+		c.Plot(powerPlot(s, r.Curve[from-1:to], target))
+	case twoSample:
+		o := in.two
+		o.Power = target
+		if o.Ratio, err = a.Float("ratio", 0); err != nil {
+			return err
+		}
+		if a.Has("ratio") && !(o.Ratio > 0) {
+			return inputErr("ratio="+a.Str("ratio", ""), "must be above 0")
+		}
+		r, err := power.TwoSampleNormalN(in.q1, in.q2, o)
+		if err != nil {
+			return err
+		}
+		c.Data(sizeResult{Normal: &r})
+		normalRows(s, b, r, "per group")
+	case paired:
+		r, err := power.PairedNormalN(in.yn, in.ny, power.PairedOptions{Alpha: in.alpha, Power: target, Alternative: in.alt, MaxN: upto})
+		if err != nil {
+			return err
+		}
+		c.Data(sizeResult{Normal: &r})
+		normalRows(s, b, r, "pairs")
+	}
+	return nil
+}
+
+// normalRows writes a normal-approximation sample size.
+func normalRows(s *Session, b *Block, r power.NormalSize, unit string) {
+	b.Row("method", r.Method)
+	if r.N2 > 0 {
+		b.Row("n", count(r.N)+" and "+count(r.N2), "group 1 and group 2")
+	} else {
+		b.Row("n", count(r.N), unit)
+	}
+	b.Row("unrounded", s.num(r.Real))
+	if r.Uncorrected != r.Real {
+		b.Row("uncorrected", s.num(r.Uncorrected), "before the continuity correction")
+	}
+	b.Row("power at n", s.num(r.Power), "by the same approximation")
+	b.Warn(r.Warnings...)
+}

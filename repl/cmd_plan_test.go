@@ -1,0 +1,86 @@
+package repl
+
+import (
+	"context"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/power"
+)
+
+func TestPlanningValues(t *testing.T) {
+	t.Parallel()
+	tests := []struct {
+		line, path string
+		want, rel  float64
+		src        string
+	}{
+		// Fleiss JL (1981), Table A.3, with the Casagrande, Pike and Smith (1978) correction
+		// (recalled, recomputed): 0.05 against 0.10, alpha 0.05 two-sided, power 0.80: 474 per
+		// group; uncorrected 434.43, corrected 473.59.
+		{"size p1=0.05 p2=0.10", "normal.n", 474, 0, "Fleiss 1981 A.3"},
+		{"size p1=0.05 p2=0.10", "normal.real", 473.59, 1e-4, "Fleiss 1981 A.3"},
+		{"size p1=0.05 p2=0.10", "normal.uncorrected", 434.43, 1e-4, "Fleiss 1981 A.3"},
+		// Margin of error, common practice: p = 0.5, d = 0.03, 95%: 1068.
+		{"margin d=0.03", "n", 1068, 0, "common practice"},
+		// Success-run formula, common practice: R = 0.99 at C = 0.95: 299 trials, 298 give 0.94996.
+		{"prove rel=0.99 conf=0.95", "trials", 299, 0, "success run"},
+		{"prove rel=0.99 conf=0.95", "previous_confidence", 0.94996, 1e-5, "success run"},
+		// 30 units, no failures, 90%: 0.10^(1/30) = 0.9261 (common practice).
+		{"prove n=30 conf=0.9", "reliability", 0.9261, 1e-4, "success run"},
+		// Hanley and Lippman-Hand (1983): n = 14, exact one-sided 95% upper limit 1 - 0.05^(1/14) = 0.1926.
+		{"prove n=14 conf=95%", "reliability", 1 - 0.1926, 1e-4, "Hanley 1983"},
+		// Montgomery, single sampling plan n = 89, c = 2 (read in a reproduced exercise):
+		// P(accept) at 0.01, 0.02, 0.05 = 0.93969, 0.736578, 0.172077; ATI at N = 10000, p = 0.01: 687.
+		{"accept n=89 c=2 at=0.01", "accept_prob", 0.93969, 1e-5, "Montgomery"},
+		{"accept n=89 c=2 at=0.02", "accept_prob", 0.736578, 1e-6, "Montgomery"},
+		{"accept n=89 c=2 at=0.05", "accept_prob", 0.172077, 1e-6, "Montgomery"},
+		{"accept n=89 c=2 at=0.01 lot=10000", "rectifying.ati", 687, 1e-3, "Montgomery"},
+	}
+	for _, tc := range tests {
+		got := num(t, runJSON(t, tc.line), tc.path)
+		if diff := cmp.Diff(tc.want, got, cmpopts.EquateApprox(tc.rel, 0)); diff != "" {
+			t.Errorf("%s %s (%s) (-want +got):\n%s", tc.line, tc.path, tc.src, diff)
+		}
+	}
+}
+
+// TestPlanningMatchesPackage checks that the shell passes options through:
+// its numbers equal the power package's for the same call.
+func TestPlanningMatchesPackage(t *testing.T) {
+	t.Parallel()
+	ex, err := power.OneSamplePower(40, 0.3, 0.5, power.OneSampleOptions{Alpha: 0.05, Method: power.Central})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := num(t, runJSON(t, "detect n=40 p=0.3 truth=0.5 method=central"), "power"); got != ex.Power {
+		t.Errorf("detect: %v, package %v", got, ex.Power)
+	}
+	sz, err := power.OneSampleN(context.Background(), 0.3, 0.5, power.OneSampleOptions{Alpha: 0.1, Power: 0.9, Alternative: power.Greater})
+	if err != nil {
+		t.Fatal(err)
+	}
+	obj := runJSON(t, "size p=0.3 truth=0.5 power=0.9 alpha=0.1 side=high")
+	if got := num(t, obj, "exact.first"); got != float64(sz.First) {
+		t.Errorf("size first: %v, package %v", got, sz.First)
+	}
+	if got := num(t, obj, "exact.stable"); got != float64(sz.Stable) {
+		t.Errorf("size stable: %v, package %v", got, sz.Stable)
+	}
+	pw, err := power.PairedNormalPower(100, 0.15, 0.05, power.PairedOptions{Alpha: 0.05})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := num(t, runJSON(t, "detect n=100 yn=0.15 ny=0.05"), "power"); got != pw {
+		t.Errorf("paired detect: %v, package %v", got, pw)
+	}
+	curve, err := power.OneSampleCurve(context.Background(), 0.3, 0.5, 60, power.OneSampleOptions{Alpha: 0.05})
+	if err != nil {
+		t.Fatal(err)
+	}
+	obj = runJSON(t, "detect n=20..60 p=0.3 truth=0.5")
+	if got := num(t, obj, "power"); got != curve[59].Power {
+		t.Errorf("curve end: %v, package %v", got, curve[59].Power)
+	}
+}

@@ -1,0 +1,331 @@
+package repl
+
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/power"
+)
+
+func init() { register(marginCmd, proveCmd, acceptCmd) }
+
+var marginCmd = &Command{
+	Name:    "margin",
+	Group:   "planning",
+	Summary: "trials needed for a margin of error d on a proportion (precision planning)",
+	Usage:   "margin d=D [p=P] [level=L]",
+	Options: []Opt{{Name: "d", Doc: "margin of error: the half-width wanted, like 0.03"},
+		{Name: "p", Doc: "the proportion expected (default 0.5, the worst case)"}, optLevel},
+	Help: Help{
+		Computes: "The number of trials n for which the normal-approximation interval around k/n has " +
+			"half-width d at the level: n = z^2 p (1-p) / d^2, rounded up. It is a planning formula (common " +
+			"practice); near 0 or 1 or at small n the actual interval differs, so check the plan with bounds.",
+		Assumptions: "Simple random sampling from a large population; p is a guess (0.5 is the safe choice).",
+		Examples:    []string{"margin d=0.03", "margin d=0.02 p=0.1 level=99%"},
+		Sources:     "Textbook margin-of-error formula (common practice), e.g. Cochran WG (1977), Sampling Techniques, 3rd ed., section 4.4.",
+	},
+	Run: runMargin,
+}
+
+type marginResult struct {
+	N     int64   `json:"n"`
+	D     float64 `json:"d"`
+	P     float64 `json:"p"`
+	Level float64 `json:"level"`
+}
+
+func runMargin(c *Call) error {
+	a := c.Args
+	if err := a.Want(0, 0); err != nil {
+		return err
+	}
+	if err := a.Need("d"); err != nil {
+		return err
+	}
+	d, err := a.OpenProb("d", 0)
+	if err != nil {
+		return err
+	}
+	p, err := a.OpenProb("p", 0.5)
+	if err != nil {
+		return err
+	}
+	level, err := c.Level()
+	if err != nil {
+		return err
+	}
+	n, err := power.MarginOfErrorN(p, d, level)
+	if err != nil {
+		return err
+	}
+	c.Data(marginResult{n, d, p, level})
+	b := c.Block("margin of error " + fmtIn(d) + " at " + pct(level) + ", expected proportion " + fmtIn(p))
+	b.Row("trials", count(n), "z^2 p (1-p) / d^2, rounded up (common practice)")
+	return nil
+}
+
+var proveCmd = &Command{
+	Name:    "prove",
+	Group:   "planning",
+	Summary: "reliability demonstration: trials needed, or reliability shown by a test",
+	Usage:   "prove rel=R conf=C [fails=F]   or   prove n=N conf=C [fails=F]",
+	Options: []Opt{{Name: "rel", Doc: "reliability to demonstrate (chance a unit works), like 0.99"},
+		{Name: "conf", Doc: "confidence, like 0.95 or 95%"},
+		{Name: "fails", Doc: "failures allowed (default 0)"},
+		{Name: "n", Doc: "trials run (to find the reliability they demonstrate)"}},
+	Help: Help{
+		Computes: "With rel=: the smallest number of trials n such that seeing at most fails failures " +
+			"demonstrates reliability rel at confidence conf: P(X <= fails; n, 1 - rel) <= 1 - conf (with no " +
+			"failures this is the success-run formula n = ln(1 - conf)/ln(rel)). With n=: the reliability a " +
+			"test of n trials with fails failures demonstrates, the one-sided exact (Clopper-Pearson) lower " +
+			"bound; with no failures (1 - conf)^(1/n), which the rule of three approximates.",
+		Assumptions: "Independent trials of identical units under representative conditions.",
+		Examples:    []string{"prove rel=0.99 conf=0.95", "prove rel=0.95 conf=0.9 fails=2", "prove n=30 conf=0.9"},
+		Sources: "Success-run formula (common practice); Hanley JA, Lippman-Hand A (1983), If nothing goes " +
+			"wrong, is everything all right? JAMA 249:1743-1745; Clopper CJ, Pearson ES (1934), Biometrika 26:404-413.",
+	},
+	Run: runProve,
+}
+
+type proveResult struct {
+	N           int64   `json:"n"`
+	Failures    int64   `json:"failures"`
+	Confidence  float64 `json:"confidence"`
+	Reliability float64 `json:"reliability"`
+}
+
+func runProve(c *Call) error {
+	a := c.Args
+	if err := a.Want(0, 0); err != nil {
+		return err
+	}
+	if err := a.Need("conf"); err != nil {
+		return err
+	}
+	conf, err := a.OpenProb("conf", 0)
+	if err != nil {
+		return err
+	}
+	fails, err := a.Count("fails", 0)
+	if err != nil {
+		return err
+	}
+	s := c.S
+	if a.Has("n") {
+		n, err := a.Count("n", 0)
+		if err != nil {
+			return err
+		}
+		if n < 1 {
+			return inputErr("n="+a.Str("n", ""), "must be at least 1")
+		}
+		if fails > n {
+			return inputErr("fails="+a.Str("fails", ""), "exceeds n = "+count(n))
+		}
+		r, err := power.DemonstratedReliability(n, fails, conf)
+		if err != nil {
+			return err
+		}
+		c.Data(proveResult{n, fails, conf, r})
+		b := c.Block("reliability demonstrated by " + count(n) + " trials with " + count(fails) + " failures, " + pct(conf) + " confidence")
+		b.Row("reliability", s.num(r), "one-sided exact lower bound")
+		b.Row("failure rate", "at most "+s.num(1-r))
+		if fails == 0 {
+			b.Row("rule of three", s.num(3/float64(n)), "3/n, the rough 95% upper bound on the failure rate")
+		}
+		return nil
+	}
+	if err := a.Need("rel"); err != nil {
+		return err
+	}
+	rel, err := a.OpenProb("rel", 0)
+	if err != nil {
+		return err
+	}
+	r, err := power.DemonstrationTrials(rel, conf, fails)
+	if err != nil {
+		return err
+	}
+	c.Data(r)
+	b := c.Block("demonstrate reliability " + fmtIn(rel) + " at " + pct(conf) + " confidence, " + count(fails) + " failures allowed")
+	b.Row("trials", count(r.Trials))
+	b.Row("achieved confidence", s.numApart(r.AchievedConfidence, conf), "at least "+fmtIn(conf))
+	b.Row("with one trial fewer", s.numApart(r.PreviousConfidence, conf), "falls short of "+fmtIn(conf))
+	return nil
+}
+
+var acceptCmd = &Command{
+	Name:    "accept",
+	Group:   "planning",
+	Summary: "acceptance sampling by attributes: a plan's OC curve, AOQ and ATI, or design a plan",
+	Usage:   "accept n=N c=C [at=P] [lot=L]   or   accept aql=P1 rql=P2 [producer=A] [consumer=B]",
+	Options: []Opt{
+		{Name: "n", Doc: "items inspected from each lot"},
+		{Name: "c", Doc: "acceptance number: the lot is accepted with at most c defectives"},
+		{Name: "at", Doc: "a defect rate at which to report the acceptance probability"},
+		{Name: "lot", Doc: "lot size, for rectifying inspection (AOQ, ATI, AOQL)"},
+		{Name: "aql", Doc: "design: acceptable quality level (defect rate that should pass)"},
+		{Name: "rql", Doc: "design: rejectable quality level (defect rate that should fail)"},
+		{Name: "producer", Doc: "design: largest chance of rejecting a lot at the AQL (default 0.05)"},
+		{Name: "consumer", Doc: "design: largest chance of accepting a lot at the RQL (default 0.10)"},
+		{Name: "upto", Doc: "design: largest n searched"},
+	},
+	Help: Help{
+		Computes: "For a single sampling plan (inspect n items, accept the lot with at most c defectives): " +
+			"the operating characteristic, the chance of accepting a lot against its defect rate (binomial, " +
+			"for large lots), drawn as a curve; at= gives its value at one rate; lot= adds rectifying " +
+			"inspection: average outgoing quality (AOQ) and average total inspection (ATI) at the rate, and the " +
+			"average outgoing quality limit (AOQL). With aql= and rql=: the plan with the smallest n that " +
+			"meets both risks, found by an exact search.",
+		Assumptions: "Lots much larger than the sample (binomial model); items defective independently.",
+		Examples:    []string{"accept n=89 c=2", "accept n=89 c=2 at=0.01 lot=10000", "accept aql=0.01 rql=0.05"},
+		Sources: "Montgomery DC, Introduction to Statistical Quality Control, chapter on single sampling " +
+			"plans for attributes (n = 89, c = 2); Schilling EG, Neubauer DV (2009), Acceptance Sampling in Quality Control, 2nd ed.",
+	},
+	Run: runAccept,
+}
+
+type acceptResult struct {
+	Plan       power.Plan        `json:"plan"`
+	Design     *power.PlanDesign `json:"design,omitempty"`
+	At         *float64          `json:"at,omitempty"`
+	AcceptProb *float64          `json:"accept_prob,omitempty"`
+	Rectifying *power.Rectifying `json:"rectifying,omitempty"`
+	AOQL       *power.AOQLimit   `json:"aoql,omitempty"`
+	OC         []power.Point     `json:"oc"`
+}
+
+func runAccept(c *Call) error {
+	a := c.Args
+	if err := a.Want(0, 0); err != nil {
+		return err
+	}
+	s := c.S
+	var r acceptResult
+	var b *Block
+	if a.Has("aql") || a.Has("rql") {
+		if err := a.Need("aql", "rql"); err != nil {
+			return err
+		}
+		aql, err := a.OpenProb("aql", 0)
+		if err != nil {
+			return err
+		}
+		rql, err := a.OpenProb("rql", 0)
+		if err != nil {
+			return err
+		}
+		if rql <= aql {
+			return inputErr("rql="+a.Str("rql", ""), "must exceed aql = "+fmtIn(aql))
+		}
+		var o power.DesignOptions
+		if o.ProducerRisk, err = a.OpenProb("producer", 0.05); err != nil {
+			return err
+		}
+		if o.ConsumerRisk, err = a.OpenProb("consumer", 0.10); err != nil {
+			return err
+		}
+		if o.MaxN, err = a.Count("upto", 0); err != nil {
+			return err
+		}
+		d, err := power.DesignPlan(c.Ctx, aql, rql, o)
+		if err != nil {
+			return err
+		}
+		r.Design, r.Plan = &d, d.Plan
+		b = c.Block("sampling plan for AQL " + fmtIn(aql) + " (producer's risk " + fmtIn(o.ProducerRisk) + ") and RQL " + fmtIn(rql) + " (consumer's risk " + fmtIn(o.ConsumerRisk) + ")")
+		b.Row("plan", "inspect n = "+count(d.Plan.SampleSize)+", accept with at most c = "+count(d.Plan.AcceptNumber)+" defective")
+		b.Row("producer's risk", s.num(d.AchievedProducerRisk), "chance of rejecting a lot at the AQL")
+		b.Row("consumer's risk", s.num(d.AchievedConsumerRisk), "chance of accepting a lot at the RQL")
+	} else {
+		if err := a.Need("n", "c"); err != nil {
+			return err
+		}
+		n, err := a.Count("n", 0)
+		if err != nil {
+			return err
+		}
+		cc, err := a.Count("c", 0)
+		if err != nil {
+			return err
+		}
+		r.Plan = power.Plan{SampleSize: n, AcceptNumber: cc}
+		b = c.Block("sampling plan: inspect n = " + count(n) + ", accept with at most c = " + count(cc) + " defective")
+	}
+	if a.Has("at") {
+		p, err := a.Prob("at", 0)
+		if err != nil {
+			return err
+		}
+		pa, err := power.AcceptProb(r.Plan, p)
+		if err != nil {
+			return err
+		}
+		r.At, r.AcceptProb = &p, &pa
+		b.Row("P(accept) at "+fmtIn(p), s.num(pa))
+	}
+	if a.Has("lot") {
+		lot, err := a.Count("lot", 0)
+		if err != nil {
+			return err
+		}
+		if lot < r.Plan.SampleSize {
+			return inputErr("lot="+a.Str("lot", ""), "is smaller than the sample size n = "+count(r.Plan.SampleSize))
+		}
+		if r.At != nil {
+			rect, err := power.Rectify(r.Plan, lot, *r.At)
+			if err != nil {
+				return err
+			}
+			r.Rectifying = &rect
+			b.Row("AOQ at "+fmtIn(*r.At), s.num(rect.AOQ), "average outgoing quality, lots of "+count(lot))
+			b.Row("ATI at "+fmtIn(*r.At), s.num(rect.ATI), "average total inspection per lot")
+		}
+		q, err := power.AOQL(r.Plan, lot)
+		if err != nil {
+			return err
+		}
+		r.AOQL = &q
+		b.Row("AOQL", s.num(q.AOQL), "worst average outgoing quality, at defect rate "+s.num(q.P))
+	}
+	// The OC curve over the rates where the plan's acceptance falls from
+	// near 1 to about 1%.
+	pMax, err := ocRange(r.Plan)
+	if err != nil {
+		return err
+	}
+	cols := s.plotColumns(6)
+	oc, err := power.OCCurve(r.Plan, pMax, cols-1)
+	if err != nil {
+		return err
+	}
+	r.OC = oc
+	c.Data(r)
+	xs, ys := make([]float64, len(oc)), make([]float64, len(oc))
+	for i, pt := range oc {
+		xs[i], ys[i] = pt.X, pt.Y
+	}
+	ch := chart{xs: xs, series: []series{{"P(accept)", ys}}, yLo: 0, yHi: 1, ref: math.NaN(), height: 10,
+		ascii: s.Set.ASCII, digits: 3, xLabel: "defect rate"}
+	c.Plot("operating characteristic: P(accept) against the defect rate\n" + ch.render())
+	return nil
+}
+
+// ocRange returns the right end of the OC plot: the defect rate where the
+// acceptance probability falls to about 1%, found by bisection on
+// power.AcceptProb (which falls as the rate grows).
+func ocRange(pl power.Plan) (float64, error) {
+	lo, hi := 0.0, 1.0
+	if _, err := power.AcceptProb(pl, 0.5); err != nil {
+		return 0, err
+	}
+	for i := 0; i < 60; i++ {
+		mid := (lo + hi) / 2
+		pa, _ := power.AcceptProb(pl, mid)
+		if pa > 0.01 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return math.Min(1, hi*1.05), nil
+}
