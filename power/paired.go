@@ -7,7 +7,8 @@ import (
 )
 
 // PairedOptions configures the paired (McNemar) functions. The zero value
-// means: two-sided, alpha 0.05, power 0.80, search limit DefaultMaxN.
+// means: exact conditional test, two-sided, alpha 0.05, power 0.80,
+// search limit DefaultMaxN.
 type PairedOptions struct {
 	// Alpha is the significance level in (0, 1); 0 means 0.05.
 	Alpha float64
@@ -15,6 +16,8 @@ type PairedOptions struct {
 	Power float64
 	// Alternative is the direction for p10 - p01; the zero value is TwoSided.
 	Alternative Alternative
+	// Method selects the McNemar test; the zero value is McNemarExact.
+	Method PairedMethod
 	// MaxN bounds the number of pairs in exact searches; 0 means DefaultMaxN.
 	MaxN int64
 }
