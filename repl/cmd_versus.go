@@ -1,0 +1,101 @@
+package repl
+
+import (
+	"github.com/kofnlab/kofn/test"
+)
+
+func init() { register(versusCmd) }
+
+// versusMethods are the two-sample test words: Fisher's conditional test
+// in its two-sided definitions and mid-p forms, and the unconditional
+// exact tests.
+var versusMethods = []string{"fisher", "fisher-central", "fisher-mid-p", "fisher-central-mid-p", "boschloo", "barnard"}
+
+var versusCmd = &Command{
+	Name:    "versus",
+	Group:   "tests",
+	Summary: "test whether two groups' proportions differ (Fisher, Boschloo, Barnard)",
+	Usage:   "versus K1/N1 K2/N2 [method=M] [side=two|high|low] [berger-boos=G]",
+	Methods: versusMethods,
+	Options: []Opt{optMethod("test", versusMethods),
+		{Name: "side", Doc: "two (default); high: group 1's proportion is higher; low: it is lower", Values: sideWords},
+		{Name: "berger-boos", Doc: "Boschloo and Barnard: restrict the nuisance supremum to a 1-G interval and add G (G in (0, 0.5), 0.001 is usual)"}},
+	Help: Help{
+		Computes: "The p-value for H0: both groups share one success probability, from K1 of N1 and K2 of " +
+			"N2. side=high claims group 1's proportion is higher. " + cautionSides,
+		Methods: "fisher (default): Fisher's exact test conditional on the margins, two-sided by point " +
+			"probability; fisher-central doubles the smaller tail; -mid-p forms halve the tables as extreme as " +
+			"observed. boschloo: the unconditional exact test ordered by Fisher's p-value, uniformly more " +
+			"powerful than Fisher's; barnard: the unconditional exact test ordered by the pooled z statistic. " +
+			"The unconditional tests take the supremum over the common proportion and are limited to " +
+			"(N1+1)(N2+1) <= 4100000 tables.",
+		Assumptions: "Two independent groups of independent trials.",
+		Examples: []string{"versus 7/15 12/15 side=low", "versus 7/15 12/15 side=low method=barnard",
+			"versus 17/40 9/38 method=boschloo"},
+		Sources: "Fisher RA (1935), The Design of Experiments; Boschloo RD (1970), Statistica Neerlandica " +
+			"24:1-35; Barnard GA (1947), Biometrika 34:123-138; Mehta CR, Senchaudhuri P (2003), Conditional " +
+			"versus unconditional exact tests for comparing two binomials; Berger RL, Boos DD (1994), JASA 89:1012-1016.",
+	},
+	Run: runVersus,
+}
+
+// twoCounts reads the two count pairs of a two-group command.
+func twoCounts(a *Args) (k1, n1, k2, n2 int64, err error) {
+	if err = a.Want(2, 2); err != nil {
+		return
+	}
+	if k1, n1, err = a.KN(0, "two counts K1/N1 K2/N2"); err != nil {
+		return
+	}
+	k2, n2, err = a.KN(1, "two counts K1/N1 K2/N2")
+	return
+}
+
+func runVersus(c *Call) error {
+	a := c.Args
+	k1, n1, k2, n2, err := twoCounts(a)
+	if err != nil {
+		return err
+	}
+	m, err := c.Method()
+	if err != nil {
+		return err
+	}
+	alt, sideText, err := testSide(a)
+	if err != nil {
+		return err
+	}
+	var r test.Result
+	switch m {
+	case "barnard", "boschloo":
+		o := test.UnconditionalOptions{Alternative: alt}
+		if o.BergerBoos, err = a.Prob("berger-boos", 0); err != nil {
+			return err
+		}
+		if m == "barnard" {
+			r, err = test.Barnard(c.Ctx, k1, n1, k2, n2, o)
+		} else {
+			r, err = test.Boschloo(c.Ctx, k1, n1, k2, n2, o)
+		}
+	default:
+		o := test.FisherOptions{Alternative: alt, MidP: m == "fisher-mid-p" || m == "fisher-central-mid-p"}
+		if m == "fisher-central" || m == "fisher-central-mid-p" {
+			o.Method = test.FisherCentral
+		}
+		r, err = test.Fisher(k1, n1, k2, n2, o)
+	}
+	if err != nil {
+		return err
+	}
+	c.Data(r)
+	s := c.S
+	b := c.Block(r.Method + " test of p1 = p2, " + sideText)
+	b.Row("group 1", kn(k1, n1), "k/n = "+s.num(float64(k1)/float64(n1)))
+	b.Row("group 2", kn(k2, n2), "k/n = "+s.num(float64(k2)/float64(n2)))
+	b.Row("difference", s.num(r.Estimate), "p1 - p2")
+	testRows(s, b, r, "")
+	if m == "barnard" || m == "boschloo" {
+		b.Row("nuisance", s.num(r.Nuisance), "common proportion where the p-value's supremum is attained")
+	}
+	return nil
+}
