@@ -32,20 +32,24 @@ type Hyper struct {
 // fails with ErrInvalidArgument when a count is negative or successes or
 // draws exceeds total, and with ErrTooLarge when total > MaxN.
 func NewHyper(total, successes, draws int64) (Hyper, error) {
-	const fn = "binom.NewHyper"
-	if err := argerr.Count(fn, "total", total); err != nil {
-		return Hyper{}, err
-	}
-	if total > MaxN {
-		return Hyper{}, argerr.TooLarge(fn, "total", total, "exceeds 2^53, the largest count held exactly in float64")
-	}
-	if err := argerr.KN(fn, "successes", "total", successes, total); err != nil {
-		return Hyper{}, err
-	}
-	if err := argerr.KN(fn, "draws", "total", draws, total); err != nil {
+	if err := checkHyper("binom.NewHyper", total, successes, draws); err != nil {
 		return Hyper{}, err
 	}
 	return Hyper{Total: total, Successes: successes, Draws: draws}, nil
+}
+
+// checkHyper validates hypergeometric parameters for function fn.
+func checkHyper(fn string, total, successes, draws int64) error {
+	if err := argerr.Count(fn, "total", total); err != nil {
+		return err
+	}
+	if total > MaxN {
+		return argerr.TooLarge(fn, "total", total, "exceeds 2^53, the largest count held exactly in float64")
+	}
+	if err := argerr.KN(fn, "successes", "total", successes, total); err != nil {
+		return err
+	}
+	return argerr.KN(fn, "draws", "total", draws, total)
 }
 
 // valid reports whether h's parameters are in the domain NewHyper accepts.
@@ -147,34 +151,84 @@ func (h Hyper) ratioUp(j int64) float64 {
 // stops (relative to the partial sum), and how often a term obtained from
 // the ratio recurrence is replaced by a freshly computed one, which keeps
 // the rounding of the recurrence to a few units in the last place.
+// Moments (with visit) use momentTol: a term t at distance u from the mode
+// enters the second moment as t u^2, and the square of sumTol keeps even
+// u = 40 standard deviations of a near point mass well below 1e-17 of it.
 const (
 	sumTol      = 1e-17
+	momentTol   = sumTol * sumTol
 	reanchorLen = 32
 )
 
-// sumAway returns the sum of P(X = j) / e^l0 over j = start, start+dir, ...
-// up to end (inclusive), where t = P(X = start) / e^l0 and the terms do not
+// hyperWeights describes the weights of the central (psi = 1) or Fisher
+// noncentral hypergeometric distribution,
+//
+//	w(j) = P_central(X = j) psi^(j - mode) / Z,
+//
+// with mode a most probable value and Z the normalising sum (logZ = 0 for
+// the central one). The summation routines below serve both.
+type hyperWeights struct {
+	h          Hyper
+	psi, lnPsi float64
+	mode       int64
+	logZ       float64
+	// tilt, when set, gives the weights as two binomial terms centred on
+	// the mode (see NoncentralHyper.weights): b(j; K, p1) b(n-j; N-K, p2)
+	// e^((j-mode) delta).
+	tilt   bool
+	p1, p2 float64
+	delta  float64
+}
+
+// centralWeights returns the weights of the central distribution h.
+func (h Hyper) centralWeights() hyperWeights {
+	return hyperWeights{h: h, psi: 1, mode: h.Mode()}
+}
+
+// logTerm returns ln(Z w(j)) for j in the support.
+func (w *hyperWeights) logTerm(j int64) float64 {
+	switch {
+	case w.tilt:
+		h := w.h
+		return Dist{N: h.Successes, P: w.p1}.LogProb(j) +
+			Dist{N: h.Total - h.Successes, P: w.p2}.LogProb(h.Draws-j) +
+			float64(j-w.mode)*w.delta
+	case w.lnPsi == 0:
+		return w.h.logProb(j)
+	}
+	return w.h.logProb(j) + float64(j-w.mode)*w.lnPsi
+}
+
+// sumAway returns the sum of Z w(j) / e^l0 over j = start, start+dir, ...
+// up to end (inclusive), where t = Z w(start) / e^l0 and the terms do not
 // increase in direction dir (start is at or beyond the mode on that side).
 //
-// The PMF is log-concave, so the ratio of successive terms only falls
+// The weights are log-concave, so the ratio of successive terms only falls
 // moving away from the mode: after a term t whose ratio to its predecessor
 // is r < 1, the rest sum to at most t r / (1-r). Summation stops once that
-// bound is below sumTol times the partial sum, or at end. Cost: about the
-// number of terms above 1e-17 of the largest, O(spread) where the range
-// reaches the mode and O(1) deep in a tail. Sums are compensated (Neumaier).
-func (h Hyper) sumAway(l0 float64, start, end, dir int64, t float64) float64 {
+// bound is below sumTol times the partial sum, or at end. A non-nil visit
+// sees every term (j and t) summed, for moments, down to momentTol. Cost: about the
+// number of terms above 1e-17 of the largest, O(standard deviation) where
+// the range reaches the mode and O(1) deep in a tail. Sums are compensated
+// (Neumaier).
+func (w *hyperWeights) sumAway(l0 float64, start, end, dir int64, t float64, visit func(j int64, t float64)) float64 {
 	s, c := t, 0.0
 	j := start
+	tol := sumTol
+	if visit != nil {
+		visit(j, t)
+		tol = momentTol
+	}
 	for step := 1; j != end; step++ {
 		var r float64
 		if dir < 0 {
-			r = h.ratioDown(j)
+			r = w.h.ratioDown(j) / w.psi
 		} else {
-			r = h.ratioUp(j)
+			r = w.h.ratioUp(j) * w.psi
 		}
 		j += dir
 		if step%reanchorLen == 0 {
-			t = math.Exp(h.logProb(j) - l0)
+			t = math.Exp(w.logTerm(j) - l0)
 		} else {
 			t *= r
 		}
@@ -186,27 +240,30 @@ func (h Hyper) sumAway(l0 float64, start, end, dir int64, t float64) float64 {
 			c += (t - ns) + s
 		}
 		s = ns
-		if t == 0 || (r < 1 && t*r < sumTol*(1-r)*s) {
+		if visit != nil {
+			visit(j, t)
+		}
+		if t == 0 || (r < 1 && t*r < tol*(1-r)*s) {
 			break
 		}
 	}
 	return s + c
 }
 
-// logRange returns ln P(a <= X <= b) for lo <= a <= b <= hi in a support of
-// more than one point, summing terms outward from the mode or from the
-// range end nearest to it; the result is never a difference of tails
-// larger than itself.
-func (h Hyper) logRange(a, b int64) float64 {
-	lo, hi := h.Support()
-	m := h.Mode()
+// logRange returns ln of the sum of w(j) over lo <= a <= j <= b <= hi, in a
+// support of more than one point, summing terms outward from the mode or
+// from the range end nearest to it; the result is never a difference of
+// sums larger than itself.
+func (w *hyperWeights) logRange(a, b int64) float64 {
+	lo, hi := w.h.Support()
+	m := w.mode
 	switch {
 	case b <= m:
-		l0 := h.logProb(b)
-		return l0 + math.Log(h.sumAway(l0, b, a, -1, 1))
+		l0 := w.logTerm(b)
+		return l0 + math.Log(w.sumAway(l0, b, a, -1, 1, nil)) - w.logZ
 	case a >= m:
-		l0 := h.logProb(a)
-		return l0 + math.Log(h.sumAway(l0, a, b, +1, 1))
+		l0 := w.logTerm(a)
+		return l0 + math.Log(w.sumAway(l0, a, b, +1, 1, nil)) - w.logZ
 	}
 	// The range holds the mode. When both outside tails are small, their
 	// sum T (each computed directly, at cost set by how far out they lie)
@@ -214,18 +271,26 @@ func (h Hyper) logRange(a, b int64) float64 {
 	// factor 2 in relative error.
 	lt, ut := math.Inf(-1), math.Inf(-1)
 	if a > lo {
-		lt = h.logRange(lo, a-1)
+		lt = w.logRange(lo, a-1)
 	}
 	if b < hi && lt < -math.Ln2 {
-		ut = h.logRange(b+1, hi)
+		ut = w.logRange(b+1, hi)
 	}
 	if t := logAddExp(lt, ut); t < -math.Ln2 {
 		return math.Log1p(-math.Exp(t))
 	}
-	l0 := h.logProb(m)
-	s := h.sumAway(l0, m, a, -1, 1)
+	return w.logRangeAtMode(a, b, nil) - w.logZ
+}
+
+// logRangeAtMode returns ln of the unnormalised sum Z w(j) over a..b, a
+// range that holds the mode, summed outward from the mode both ways; visit,
+// when not nil, sees each term j with its weight relative to the mode's.
+func (w *hyperWeights) logRangeAtMode(a, b int64, visit func(j int64, t float64)) float64 {
+	m := w.mode
+	l0 := w.logTerm(m)
+	s := w.sumAway(l0, m, a, -1, 1, visit)
 	if m < b {
-		s += h.sumAway(l0, m+1, b, +1, h.ratioUp(m))
+		s += w.sumAway(l0, m+1, b, +1, w.h.ratioUp(m)*w.psi, visit)
 	}
 	return l0 + math.Log(s)
 }
@@ -264,7 +329,8 @@ func (h Hyper) LogProbRange(lo, hi int64) float64 {
 	case lo == slo && hi == shi:
 		return 0
 	}
-	return h.logRange(lo, hi)
+	w := h.centralWeights()
+	return w.logRange(lo, hi)
 }
 
 // ProbRange returns P(lo <= X <= hi) = exp(LogProbRange(lo, hi)).

@@ -1,7 +1,10 @@
 #!/usr/bin/python3
-"""Golden values of the hypergeometric distribution for binom.Hyper.
+"""Golden values of the hypergeometric distributions for binom.Hyper and
+binom.NoncentralHyper.
 
-Writes testdata/hyper_golden.tsv: for population N, successes K, draws n
+Writes testdata/hyper_golden.tsv (central) and
+testdata/binom_extra_noncentral.tsv (Fisher's noncentral; method described
+above main_noncentral). The central file holds, for population N, successes K, draws n
 and a value x, the natural logs of P(X = x), P(X <= x) and P(X > x).
 
 Method (independent of the Go code): for N <= 400 every probability is an
@@ -145,5 +148,93 @@ def main():
     print(len(lines), "rows")
 
 
+# ---------------------------------------------------------------------------
+# Fisher's noncentral hypergeometric distribution, for binom.NoncentralHyper:
+# testdata/binom_extra_noncentral.tsv. Every weight C(K,x) C(N-K,n-x) psi^x
+# over the whole support is summed in 50-digit arithmetic (ratio recurrence
+# from the bottom of the support; mpmath has no underflow), so the
+# normalisation is complete rather than truncated.
+
+NC_PARAMS = [
+    (8, 4, 4, "0.1"), (8, 4, 4, "2.5"), (8, 4, 4, "10"),
+    (30, 19, 15, "0.01"), (30, 19, 15, "0.5"), (30, 19, 15, "3"), (30, 19, 15, "100"),
+    (50, 20, 20, "1e-300"), (50, 20, 20, "1e+300"), (50, 20, 20, "1.0000001"),
+    (100, 40, 30, "1e-05"), (100, 40, 30, "0.3"), (100, 40, 30, "7"),
+    (1000, 300, 200, "0.001"), (1000, 300, 200, "0.9"), (1000, 300, 200, "1.1"), (1000, 300, 200, "50"),
+    (100000, 5000, 40000, "0.2"), (100000, 5000, 40000, "5"),
+    (1000000, 500000, 500000, "0.999"), (1000000, 500000, 500000, "1.01"), (1000000, 500000, 500000, "1000"),
+    (1000000, 3, 500000, "1000000"), (1000000, 999990, 17, "0.0001"),
+]
+
+
+def nc_terms(N, K, n, psi):
+    lo, hi = support(N, K, n)
+    t = mpmath.mpf(1)
+    ts = [t]
+    for j in range(lo, hi):
+        t = t * psi * (K - j) * (n - j) / ((j + 1) * (N - K - n + j + 1))
+        ts.append(t)
+    return lo, hi, ts
+
+
+def nc_rows(N, K, n, psis):
+    psi = mpmath.mpf(float(psis))
+    lo, hi, ts = nc_terms(N, K, n, psi)
+    # log of the central weight at lo (the terms above are relative to it)
+    Z = mpmath.fsum(ts)
+    mean = mpmath.fsum(t * (lo + i) for i, t in enumerate(ts)) / Z
+    var = mpmath.fsum(t * (lo + i - mean) ** 2 for i, t in enumerate(ts)) / Z
+    cum = [mpmath.mpf(0)] * (len(ts) + 1)  # cum[i] = sum ts[:i]
+    acc = mpmath.mpf(0)
+    for i, t in enumerate(ts):
+        acc += t
+        cum[i + 1] = acc
+    # upper sums computed from the top, so small upper tails are exact
+    up = [mpmath.mpf(0)] * (len(ts) + 1)  # up[i] = sum ts[i:]
+    acc = mpmath.mpf(0)
+    for i in range(len(ts) - 1, -1, -1):
+        acc += ts[i]
+        up[i] = acc
+    sd = mpmath.sqrt(var)
+    if hi - lo <= 40:
+        xs = list(range(lo - 1, hi + 2))
+    else:
+        pts = {lo - 1, lo, lo + 1, hi - 1, hi, hi + 1}
+        for z in (0, 0.5, 1, 2, 3, 5, 8, 12, 20, 35):
+            pts.add(int(mean + z * sd))
+            pts.add(int(mean - z * sd))
+        xs = sorted(x for x in pts if lo - 1 <= x <= hi + 1)
+    rows = [f"mom\t{N}\t{K}\t{n}\t{psis}\t{fmt(mean)}\t{fmt(var)}"]
+    ninf = mpmath.mpf("-inf")
+    for x in xs:
+        i = x - lo
+        if x < lo:
+            lp, lc, ls = ninf, ninf, mpmath.mpf(0)
+        elif x > hi:
+            lp, lc, ls = ninf, mpmath.mpf(0), ninf
+        else:
+            lp = mpmath.log(ts[i] / Z)
+            lc = mpmath.log(cum[i + 1] / Z) if x < hi else mpmath.mpf(0)
+            ls = mpmath.log(up[i + 1] / Z) if x < hi else ninf
+        rows.append(f"pmf\t{N}\t{K}\t{n}\t{psis}\t{x}\t{fmt(lp)}\t{fmt(lc)}\t{fmt(ls)}")
+    return rows
+
+
+def main_noncentral():
+    lines = []
+    for N, K, n, psis in NC_PARAMS:
+        lines.extend(nc_rows(N, K, n, psis))
+    with open("testdata/binom_extra_noncentral.tsv", "w") as f:
+        f.write("# Fisher's noncentral hypergeometric distribution (odds ratio psi).\n")
+        f.write("# Rows 'mom': N K n psi mean variance. Rows 'pmf': N K n psi x logpmf logcdf logsf; -Inf where 0.\n")
+        f.write("# psi is the float64 nearest the decimal shown; full-support 50-digit sums (see generator).\n")
+        f.write("# Generator: /usr/bin/python3 testdata/gen/hyper_golden.py\n")
+        f.write(f"# Tool: mpmath {mpmath.__version__} at {mpmath.mp.dps} digits; date {datetime.date.today()}\n")
+        for line in lines:
+            f.write(line + "\n")
+    print(len(lines), "noncentral rows")
+
+
 if __name__ == "__main__":
     main()
+    main_noncentral()

@@ -1,0 +1,125 @@
+package binom
+
+import (
+	"bufio"
+	"errors"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+func TestNewNoncentralHyperRejects(t *testing.T) {
+	t.Parallel()
+	tests := []struct {
+		N, K, n int64
+		psi     float64
+		want    string
+	}{
+		{10, 11, 3, 1, "binom.NewNoncentralHyper: successes = 11 exceeds total = 10"},
+		{10, 3, 3, math.NaN(), "binom.NewNoncentralHyper: oddsRatio = NaN is not an odds ratio in [0, +Inf]"},
+		{10, 3, 3, -0.5, "binom.NewNoncentralHyper: oddsRatio = -0.5 is not an odds ratio in [0, +Inf]"},
+	}
+	for _, tc := range tests {
+		_, err := NewNoncentralHyper(tc.N, tc.K, tc.n, tc.psi)
+		if err == nil || err.Error() != tc.want || !errors.Is(err, ErrInvalidArgument) {
+			t.Errorf("NewNoncentralHyper(%d, %d, %d, %v) error = %v, want %q", tc.N, tc.K, tc.n, tc.psi, err, tc.want)
+		}
+	}
+	for _, psi := range []float64{0, 1, math.Inf(1)} {
+		if _, err := NewNoncentralHyper(10, 3, 3, psi); err != nil {
+			t.Errorf("psi = %v rejected: %v", psi, err)
+		}
+	}
+}
+
+// TestNoncentralGolden checks against testdata/binom_extra_noncentral.tsv
+// (mpmath 1.2.1, 50-digit sums over the whole support; generator
+// testdata/gen/hyper_golden.py).
+func TestNoncentralGolden(t *testing.T) {
+	t.Parallel()
+	const tol = 2e-14
+	f, err := os.Open("../testdata/binom_extra_noncentral.tsv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	sc := bufio.NewScanner(f)
+	rows := 0
+	for sc.Scan() {
+		line := sc.Text()
+		if strings.HasPrefix(line, "#") || line == "" {
+			continue
+		}
+		fs := strings.Split(line, "\t")
+		num := make([]float64, len(fs)-1)
+		for i, s := range fs[1:] {
+			if num[i], err = strconv.ParseFloat(s, 64); err != nil {
+				t.Fatalf("%q: %v", line, err)
+			}
+		}
+		d, err := NewNoncentralHyper(int64(num[0]), int64(num[1]), int64(num[2]), num[3])
+		if err != nil {
+			t.Fatal(err)
+		}
+		rows++
+		switch fs[0] {
+		case "mom":
+			if got := d.Mean(); math.Abs(got-num[4]) > 1e-14*num[4] {
+				t.Errorf("%v.Mean() = %.17g, want %.17g", d, got, num[4])
+			}
+			if got := d.Variance(); math.Abs(got-num[5]) > 1e-13*num[5] {
+				t.Errorf("%v.Variance() = %.17g, want %.17g", d, got, num[5])
+			}
+		case "pmf":
+			x := int64(num[4])
+			checks := []struct {
+				name      string
+				want, got float64
+				lin       float64
+			}{
+				{"LogProb", num[5], d.LogProb(x), d.Prob(x)},
+				{"LogCDF", num[6], d.LogCDF(x), d.CDF(x)},
+				{"LogSurvival", num[7], d.LogSurvival(x), d.Survival(x)},
+			}
+			for _, c := range checks {
+				if !logClose(c.want, c.got, tol) || !probClose(c.want, c.lin, tol) {
+					t.Errorf("%v.%s(%d) = %.17g (lin %.17g), want %.17g", d, c.name, x, c.got, c.lin, c.want)
+				}
+			}
+		}
+	}
+	if rows < 400 {
+		t.Errorf("only %d golden rows", rows)
+	}
+}
+
+// TestNoncentralLimits checks the documented limits psi = 0 and +Inf, and
+// that psi = 1 is the central distribution.
+func TestNoncentralLimits(t *testing.T) {
+	t.Parallel()
+	d := NoncentralHyper{30, 19, 15, 0}
+	if d.Prob(4) != 1 || d.Mean() != 4 || d.Variance() != 0 || d.Survival(4) != 0 {
+		t.Errorf("psi = 0: Prob(4) %g Mean %g Var %g", d.Prob(4), d.Mean(), d.Variance())
+	}
+	d.OddsRatio = math.Inf(1)
+	if d.Prob(15) != 1 || d.Mean() != 15 || d.CDF(14) != 0 {
+		t.Errorf("psi = Inf: Prob(15) %g Mean %g", d.Prob(15), d.Mean())
+	}
+	d.OddsRatio = 1
+	h := Hyper{30, 19, 15}
+	if d.LogProb(9) != h.LogProb(9) || d.Mean() != h.Mean() {
+		t.Errorf("psi = 1 differs from Hyper")
+	}
+	// Mean increases with psi (monotonicity the conditional MLE relies on).
+	prev := math.Inf(-1)
+	for _, psi := range []float64{1e-300, 1e-10, 0.01, 0.5, 0.99, 1, 1.01, 3, 1e5, 1e300} {
+		d.OddsRatio = psi
+		m := d.Mean()
+		if !(m > prev) || m < 4 || m > 15 {
+			t.Errorf("Mean(psi = %g) = %g after %g", psi, m, prev)
+		}
+		prev = m
+	}
+}
