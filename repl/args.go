@@ -38,6 +38,10 @@ type Args struct {
 // known name) and options given twice.
 func parseArgs(cmd *Command, words []string) (*Args, error) {
 	a := &Args{cmd: cmd}
+	if cmd.raw {
+		a.pos = words
+		return a, nil
+	}
 	for _, w := range words {
 		name, value, ok := strings.Cut(w, "=")
 		if !ok {

@@ -1,10 +1,39 @@
 package repl
 
 import (
+	"context"
+
 	"github.com/kofnlab/kofn/test"
 )
 
-func init() { register(checkCmd, flipsCmd) }
+func init() {
+	register(checkCmd, flipsCmd)
+	// The row form leaves out the inverted interval, which costs about a
+	// hundred p-values; each ROWS bounds gives intervals.
+	checkCmd.Row = &rowSpec{In: []string{"k", "n"}, Out: []string{"estimate", "p_value"},
+		prepare: func(c *Call) (rowFunc, error) {
+			p0, o, _, err := checkSetup(c)
+			o.SkipInterval = true
+			return func(_ context.Context, v []int64) ([]float64, error) {
+				r, err := test.Binomial(v[0], v[1], p0, o)
+				if err != nil {
+					return nil, err
+				}
+				return []float64{r.Estimate, r.PValue}, nil
+			}, err
+		}}
+	flipsCmd.Row = &rowSpec{In: []string{"a", "b", "c", "d"}, Out: []string{"estimate", "p_value"},
+		prepare: func(c *Call) (rowFunc, error) {
+			o, _, err := flipsSetup(c)
+			return func(_ context.Context, v []int64) ([]float64, error) {
+				r, err := test.McNemar(v[1], v[2], o)
+				if err != nil {
+					return nil, err
+				}
+				return []float64{r.Estimate, r.PValue}, nil
+			}, err
+		}}
+}
 
 var binomialTestMethods = enumWords(func(m test.BinomialMethod) string { return m.String() })
 var mcnemarMethods = enumWords(func(m test.McNemarMethod) string {
@@ -57,6 +86,27 @@ func testSide(a *Args) (test.Alternative, string, error) {
 	return test.TwoSided, "two-sided", nil
 }
 
+// checkSetup reads the options of check.
+func checkSetup(c *Call) (p0 float64, o test.BinomialOptions, sideText string, err error) {
+	a := c.Args
+	if err = a.Need("p"); err != nil {
+		return
+	}
+	if p0, err = a.OpenProb("p", 0); err != nil {
+		return
+	}
+	m, err := c.Method()
+	if err != nil {
+		return
+	}
+	o.Method = enumValue[test.BinomialMethod](binomialTestMethods, m)
+	if o.Alternative, sideText, err = testSide(a); err != nil {
+		return
+	}
+	o.Level, err = c.Level()
+	return
+}
+
 func runCheck(c *Call) error {
 	a := c.Args
 	if err := a.Want(1, 1); err != nil {
@@ -66,26 +116,11 @@ func runCheck(c *Call) error {
 	if err != nil {
 		return err
 	}
-	if err := a.Need("p"); err != nil {
-		return err
-	}
-	p0, err := a.OpenProb("p", 0)
+	p0, o, sideText, err := checkSetup(c)
 	if err != nil {
 		return err
 	}
-	m, err := c.Method()
-	if err != nil {
-		return err
-	}
-	alt, sideText, err := testSide(a)
-	if err != nil {
-		return err
-	}
-	level, err := c.Level()
-	if err != nil {
-		return err
-	}
-	r, err := test.Binomial(k, n, p0, test.BinomialOptions{Method: enumValue[test.BinomialMethod](binomialTestMethods, m), Alternative: alt, Level: level})
+	r, err := test.Binomial(k, n, p0, o)
 	if err != nil {
 		return err
 	}
@@ -147,21 +182,28 @@ func pairCounts(a *Args) ([4]int64, error) {
 	return cells, nil
 }
 
+// flipsSetup reads the options of flips.
+func flipsSetup(c *Call) (o test.McNemarOptions, sideText string, err error) {
+	m, err := c.Method()
+	if err != nil {
+		return
+	}
+	o.Method = enumValue[test.McNemarMethod](mcnemarMethods, m)
+	o.Alternative, sideText, err = testSide(c.Args)
+	return
+}
+
 func runFlips(c *Call) error {
 	a := c.Args
 	cells, err := pairCounts(a)
 	if err != nil {
 		return err
 	}
-	m, err := c.Method()
+	o, sideText, err := flipsSetup(c)
 	if err != nil {
 		return err
 	}
-	alt, sideText, err := testSide(a)
-	if err != nil {
-		return err
-	}
-	r, err := test.McNemar(cells[1], cells[2], test.McNemarOptions{Method: enumValue[test.McNemarMethod](mcnemarMethods, m), Alternative: alt})
+	r, err := test.McNemar(cells[1], cells[2], o)
 	if err != nil {
 		return err
 	}

@@ -1,10 +1,25 @@
 package repl
 
 import (
+	"context"
+
 	"github.com/kofnlab/kofn/test"
 )
 
-func init() { register(versusCmd) }
+func init() {
+	register(versusCmd)
+	versusCmd.Row = &rowSpec{In: []string{"k1", "n1", "k2", "n2"}, Out: []string{"difference", "p_value"},
+		prepare: func(c *Call) (rowFunc, error) {
+			run, _, _, err := versusSetup(c)
+			return func(ctx context.Context, v []int64) ([]float64, error) {
+				r, err := run(ctx, v[0], v[1], v[2], v[3])
+				if err != nil {
+					return nil, err
+				}
+				return []float64{r.Estimate, r.PValue}, nil
+			}, err
+		}}
+}
 
 // versusMethods are the two-sample test words: Fisher's conditional test
 // in its two-sided definitions and mid-p forms, and the unconditional
@@ -51,39 +66,50 @@ func twoCounts(a *Args) (k1, n1, k2, n2 int64, err error) {
 	return
 }
 
+// versusSetup reads the options of versus and returns the test to run.
+func versusSetup(c *Call) (run func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error), m, sideText string, err error) {
+	a := c.Args
+	if m, err = c.Method(); err != nil {
+		return
+	}
+	alt, sideText, err := testSide(a)
+	if err != nil {
+		return
+	}
+	switch m {
+	case "barnard", "boschloo":
+		o := test.UnconditionalOptions{Alternative: alt}
+		if o.BergerBoos, err = a.Prob("berger-boos", 0); err != nil {
+			return
+		}
+		f := test.Boschloo
+		if m == "barnard" {
+			f = test.Barnard
+		}
+		run = func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error) { return f(ctx, k1, n1, k2, n2, o) }
+	default:
+		o := test.FisherOptions{Alternative: alt, MidP: m == "fisher-mid-p" || m == "fisher-central-mid-p"}
+		if m == "fisher-central" || m == "fisher-central-mid-p" {
+			o.Method = test.FisherCentral
+		}
+		run = func(_ context.Context, k1, n1, k2, n2 int64) (test.Result, error) {
+			return test.Fisher(k1, n1, k2, n2, o)
+		}
+	}
+	return
+}
+
 func runVersus(c *Call) error {
 	a := c.Args
 	k1, n1, k2, n2, err := twoCounts(a)
 	if err != nil {
 		return err
 	}
-	m, err := c.Method()
+	run, m, sideText, err := versusSetup(c)
 	if err != nil {
 		return err
 	}
-	alt, sideText, err := testSide(a)
-	if err != nil {
-		return err
-	}
-	var r test.Result
-	switch m {
-	case "barnard", "boschloo":
-		o := test.UnconditionalOptions{Alternative: alt}
-		if o.BergerBoos, err = a.Prob("berger-boos", 0); err != nil {
-			return err
-		}
-		if m == "barnard" {
-			r, err = test.Barnard(c.Ctx, k1, n1, k2, n2, o)
-		} else {
-			r, err = test.Boschloo(c.Ctx, k1, n1, k2, n2, o)
-		}
-	default:
-		o := test.FisherOptions{Alternative: alt, MidP: m == "fisher-mid-p" || m == "fisher-central-mid-p"}
-		if m == "fisher-central" || m == "fisher-central-mid-p" {
-			o.Method = test.FisherCentral
-		}
-		r, err = test.Fisher(k1, n1, k2, n2, o)
-	}
+	r, err := run(c.Ctx, k1, n1, k2, n2)
 	if err != nil {
 		return err
 	}

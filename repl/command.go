@@ -18,6 +18,9 @@ type Command struct {
 	// Row, when set, lets the batch command apply the verb to one CSV row
 	// (see batch.go).
 	Row *rowSpec
+	// raw passes every word after the verb to Run as positional, for
+	// commands that hand options on to another verb (each).
+	raw bool
 }
 
 // Opt documents one name=value option.
