@@ -44,7 +44,7 @@ var eachCmd = &Command{
 			"input: kofn -c 'each - check p=0.3' < visits.csv.",
 		Methods:     "Any method of the verb; the verbs that run on rows are listed by help each.",
 		Assumptions: "Each row is a separate analysis: no correction for testing many rows is applied.",
-		Examples: []string{"each - check p=0.3", "each - flips method=exact"},
+		Examples:    []string{"each - check p=0.3", "each - flips method=exact"},
 		Sources:     "RFC 4180 (CSV).",
 	},
 	Run: runEach,
