@@ -49,3 +49,30 @@ func BenchmarkDesignPlanClose(b *testing.B) {
 		}
 	}
 }
+
+// Goal (issue 5): exact two-sample power at n1 = n2 = 200 under 20 ms.
+func BenchmarkTwoSamplePowerFisher200(b *testing.B) {
+	for b.Loop() {
+		if _, err := TwoSamplePower(context.Background(), 200, 200, 0.3, 0.45, TwoSampleOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkTwoSamplePowerZ200(b *testing.B) {
+	o := TwoSampleOptions{Test: ZPooled}
+	for b.Loop() {
+		if _, err := TwoSamplePower(context.Background(), 200, 200, 0.3, 0.45, o); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkTwoSamplePowerBarnard200(b *testing.B) {
+	o := TwoSampleOptions{Test: Barnard}
+	for b.Loop() {
+		if _, err := TwoSamplePower(context.Background(), 200, 200, 0.3, 0.45, o); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

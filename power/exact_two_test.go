@@ -1,0 +1,135 @@
+package power
+
+import (
+	"context"
+	"errors"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+)
+
+// Exact two-sample power against an independent enumeration in which
+// SciPy 1.10's fisher_exact, barnard_exact (pooled) and the pooled z
+// decide every table: testdata/gen/power_two.py.
+func TestTwoSampleGolden(t *testing.T) {
+	t.Parallel()
+	cases, rows := goldenRows(t, "power_two.tsv")
+	var want, got []float64
+	var scan []NPower
+	for _, r := range rows {
+		tst, err := ParseExactTest(map[string]string{"fisher": "fisher", "barnard": "barnard", "z": "z"}[r[1]])
+		if err != nil {
+			t.Fatal(err)
+		}
+		alt, err := ParseAlternative(r[7])
+		if err != nil {
+			t.Fatal(err)
+		}
+		n1, n2 := atoi(t, r[2]), atoi(t, r[3])
+		o := TwoSampleOptions{Test: tst, Alternative: alt, Alpha: atof(t, r[6])}
+		ep, err := TwoSamplePower(context.Background(), n1, n2, atof(t, r[4]), atof(t, r[5]), o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want = append(want, atof(t, r[8]))
+		got = append(got, ep.Power)
+		if r[0] == "scan" {
+			scan = append(scan, NPower{N: n1, Power: ep.Power})
+		}
+	}
+	if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
+		t.Errorf("exact two-sample power (-want +got):\n%s", diff)
+	}
+	c := cases["scan"]
+	ss, err := TwoSampleN(context.Background(), atof(t, c["p1"]), atof(t, c["p2"]), TwoSampleOptions{Alpha: atof(t, c["alpha"]), Power: atof(t, c["target"])})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ss.First != atoi(t, c["first"]) || ss.Stable != atoi(t, c["stable"]) {
+		t.Errorf("Fisher scan: first, stable = %d, %d; want %s, %s", ss.First, ss.Stable, c["first"], c["stable"])
+	}
+}
+
+// Properties: exact power increases with the effect and with alpha; the
+// Fisher exact size stays at or below alpha; Barnard is at least as
+// powerful as Fisher here (Mehta and Senchaudhuri 2003 discuss why).
+func TestTwoSampleProperties(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	prev := 0.0
+	for _, p2 := range []float64{0.35, 0.45, 0.55, 0.65} {
+		ep, err := TwoSamplePower(ctx, 40, 40, 0.3, p2, TwoSampleOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if ep.Power < prev {
+			t.Errorf("power fell to %v at p2 = %v", ep.Power, p2)
+		}
+		if ep.Size > 0.05 {
+			t.Errorf("Fisher size %v > 0.05", ep.Size)
+		}
+		prev = ep.Power
+	}
+	prev = 0
+	for _, a := range []float64{0.01, 0.05, 0.1, 0.2} {
+		ep, err := TwoSamplePower(ctx, 30, 30, 0.3, 0.6, TwoSampleOptions{Alpha: a})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if ep.Power < prev {
+			t.Errorf("power fell to %v at alpha = %v", ep.Power, a)
+		}
+		prev = ep.Power
+	}
+	f, err := TwoSamplePower(ctx, 25, 25, 0.2, 0.55, TwoSampleOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := TwoSamplePower(ctx, 25, 25, 0.2, 0.55, TwoSampleOptions{Test: Barnard})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b.Power < f.Power {
+		t.Errorf("Barnard %v below Fisher %v", b.Power, f.Power)
+	}
+}
+
+// The normal n with the CPS correction is close to the exact Fisher n for
+// samples in the hundreds (Casagrande, Pike, Smith 1978 built the
+// correction to approximate Fisher's test): Fleiss' p1 = 0.10, p2 = 0.20.
+func TestNormalCloseToExactFisher(t *testing.T) {
+	t.Parallel()
+	if testing.Short() {
+		t.Skip("exact search over n in the hundreds")
+	}
+	ss, err := TwoSampleN(context.Background(), 0.10, 0.20, TwoSampleOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r := float64(ss.Stable) / float64(ss.Normal.N); r < 0.95 || r > 1.05 {
+		t.Errorf("exact Fisher n %d (first %d) vs CPS normal n %d", ss.Stable, ss.First, ss.Normal.N)
+	}
+}
+
+func TestTwoSampleErrors(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	if _, err := TwoSamplePower(ctx, 0, 10, 0.2, 0.3, TwoSampleOptions{}); !errors.Is(err, ErrInvalidArgument) {
+		t.Errorf("n1 = 0: %v", err)
+	}
+	if _, err := TwoSamplePower(ctx, 3000, 3000, 0.2, 0.3, TwoSampleOptions{}); !errors.Is(err, ErrTooLarge) {
+		t.Errorf("too many tables: %v", err)
+	}
+	if _, err := TwoSampleN(ctx, 0.2, 0.2, TwoSampleOptions{}); !errors.Is(err, ErrInvalidArgument) {
+		t.Errorf("equal proportions: %v", err)
+	}
+	if _, err := TwoSampleN(ctx, 0.3, 0.2, TwoSampleOptions{Alternative: Less}); !errors.Is(err, ErrNoSolution) {
+		t.Errorf("wrong side: %v", err)
+	}
+	cctx, cancel := context.WithCancel(ctx)
+	cancel()
+	if _, err := TwoSamplePower(cctx, 100, 100, 0.2, 0.3, TwoSampleOptions{}); !errors.Is(err, context.Canceled) {
+		t.Errorf("cancelled: %v", err)
+	}
+}
