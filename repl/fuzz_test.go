@@ -21,6 +21,11 @@ func FuzzLine(f *testing.F) {
 	} {
 		f.Add(seed)
 	}
+	for _, name := range commandNames() {
+		for _, ex := range registry[name].Help.Examples {
+			f.Add(ex)
+		}
+	}
 	f.Fuzz(func(t *testing.T, line string) {
 		if strings.ContainsAny(line, "\n\r") {
 			return

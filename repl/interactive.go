@@ -36,6 +36,7 @@ func terminalWidth() int {
 // Ctrl-C while a command runs cancels its context; at the prompt it clears
 // the line. It returns ExitOK: at a terminal, failures were seen.
 func interactive(s *Session, stdin io.Reader, useHistory bool) int {
+	s.interactive = true
 	fmt.Fprintln(s.Out, greeting)
 	fmt.Fprintln(s.Out, hint)
 	cfg := &readline.Config{

@@ -35,8 +35,9 @@ type Session struct {
 	In  io.Reader // data for "each -" (standard input by default)
 	Set Settings
 
-	script bool // prefix errors with the line number
-	lineNo int
+	script      bool // prefix errors with the line number
+	interactive bool // at a terminal prompt
+	lineNo      int
 }
 
 // NewSession returns a session with default settings writing to out and errw.
@@ -92,6 +93,9 @@ func (s *Session) report(verb string, err error) {
 	msg := strings.ReplaceAll(err.Error(), "\n", " ")
 	if errors.Is(err, context.Canceled) {
 		msg = "stopped (interrupted); nothing was lost, the session continues"
+		if s.interactive {
+			msg = "\n" + msg // after the ^C the terminal echoed
+		}
 	}
 	if s.Set.JSON {
 		b, _ := jsonfloat.Marshal(struct {
@@ -101,6 +105,9 @@ func (s *Session) report(verb string, err error) {
 		fmt.Fprintf(s.Out, "%s\n", b)
 	}
 	prefix := "error: "
+	if strings.HasPrefix(msg, "\n") {
+		prefix, msg = "\nerror: ", msg[1:]
+	}
 	if s.script {
 		prefix = fmt.Sprintf("line %d: error: ", s.lineNo)
 	}
