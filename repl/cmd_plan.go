@@ -1,6 +1,7 @@
 package repl
 
 import (
+	"context"
 	"math"
 	"strings"
 
@@ -20,6 +21,30 @@ var oneSampleMethods = func() []string {
 	return append(ws, "normal")
 }()
 
+// twoPlanMethods are the two-group planning methods: the normal formula
+// (default) or the exact enumeration of a test's power; pairedPlanMethods
+// the McNemar tests whose power is computed (exact first, the default).
+var (
+	twoPlanMethods    = append([]string{"normal"}, enumWords(func(t power.ExactTest) string { return t.String() })...)
+	pairedPlanMethods = enumWords(func(m power.PairedMethod) string { return m.String() })
+	planMethods       = unique(oneSampleMethods, twoPlanMethods, pairedPlanMethods)
+)
+
+// unique concatenates word lists, dropping repeats.
+func unique(lists ...[]string) []string {
+	seen := map[string]bool{}
+	var out []string
+	for _, l := range lists {
+		for _, w := range l {
+			if !seen[w] {
+				seen[w] = true
+				out = append(out, w)
+			}
+		}
+	}
+	return out
+}
+
 var twoSampleWords = struct{ variance, correction, hypothesis []string }{
 	enumWords(func(v power.Variance) string { return v.String() }),
 	enumWords(func(v power.Correction) string { return v.String() }),
@@ -35,7 +60,7 @@ var planOptions = []Opt{
 	{Name: "ny", Doc: "paired: probability a pair is no then yes"},
 	{Name: "alpha", Doc: "significance level (default: 1 - the session level)"},
 	optTestSide,
-	{Name: "method", Doc: "one sample: the exact test's two-sided definition, a mid-p variant, or normal", Values: oneSampleMethods},
+	{Name: "method", Doc: "one sample: point-probability (default), central, blaker, their -mid-p forms, or normal; two groups: normal (default), fisher, barnard or z (exact power by enumeration); paired: exact (default), mid-p or asymptotic", Values: planMethods},
 	{Name: "variance", Doc: "two groups: null variance of the normal formula", Values: twoSampleWords.variance},
 	{Name: "correction", Doc: "two groups: continuity correction (cps: Casagrande-Pike-Smith; none)", Values: twoSampleWords.correction},
 	{Name: "hypothesis", Doc: "two groups: equality, non-inferiority or equivalence", Values: twoSampleWords.hypothesis},
@@ -58,15 +83,16 @@ var detectCmd = &Command{
 		Computes: "The probability that a test at level alpha rejects H0 when the truth is as stated. One " +
 			"sample (p, truth): the exact binomial test's power, by summing the true distribution over the " +
 			"rejection region, with the attained size and the counts that do not reject. Two groups (p1, p2): " +
-			"the normal-approximation power of the comparison. Paired (yn, ny): the asymptotic power of " +
-			"McNemar's test. With n=LO..HI the power is drawn against n: exact power is a sawtooth, because " +
+			"the power of the comparison. Paired (yn, ny): the power of McNemar's test. With n=LO..HI the power is drawn against n: exact power is a sawtooth, because " +
 			"adding a trial can shrink the rejection region.",
 		Methods: "One sample: exact with the point-probability (default), central or blaker two-sided " +
-			"definition, their -mid-p variants, or normal. Two groups: Fleiss' formula with pooled or unpooled " +
-			"null variance and the Casagrande-Pike-Smith correction. Paired: Connor's formula.",
+			"definition, their -mid-p variants, or normal. Two groups: normal (default), Fleiss' formula with " +
+			"pooled or unpooled null variance and the Casagrande-Pike-Smith correction; or the exact power of " +
+			"fisher, barnard or z (pooled z test) by enumerating both binomials, limited to (n1+1)(n2+1) <= " +
+			"4100000 tables. Paired: McNemar exact (default), mid-p, or asymptotic (Connor's formula).",
 		Assumptions: "Independent trials; fixed n; the stated truth is the effect worth detecting.",
 		Examples: []string{"detect n=40 p=0.3 truth=0.5", "detect n=10..120 p=0.3 truth=0.5",
-			"detect n=474 p1=0.05 p2=0.10", "detect n=100 yn=0.15 ny=0.05"},
+			"detect n=474 p1=0.05 p2=0.10", "detect n=60 p1=0.2 p2=0.5 method=fisher", "detect n=100 yn=0.15 ny=0.05"},
 		Sources: planSources,
 	},
 	Run: runDetect,
@@ -85,12 +111,13 @@ var sizeCmd = &Command{
 			"exact search reports the first n whose power reaches the target and the n from which every larger " +
 			"n keeps it (they differ because exact power is a sawtooth in n), beside the normal-approximation " +
 			"n, with a plot of the sawtooth. Two groups: Fleiss' formula with the Casagrande-Pike-Smith " +
-			"continuity correction by default, also for non-inferiority and equivalence margins. Paired: " +
-			"Connor's formula for McNemar's test.",
+			"continuity correction by default, also for non-inferiority and equivalence margins, or an exact " +
+			"search on the enumerated power of fisher, barnard or z. Paired: an exact search on McNemar's " +
+			"test (default), or Connor's formula with method=asymptotic.",
 		Methods:     detectCmd.Help.Methods,
 		Assumptions: "Independent trials; the stated truth is the smallest effect worth detecting.",
 		Examples: []string{"size p=0.3 truth=0.5", "size p1=0.05 p2=0.10", "size p1=0.05 p2=0.10 correction=none",
-			"size yn=0.15 ny=0.05 power=90%"},
+			"size p1=0.2 p2=0.5 method=fisher", "size yn=0.15 ny=0.05 power=90%"},
 		Sources: planSources + " Fleiss (1981) Table A.3 gives 474 per group for 0.05 against 0.10.",
 	},
 	Run: runSize,
@@ -117,6 +144,7 @@ type planInputs struct {
 	method       string
 	two          power.TwoSampleOptions
 	exactOneSide power.OneSampleOptions
+	pair         power.PairedOptions
 }
 
 func planArgs(c *Call) (planInputs, error) {
@@ -176,8 +204,21 @@ func planArgs(c *Call) (planInputs, error) {
 		in.exactOneSide = power.OneSampleOptions{Alpha: in.alpha, Alternative: in.alt, Mid: base != in.method,
 			Method: enumValue[power.TwoSidedMethod](oneSampleMethods, base)}
 	}
+	if in.form == paired {
+		if in.method, err = a.Choice("method", pairedPlanMethods[0], pairedPlanMethods...); err != nil {
+			return in, err
+		}
+		in.pair = power.PairedOptions{Alpha: in.alpha, Alternative: in.alt,
+			Method: enumValue[power.PairedMethod](pairedPlanMethods, in.method)}
+	}
 	if in.form == twoSample {
+		if in.method, err = a.Choice("method", twoPlanMethods[0], twoPlanMethods...); err != nil {
+			return in, err
+		}
 		o := power.TwoSampleOptions{Alpha: in.alpha, Alternative: in.alt}
+		if in.method != "normal" {
+			o.Test = enumValue[power.ExactTest](twoPlanMethods[1:], in.method)
+		}
 		v, err := a.Choice("variance", twoSampleWords.variance[0], twoSampleWords.variance...)
 		if err != nil {
 			return in, err
@@ -218,23 +259,37 @@ func (in planInputs) describe(s *Session) string {
 
 func fmtIn(x float64) string { return in(x) }
 
+// exact reports whether the design's method enumerates exact power.
+func (in planInputs) exact() bool {
+	return in.method != "normal" && !(in.form == paired && in.method == "asymptotic")
+}
+
 // powerAt returns the power of the design at size n (group 1 n, group 2
-// n2) by the form's method, and the method's name.
-func (in planInputs) powerAt(n, n2 int64) (float64, string, error) {
-	switch in.form {
-	case oneSample:
-		if in.method == "normal" {
-			p, err := power.OneSampleNormalPower(n, in.p0, in.p1, power.OneSampleOptions{Alpha: in.alpha, Alternative: in.alt})
-			return p, "normal approximation", err
-		}
-		r, err := power.OneSamplePower(n, in.p0, in.p1, in.exactOneSide)
-		return r.Power, r.Test, err
-	case twoSample:
+// n2), with the exact result where the method is exact.
+func (in planInputs) powerAt(ctx context.Context, n, n2 int64) (float64, string, *power.ExactPower, error) {
+	var ex power.ExactPower
+	var err error
+	switch {
+	case in.form == oneSample && in.exact():
+		ex, err = power.OneSamplePower(n, in.p0, in.p1, in.exactOneSide)
+	case in.form == oneSample:
+		p, err := power.OneSampleNormalPower(n, in.p0, in.p1, power.OneSampleOptions{Alpha: in.alpha, Alternative: in.alt})
+		return p, "normal approximation", nil, err
+	case in.form == twoSample && in.exact():
+		ex, err = power.TwoSamplePower(ctx, n, n2, in.q1, in.q2, in.two)
+	case in.form == twoSample:
 		p, err := power.TwoSampleNormalPower(n, n2, in.q1, in.q2, in.two)
-		return p, "normal approximation (" + in.two.Variance.String() + " variance, correction " + in.two.Correction.String() + ")", err
+		return p, "normal approximation (" + in.two.Variance.String() + " variance, correction " + in.two.Correction.String() + ")", nil, err
+	default:
+		ex, err = power.PairedPower(n, in.yn, in.ny, in.pair)
+		if ex.Test == "" {
+			ex.Test = "McNemar " + in.method
+		}
 	}
-	p, err := power.PairedNormalPower(n, in.yn, in.ny, power.PairedOptions{Alpha: in.alpha, Alternative: in.alt})
-	return p, "McNemar, normal approximation", err
+	if err != nil {
+		return 0, "", nil, err
+	}
+	return ex.Power, ex.Test, &ex, nil
 }
 
 type detectResult struct {
@@ -273,7 +328,7 @@ func runDetect(c *Call) error {
 	}
 	s := c.S
 	if lo == hi {
-		pw, method, err := in.powerAt(lo, n2)
+		pw, method, ex, err := in.powerAt(c.Ctx, lo, n2)
 		if err != nil {
 			return err
 		}
@@ -287,16 +342,14 @@ func runDetect(c *Call) error {
 			b.Row("n", count(lo))
 		}
 		b.Row("power", s.num(pw), "chance the test rejects H0 under the stated truth")
-		if in.form == oneSample && in.method != "normal" {
-			ex, err := power.OneSamplePower(lo, in.p0, in.p1, in.exactOneSide)
-			if err != nil {
-				return err
-			}
-			r.Exact = &ex
+		if ex != nil {
+			r.Exact = ex
 			b.Row("attained size", s.num(ex.Size), "chance it rejects when H0 is true (alpha "+fmtIn(in.alpha)+")")
-			if ex.AcceptLo <= ex.AcceptHi {
+			switch {
+			case in.form != oneSample:
+			case ex.AcceptLo <= ex.AcceptHi:
 				b.Row("not rejected", "k = "+count(ex.AcceptLo)+" to "+count(ex.AcceptHi))
-			} else {
+			default:
 				b.Row("not rejected", "none: every outcome rejects")
 			}
 		}
@@ -312,19 +365,22 @@ func runDetect(c *Call) error {
 	}
 	var curve []power.NPower
 	method := ""
-	if in.form == oneSample && in.method != "normal" {
+	if in.form == oneSample && in.exact() {
 		all, err := power.OneSampleCurve(c.Ctx, in.p0, in.p1, hi, in.exactOneSide)
 		if err != nil {
 			return err
 		}
 		curve = all[lo-1:]
-		_, method, _ = in.powerAt(lo, lo)
+		_, method, _, _ = in.powerAt(c.Ctx, lo, lo)
 	} else {
+		if in.form == twoSample && in.exact() && hi-lo > 400 {
+			return inputErr("n="+a.Str("n", ""), "spans more than 400 sizes for an exact two-group curve; narrow the range")
+		}
 		for n := lo; n <= hi; n++ {
-			if n%1024 == 0 && c.Ctx.Err() != nil {
+			if c.Ctx.Err() != nil {
 				return c.Ctx.Err()
 			}
-			pw, m, err := in.powerAt(n, n)
+			pw, m, _, err := in.powerAt(c.Ctx, n, n)
 			if err != nil {
 				return err
 			}
@@ -414,34 +470,26 @@ func runSize(c *Call) error {
 		if err != nil {
 			return err
 		}
-		c.Data(sizeResult{Exact: &r})
-		b.Row("method", r.Test)
-		b.Row("first n", count(r.First), "power "+s.num(r.FirstPower)+": the smallest n reaching "+fmtIn(target))
-		if r.Stable > 0 {
-			b.Row("safe n", count(r.Stable), "power "+s.num(r.StablePower)+": every n from here to "+count(r.Horizon)+" reaches it")
-		} else {
-			b.Row("safe n", "not found", "power drops below the target again up to n = "+count(r.Horizon))
-		}
-		b.Row("attained size", s.num(r.Size))
-		b.Row("normal approx.", count(r.Normal.N), r.Normal.Method)
-		b.Warn(r.Warnings...)
-		// Plot the sawtooth around the first and safe n.
-		cols := int64(s.plotColumns(6))
-		from := max(1, r.First-cols/3)
-		to := min(r.Horizon, from+cols-1)
-		if r.Stable > to {
-			to = min(r.Horizon, r.Stable+cols/6)
-			from = max(1, to-cols+1)
-		}
-		c.Plot(powerPlot(s, r.Curve[from-1:to], target))
+		exactSizeRows(c, b, r, target)
 	case twoSample:
 		o := in.two
-		o.Power = target
+		o.Power, o.MaxN = target, upto
 		if o.Ratio, err = a.Float("ratio", 0); err != nil {
 			return err
 		}
 		if a.Has("ratio") && !(o.Ratio > 0) {
 			return inputErr("ratio="+a.Str("ratio", ""), "must be above 0")
+		}
+		if in.exact() {
+			r, err := power.TwoSampleN(c.Ctx, in.q1, in.q2, o)
+			if err != nil {
+				return err
+			}
+			exactSizeRows(c, b, r, target)
+			return nil
+		}
+		if a.Has("upto") {
+			return inputErr("upto="+a.Str("upto", ""), "applies to exact searches only")
 		}
 		r, err := power.TwoSampleNormalN(in.q1, in.q2, o)
 		if err != nil {
@@ -450,14 +498,51 @@ func runSize(c *Call) error {
 		c.Data(sizeResult{Normal: &r})
 		normalRows(s, b, r, "per group")
 	case paired:
-		r, err := power.PairedNormalN(in.yn, in.ny, power.PairedOptions{Alpha: in.alpha, Power: target, Alternative: in.alt, MaxN: upto})
+		o := in.pair
+		o.Power, o.MaxN = target, upto
+		r, err := power.PairedN(c.Ctx, in.yn, in.ny, o)
 		if err != nil {
 			return err
 		}
-		c.Data(sizeResult{Normal: &r})
-		normalRows(s, b, r, "pairs")
+		exactSizeRows(c, b, r, target)
 	}
 	return nil
+}
+
+// exactSizeRows writes an exact sample size search: the first and the
+// safe n, the attained size and the normal-approximation n, and plots the
+// sawtooth around them.
+func exactSizeRows(c *Call, b *Block, r power.ExactSize, target float64) {
+	s := c.S
+	c.Data(sizeResult{Exact: &r})
+	b.Row("method", r.Test)
+	b.Row("first n", count(r.First), "power "+s.num(r.FirstPower)+": the smallest n reaching "+fmtIn(target))
+	if r.Stable > 0 {
+		b.Row("safe n", count(r.Stable), "power "+s.num(r.StablePower)+": every n from here to "+count(r.Horizon)+" reaches it")
+	} else {
+		b.Row("safe n", "not found", "power drops below the target again up to n = "+count(r.Horizon))
+	}
+	b.Row("attained size", s.num(r.Size))
+	b.Row("normal approx.", count(r.Normal.N), r.Normal.Method)
+	b.Warn(r.Warnings...)
+	// Plot the sawtooth around the first and safe n, from the curve points
+	// the search computed.
+	cols := int64(s.plotColumns(6))
+	from := max(1, r.First-cols/3)
+	to := from + cols - 1
+	if r.Stable > to {
+		to = r.Stable + cols/6
+		from = max(1, to-cols+1)
+	}
+	var pts []power.NPower
+	for _, pt := range r.Curve {
+		if pt.N >= from && pt.N <= to {
+			pts = append(pts, pt)
+		}
+	}
+	if len(pts) > 1 {
+		c.Plot(powerPlot(s, pts, target))
+	}
 }
 
 // normalRows writes a normal-approximation sample size.

@@ -72,8 +72,22 @@ func TestPlanningMatchesPackage(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := num(t, runJSON(t, "detect n=100 yn=0.15 ny=0.05"), "power"); got != pw {
+	if got := num(t, runJSON(t, "detect n=100 yn=0.15 ny=0.05 method=asymptotic"), "power"); got != pw {
 		t.Errorf("paired detect: %v, package %v", got, pw)
+	}
+	pe, err := power.PairedPower(100, 0.15, 0.05, power.PairedOptions{Alpha: 0.05})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := num(t, runJSON(t, "detect n=100 yn=0.15 ny=0.05"), "power"); got != pe.Power {
+		t.Errorf("paired exact detect: %v, package %v", got, pe.Power)
+	}
+	te, err := power.TwoSamplePower(context.Background(), 60, 60, 0.2, 0.5, power.TwoSampleOptions{Alpha: 0.05, Test: power.Fisher})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := num(t, runJSON(t, "detect n=60 p1=0.2 p2=0.5 method=fisher"), "power"); got != te.Power {
+		t.Errorf("two-group exact detect: %v, package %v", got, te.Power)
 	}
 	curve, err := power.OneSampleCurve(context.Background(), 0.3, 0.5, 60, power.OneSampleOptions{Alpha: 0.05})
 	if err != nil {

@@ -127,12 +127,24 @@ func runSet(c *Call) error {
 	}
 	c.S.Set = next
 	c.Data(settingsView{next.Level, next.Digits, next.JSON, plotStyle(next.ASCII), next.Width, next.effectiveMethods()})
-	b := c.Block("session settings")
-	b.Row("level", pct(next.Level), "confidence level when a command gets no level=")
-	b.Row("digits", strconv.Itoa(next.Digits), "significant digits printed")
-	b.Row("json", onOff(next.JSON), "one JSON object per command")
-	b.Row("plot", plotStyle(next.ASCII), "plot characters")
-	b.Row("width", strconv.Itoa(next.Width), "plot width in columns")
+	title := "session settings"
+	if len(a.opts) > 0 {
+		title = "changed settings"
+	}
+	b := c.Block(title)
+	show := func(name string) bool { return len(a.opts) == 0 || a.Has(name) }
+	rows := []struct{ name, value, doc string }{
+		{"level", pct(next.Level), "confidence level when a command gets no level="},
+		{"digits", strconv.Itoa(next.Digits), "significant digits printed"},
+		{"json", onOff(next.JSON), "one JSON object per command"},
+		{"plot", plotStyle(next.ASCII), "plot characters"},
+		{"width", strconv.Itoa(next.Width), "plot width in columns"},
+	}
+	for _, r := range rows {
+		if show(r.name) {
+			b.Row(r.name, r.value, r.doc)
+		}
+	}
 	ms := next.effectiveMethods()
 	names := make([]string, 0, len(ms))
 	for n := range ms {
@@ -140,7 +152,9 @@ func runSet(c *Call) error {
 	}
 	sort.Strings(names)
 	for _, n := range names {
-		b.Row(n, ms[n], "default method of "+n)
+		if show(n) {
+			b.Row(n, ms[n], "default method of "+n)
+		}
 	}
 	return nil
 }
