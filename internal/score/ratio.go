@@ -1,0 +1,41 @@
+package score
+
+import "math"
+
+// RatioMLE returns the maximum-likelihood estimates of (p1, p2) under the
+// restriction p1 = rho p2, rho > 0. The likelihood equation in p2 is the
+// quadratic (Miettinen and Nurminen 1985; Farrington and Manning 1990,
+// equation (10))
+//
+//	rho N p2^2 - (rho n1 + x1 + n2 + rho x2) p2 + (x1 + x2) = 0,  N = n1 + n2,
+//
+// whose smaller root is taken, in the cancellation-free form
+// p2~ = 2C / (-B + sqrt(B^2 - 4AC)); p1~ = rho p2~ (kept <= 1).
+func RatioMLE(x1, n1, x2, n2 int64, rho float64) (p1, p2 float64) {
+	fx1, fx2 := float64(x1), float64(x2)
+	A := rho * float64(n1+n2)
+	B := -(rho*float64(n1) + fx1 + float64(n2) + rho*fx2)
+	C := fx1 + fx2
+	if C == 0 {
+		return 0, 0
+	}
+	disc := math.Max(0, B*B-4*A*C)
+	p2 = 2 * C / (-B + math.Sqrt(disc))
+	p2 = clamp01(math.Min(p2, 1/rho))
+	return clamp01(rho * p2), p2
+}
+
+// RatioZ returns the signed score statistic for H0: p1/p2 = rho,
+//
+//	Z = (p1^ - rho p2^) / sqrt(f (p1~(1-p1~)/n1 + rho^2 p2~(1-p2~)/n2)),
+//
+// with (p1~, p2~) from RatioMLE and f = N/(N-1) (MiettinenNurminen) or 1
+// (FarringtonManning; its square is Koopman's 1984 chi-square). Z
+// decreases in rho.
+func RatioZ(x1, n1, x2, n2 int64, rho float64, v Variance) float64 {
+	p1, p2 := RatioMLE(x1, n1, x2, n2, rho)
+	f1, f2 := float64(n1), float64(n2)
+	num := float64(x1)/f1 - rho*float64(x2)/f2
+	vr := v.factor(n1, n2) * (p1*(1-p1)/f1 + rho*rho*p2*(1-p2)/f2)
+	return zRatio(num, vr)
+}
