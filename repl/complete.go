@@ -24,6 +24,7 @@ func (completer) Do(line []rune, pos int) ([][]rune, int) {
 // completions returns the candidates for the last word of head and that
 // word.
 func completions(head string) ([]string, string) {
+	prepareSettings()
 	words := strings.Fields(head)
 	if len(words) == 0 || !strings.HasSuffix(head, " ") && len(words) == 1 {
 		word := ""
