@@ -3,18 +3,12 @@ package repl
 import (
 	"testing"
 
-	"github.com/google/go-cmp/cmp"
-	"github.com/google/go-cmp/cmp/cmpopts"
 	"github.com/kofnlab/kofn/test"
 )
 
 func TestCheckAndFlipsValues(t *testing.T) {
 	t.Parallel()
-	tests := []struct {
-		line, path string
-		want, rel  float64
-		src        string
-	}{
+	tests := []valueCase{
 		// Fagerland MW, Lydersen S, Laake P (2013), BMC Med Res Methodol 13:91: pairs 1, 1, 7, 12
 		// (data read; p-values recalled, recomputed): exact 18/256, mid-p 10/256, asymptotic 0.034, cc 0.077.
 		{"flips 1 1 7 12 method=exact", "PValue", 18.0 / 256, 1e-12, "Fagerland 2013"},
@@ -33,12 +27,7 @@ func TestCheckAndFlipsValues(t *testing.T) {
 		{"check 4/20 p=0.2 method=central level=90%", "Interval.Lower", 0.0714, 1e-3, "NIST 7.2.4"},
 		{"check 4/20 p=0.2 method=central level=90%", "Interval.Upper", 0.4010, 1e-3, "NIST 7.2.4"},
 	}
-	for _, tc := range tests {
-		got := num(t, runJSON(t, tc.line), tc.path)
-		if diff := cmp.Diff(tc.want, got, cmpopts.EquateApprox(tc.rel, 0)); diff != "" {
-			t.Errorf("%s %s (%s) (-want +got):\n%s", tc.line, tc.path, tc.src, diff)
-		}
-	}
+	checkValues(t, tests)
 }
 
 // TestCheckMatchesPackage checks that the shell passes its options through

@@ -4,18 +4,12 @@ import (
 	"context"
 	"testing"
 
-	"github.com/google/go-cmp/cmp"
-	"github.com/google/go-cmp/cmp/cmpopts"
 	"github.com/kofnlab/kofn/power"
 )
 
 func TestPlanningValues(t *testing.T) {
 	t.Parallel()
-	tests := []struct {
-		line, path string
-		want, rel  float64
-		src        string
-	}{
+	tests := []valueCase{
 		// Fleiss JL (1981), Table A.3, with the Casagrande, Pike and Smith (1978) correction
 		// (recalled, recomputed): 0.05 against 0.10, alpha 0.05 two-sided, power 0.80: 474 per
 		// group; uncorrected 434.43, corrected 473.59.
@@ -38,12 +32,7 @@ func TestPlanningValues(t *testing.T) {
 		{"accept n=89 c=2 at=0.05", "accept_prob", 0.172077, 1e-6, "Montgomery"},
 		{"accept n=89 c=2 at=0.01 lot=10000", "rectifying.ati", 687, 1e-3, "Montgomery"},
 	}
-	for _, tc := range tests {
-		got := num(t, runJSON(t, tc.line), tc.path)
-		if diff := cmp.Diff(tc.want, got, cmpopts.EquateApprox(tc.rel, 0)); diff != "" {
-			t.Errorf("%s %s (%s) (-want +got):\n%s", tc.line, tc.path, tc.src, diff)
-		}
-	}
+	checkValues(t, tests)
 }
 
 // TestPlanningMatchesPackage checks that the shell passes options through:

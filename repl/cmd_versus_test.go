@@ -2,18 +2,11 @@ package repl
 
 import (
 	"testing"
-
-	"github.com/google/go-cmp/cmp"
-	"github.com/google/go-cmp/cmp/cmpopts"
 )
 
 func TestVersusValues(t *testing.T) {
 	t.Parallel()
-	tests := []struct {
-		line, path string
-		want, rel  float64
-		src        string
-	}{
+	tests := []valueCase{
 		// Mehta CR, Senchaudhuri P (2003), Table 1 (read): vaccine 7/15, placebo 12/15, one-sided:
 		// Fisher 0.0641, Barnard 0.0341 (0.034109 with ties handled; see REFERENCES.md).
 		{"versus 7/15 12/15 side=low", "PValue", 0.0641, 1e-3, "Mehta 2003"},
@@ -23,10 +16,5 @@ func TestVersusValues(t *testing.T) {
 		{"versus 3/4 1/4 side=high", "PValue", 17.0 / 70, 1e-12, "Agresti 2002 3.5"},
 		{"versus 3/4 1/4 side=high method=fisher-mid-p", "PValue", 0.128571, 1e-5, "Agresti 2002 3.5"},
 	}
-	for _, tc := range tests {
-		got := num(t, runJSON(t, tc.line), tc.path)
-		if diff := cmp.Diff(tc.want, got, cmpopts.EquateApprox(tc.rel, 0)); diff != "" {
-			t.Errorf("%s %s (%s) (-want +got):\n%s", tc.line, tc.path, tc.src, diff)
-		}
-	}
+	checkValues(t, tests)
 }

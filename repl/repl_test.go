@@ -6,6 +6,9 @@ import (
 	"encoding/json"
 	"strings"
 	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
 )
 
 // testSession returns a session with fixed settings (width 72, Unicode
@@ -72,4 +75,24 @@ func runErr(line string) (error, string) {
 	s, _, errw := testSession()
 	err := s.Run(context.Background(), line)
 	return err, errw.String()
+}
+
+// valueCase is one published or package value that a command's JSON must
+// reproduce: the number at path in the result of line, within relative
+// tolerance rel, with its source.
+type valueCase struct {
+	line, path string
+	want, rel  float64
+	src        string
+}
+
+// checkValues runs each case and compares the value.
+func checkValues(t *testing.T, tests []valueCase) {
+	t.Helper()
+	for _, tc := range tests {
+		got := num(t, runJSON(t, tc.line), tc.path)
+		if diff := cmp.Diff(tc.want, got, cmpopts.EquateApprox(tc.rel, 0)); diff != "" {
+			t.Errorf("%s %s (%s) (-want +got):\n%s", tc.line, tc.path, tc.src, diff)
+		}
+	}
 }
