@@ -83,12 +83,12 @@ func runHelp(c *Call) error {
 			if len(o.Values) > 0 && o.Name == "method" {
 				doc += ": " + strings.Join(o.Values, ", ")
 			}
-			sb.WriteString(wrapText(pad(o.Name, nw)+"  "+doc, w, "  "))
+			sb.WriteString(hangText(pad(o.Name, nw)+"  ", doc, w, "  "))
 		}
 	}
 	section("Assumptions", cmd.Help.Assumptions)
 	if len(cmd.Help.Examples) > 0 {
-		sb.WriteString("\nExamples (invented data)\n")
+		sb.WriteString("\nExamples (counts invented, unless a source below gives them)\n")
 		for _, e := range cmd.Help.Examples {
 			sb.WriteString("  " + e + "\n")
 		}
@@ -151,6 +151,22 @@ func wrapText(text string, width int, indent string) string {
 	}
 	if len(line) > len(indent) {
 		sb.WriteString(line + "\n")
+	}
+	return sb.String()
+}
+
+// hangText writes label then text filled to width, continuation lines
+// indented to line up after the label.
+func hangText(label, text string, width int, indent string) string {
+	body := wrapText(text, width-len(indent)-len(label), "")
+	lines := strings.Split(strings.TrimSuffix(body, "\n"), "\n")
+	var sb strings.Builder
+	for i, l := range lines {
+		if i == 0 {
+			sb.WriteString(indent + label + l + "\n")
+		} else {
+			sb.WriteString(indent + strings.Repeat(" ", len(label)) + l + "\n")
+		}
 	}
 	return sb.String()
 }
