@@ -216,3 +216,30 @@ func AOQL(pl Plan, lot int64) (AOQLimit, error) {
 	}
 	return res, nil
 }
+
+// AcceptProbLot returns the operating characteristic of the plan for a
+// finite lot of lot items of which defectives are defective, sampled
+// without replacement (type A OC curve): the hypergeometric probability
+//
+//	Pa = P(X <= c),  X ~ Hypergeometric(lot, defectives, n),
+//
+// from binom.Hyper. For lots much larger than n it approaches AcceptProb
+// at p = defectives/lot. Domain: valid plan, n <= lot <= binom.MaxN,
+// 0 <= defectives <= lot.
+func AcceptProbLot(pl Plan, lot, defectives int64) (float64, error) {
+	const fn = "power.AcceptProbLot"
+	if err := pl.check(fn); err != nil {
+		return 0, err
+	}
+	if err := pl.checkLot(fn, lot); err != nil {
+		return 0, err
+	}
+	if lot > binom.MaxN {
+		return 0, argerr.TooLarge(fn, "lot", lot, "exceeds 2^53")
+	}
+	if err := argerr.KN(fn, "defectives", "lot", defectives, lot); err != nil {
+		return 0, err
+	}
+	h := binom.Hyper{Total: lot, Successes: defectives, Draws: pl.SampleSize}
+	return h.CDF(pl.AcceptNumber), nil
+}

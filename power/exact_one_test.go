@@ -86,7 +86,7 @@ func TestRegionMatchesAcceptance(t *testing.T) {
 	if testing.Short() {
 		nmax = 120
 	}
-	for _, p0 := range []float64{0.01, 0.1, 0.3, 0.5, 0.77, 0.95} {
+	for _, p0 := range []float64{0.01, 0.3, 0.5, 0.77} {
 		for _, alpha := range []float64{0.01, 0.05, 0.2} {
 			for _, alt := range []Alternative{TwoSided, Greater, Less} {
 				for _, m := range []TwoSidedMethod{PointProbability, Central, Blaker} {

@@ -1,0 +1,79 @@
+package power
+
+import (
+	"context"
+	"errors"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+)
+
+// Demonstration sizes, exact bounds and smallest sampling plans against a
+// direct SciPy search (testdata/gen/power_reliability.py). The demo rows
+// are the standard binomial reliability-demonstration table (for example
+// R = 0.90, C = 0.90: 22, 38, 52 trials for 0, 1, 2 failures; R = 0.99,
+// C = 0.95: 299, 473, 628), as printed in reliability handbooks (recalled,
+// recomputed). The plan row aql 0.01, rql 0.06 is the example Montgomery
+// solves with the binomial nomograph, reading n = 120, c = 3 (recalled);
+// the exact search gives the smaller n = 110, c = 3, which meets both risks.
+func TestReliabilityGolden(t *testing.T) {
+	t.Parallel()
+	_, rows := goldenRows(t, "power_reliability.tsv")
+	for _, r := range rows {
+		switch r[0] {
+		case "demo":
+			d, err := DemonstrationTrials(atof(t, r[1]), atof(t, r[2]), atoi(t, r[3]))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if d.Trials != atoi(t, r[4]) {
+				t.Errorf("DemonstrationTrials%v = %d, want %s", r[1:4], d.Trials, r[4])
+			}
+			if d.AchievedConfidence < d.Confidence || (d.PreviousConfidence >= d.Confidence) {
+				t.Errorf("%v: achieved %v previous %v", r[1:4], d.AchievedConfidence, d.PreviousConfidence)
+			}
+		case "bound":
+			got, err := DemonstratedReliability(atoi(t, r[1]), atoi(t, r[2]), atof(t, r[3]))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if diff := cmp.Diff(atof(t, r[4]), got, cmpopts.EquateApprox(1e-12, 0)); diff != "" {
+				t.Errorf("DemonstratedReliability%v (-want +got):\n%s", r[1:4], diff)
+			}
+		case "plan":
+			d, err := DesignPlan(context.Background(), atof(t, r[1]), atof(t, r[2]), DesignOptions{ProducerRisk: atof(t, r[3]), ConsumerRisk: atof(t, r[4])})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if d.Plan.SampleSize != atoi(t, r[5]) || d.Plan.AcceptNumber != atoi(t, r[6]) {
+				t.Errorf("DesignPlan%v = %+v, want n = %s, c = %s", r[1:5], d.Plan, r[5], r[6])
+			}
+		}
+	}
+}
+
+func TestReliabilityErrors(t *testing.T) {
+	t.Parallel()
+	if _, err := DemonstrationTrials(1, 0.9, 0); !errors.Is(err, ErrInvalidArgument) {
+		t.Errorf("R = 1: %v", err)
+	}
+	if _, err := DemonstrationTrials(0.9, 0.9, -1); !errors.Is(err, ErrInvalidArgument) {
+		t.Errorf("failures = -1: %v", err)
+	}
+	if _, err := DemonstrationTrials(1-1e-15, 0.9, 0); !errors.Is(err, ErrTooLarge) {
+		t.Errorf("R = 1 - 1e-15: %v", err)
+	}
+	if _, err := DemonstratedReliability(10, 11, 0.9); !errors.Is(err, ErrInvalidArgument) {
+		t.Errorf("failures > n: %v", err)
+	}
+	if r, err := DemonstratedReliability(10, 10, 0.9); err != nil || r != 0 {
+		t.Errorf("all failed: %v, %v", r, err)
+	}
+	if _, err := DesignPlan(context.Background(), 0.05, 0.01, DesignOptions{}); !errors.Is(err, ErrInvalidArgument) {
+		t.Errorf("rql below aql: %v", err)
+	}
+	if _, err := DesignPlan(context.Background(), 0.01, 0.0101, DesignOptions{MaxN: 1000}); !errors.Is(err, ErrNoSolution) {
+		t.Errorf("impossible plan: %v", err)
+	}
+}
