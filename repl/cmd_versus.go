@@ -26,6 +26,23 @@ func init() {
 // exact tests.
 var versusMethods = []string{"fisher", "fisher-central", "fisher-mid-p", "fisher-central-mid-p", "boschloo", "barnard"}
 
+// versusExtra holds further two-sample tests by method word, each
+// returning the test to run for an alternative (see addVersusMethods).
+var versusExtra = map[string]func(alt test.Alternative) func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error){}
+
+// addVersusMethods adds tests to versus: their words, the option's
+// choices and the session default's choices follow.
+func addVersusMethods(words []string, f func(word string, alt test.Alternative) func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error)) {
+	for _, w := range words {
+		versusMethods = append(versusMethods, w)
+		versusExtra[w] = func(alt test.Alternative) func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error) {
+			return f(w, alt)
+		}
+	}
+	versusCmd.Methods = versusMethods
+	versusCmd.option("method").Values = versusMethods
+}
+
 var versusCmd = &Command{
 	Name:    "versus",
 	Group:   "tests",
@@ -74,6 +91,10 @@ func versusSetup(c *Call) (run func(ctx context.Context, k1, n1, k2, n2 int64) (
 	}
 	alt, sideText, err := testSide(a)
 	if err != nil {
+		return
+	}
+	if extra := versusExtra[m]; extra != nil {
+		run = extra(alt)
 		return
 	}
 	switch m {
