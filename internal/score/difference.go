@@ -1,25 +1,28 @@
 package score
 
-import "math"
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/internal/root"
+)
 
 // DiffMLE returns the maximum-likelihood estimates of (p1, p2) under the
 // restriction p1 - p2 = delta, for -1 < delta < 1 (delta = +-1 is accepted
 // and gives the only point of the restriction).
 //
-// The restricted estimate of p1 is the root in [max(0, delta), min(1,
-// 1+delta)] of the likelihood equation, a cubic solved in closed form by
-// the trigonometric method of Miettinen and Nurminen (1985), Appendix, and
-// Farrington and Manning (1990), equation (4): with theta = n2/n1,
+// The restricted log-likelihood is concave in p1 on the admissible range
+// [max(0, delta), min(1, 1+delta)]; its derivative
 //
-//	a = 1 + theta
-//	b = -(1 + theta + p1^ + theta p2^ + delta (theta + 2))
-//	c = delta^2 + delta (2 p1^ + theta + 1) + p1^ + theta p2^
-//	d = -p1^ delta (1 + delta)
-//	v = b^3/(27a^3) - bc/(6a^2) + d/(2a),  u = sign(v) sqrt(b^2/(9a^2) - c/(3a))
-//	w = (pi + acos(v/u^3)) / 3,  p1~ = 2u cos(w) - b/(3a),  p2~ = p1~ - delta.
+//	S(p) = x1/p - (n1-x1)/(1-p) + x2/(p-delta) - (n2-x2)/(1-p+delta)
 //
-// Two Newton steps on the cubic then polish the root to full precision (the
-// closed form loses digits where roots nearly coincide).
+// times p(1-p)(p-delta)(1+delta-p) is the cubic of Miettinen and Nurminen
+// (1985, Appendix) and Farrington and Manning (1990, equation (4)). Their
+// trigonometric closed form subtracts numbers of order 1 and loses every
+// digit for proportions of order 1e-9, so the root is found instead by
+// Brent's method on the cubic in factored form, to full relative
+// precision; when a count that would keep the maximum off an end of the
+// range is 0 and the slope there has the wrong sign, the maximum is at that
+// end.
 func DiffMLE(x1, n1, x2, n2 int64, delta float64) (p1, p2 float64) {
 	if delta >= 1 {
 		return 1, 0
@@ -27,44 +30,57 @@ func DiffMLE(x1, n1, x2, n2 int64, delta float64) (p1, p2 float64) {
 	if delta <= -1 {
 		return 0, 1
 	}
-	f1, f2 := float64(n1), float64(n2)
-	ph1, ph2 := float64(x1)/f1, float64(x2)/f2
-	th := f2 / f1
-	a := 1 + th
-	b := -(1 + th + ph1 + th*ph2 + delta*(th+2))
-	c := delta*delta + delta*(2*ph1+th+1) + ph1 + th*ph2
-	d := -ph1 * delta * (1 + delta)
-	v := b*b*b/(27*a*a*a) - b*c/(6*a*a) + d/(2*a)
-	u2 := b*b/(9*a*a) - c/(3*a)
-	var t float64
-	if u2 <= 0 {
-		t = -b / (3 * a)
-	} else {
-		u := math.Sqrt(u2)
-		if v < 0 {
-			u = -u
-		}
-		r := v / (u * u * u)
-		r = math.Max(-1, math.Min(1, r))
-		w := (math.Pi + math.Acos(r)) / 3
-		t = 2*u*math.Cos(w) - b/(3*a)
-	}
+	a, b := float64(x1), float64(n1-x1) // successes, failures of sample 1
+	c, d := float64(x2), float64(n2-x2) // of sample 2
 	lo, hi := math.Max(0, delta), math.Min(1, 1+delta)
-	cubic := func(x float64) (f, df float64) {
-		return ((a*x+b)*x+c)*x + d, (3*a*x+2*b)*x + c
+	// cubic(p) = S(p) p (1-p) (p-delta) (1+delta-p), each term in factored form.
+	cubic := func(p float64) float64 {
+		u, v, w, y := p, 1-p, p-delta, 1+delta-p
+		return a*v*w*y - b*u*w*y + c*u*v*y - d*u*v*w
 	}
-	for range 2 {
-		f, df := cubic(t)
-		if df == 0 || f == 0 {
-			break
+	// slope returns S(p) without its singular terms (0/0 taken as 0).
+	slope := func(p float64) float64 {
+		t := func(cnt, den float64) float64 {
+			if cnt == 0 {
+				return 0
+			}
+			return cnt / den
 		}
-		nt := t - f/df
-		if !(nt >= lo && nt <= hi) {
-			break
-		}
-		t = nt
+		return t(a, p) - t(b, 1-p) + t(c, p-delta) - t(d, 1+delta-p)
 	}
-	t = math.Max(lo, math.Min(hi, t))
+	if lo == hi {
+		return clamp01(lo), clamp01(lo - delta)
+	}
+	l, h := lo, hi
+	if !(cubic(l) > 0) {
+		// The count singular at lo is 0: the maximum is at lo unless the
+		// likelihood still rises there; then step inside until the cubic is
+		// positive.
+		if !(slope(lo) > 0) {
+			return clamp01(lo), clamp01(lo - delta)
+		}
+		for step := (hi - lo) / 2; step > 0; step /= 2 {
+			if cubic(lo+step) > 0 {
+				l = lo + step
+				break
+			}
+		}
+	}
+	if !(cubic(h) < 0) {
+		if !(slope(hi) < 0) {
+			return clamp01(hi), clamp01(hi - delta)
+		}
+		for step := (hi - lo) / 2; step > 0; step /= 2 {
+			if cubic(hi-step) < 0 {
+				h = hi - step
+				break
+			}
+		}
+	}
+	t, err := root.Brent(cubic, l, h, 0x1p-52, 0)
+	if err != nil {
+		t = l + (h-l)/2 // unreachable: the bracket was checked
+	}
 	return clamp01(t), clamp01(t - delta)
 }
 

@@ -1,0 +1,218 @@
+package interval
+
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/binom"
+	"github.com/kofnlab/kofn/internal/root"
+)
+
+// The limits found by root finding are searched on the log-odds scale
+// t = ln(p/(1-p)): p = 1/(1+e^-t) and 1-p = 1/(1+e^t) are then both held to
+// full relative precision, so a lower limit of 1e-13 and an upper limit of
+// 1 - 1e-13 are equally accurate, and the upper limit for k is obtained as
+// 1 minus the lower limit for n-k without cancellation: every method here is
+// symmetric under k -> n-k, p -> 1-p.
+
+// tMax bounds the log-odds searched: expit(-700) = 1e-304 is far below any
+// limit a valid level produces (at least about 1e-17/n).
+const tMax = 700
+
+// pq returns p and 1-p for log-odds t.
+func pq(t float64) (p, q float64) {
+	e := math.Exp(-t)
+	return 1 / (1 + e), e / (1 + e)
+}
+
+// logOdds returns ln(p/(1-p)) for a guess p in (0, 1), clamped to +-tMax.
+func logOdds(p float64) float64 {
+	t := math.Log(p) - math.Log1p(-p)
+	if !(t > -tMax) { // also NaN
+		return -tMax
+	}
+	return math.Min(t, tMax)
+}
+
+// solveIncreasing returns the root of f, increasing on [-tMax, tMax],
+// starting from the guess t0: it steps away from t0 with growing steps
+// until the sign changes, then runs Brent's method on the bracket to a
+// relative tolerance of 1e-15 (absolute 1e-15 near t = 0). If f has no sign
+// change on [-tMax, tMax] the nearer end is returned.
+func solveIncreasing(f func(float64) float64, t0 float64) float64 {
+	t0 = math.Max(-tMax, math.Min(tMax, t0))
+	f0 := f(t0)
+	if f0 == 0 {
+		return t0
+	}
+	lo, hi := t0, t0
+	step := 0.125
+	if f0 < 0 {
+		for {
+			lo = hi
+			if hi >= tMax {
+				return tMax
+			}
+			hi = math.Min(hi+step, tMax)
+			step *= 4
+			if f(hi) >= 0 {
+				break
+			}
+		}
+	} else {
+		for {
+			hi = lo
+			if lo <= -tMax {
+				return -tMax
+			}
+			lo = math.Max(lo-step, -tMax)
+			step *= 4
+			if f(lo) <= 0 {
+				break
+			}
+		}
+	}
+	t, err := root.Brent(f, lo, hi, 1e-15, 1e-15)
+	if err != nil {
+		// Only a NaN from f gets here; fall back to bisection on the sign.
+		t = root.Bisect(func(x float64) bool { return f(x) >= 0 }, lo, hi, 1e-15, 1e-15)
+	}
+	return t
+}
+
+// logGE returns ln P(X >= k) for X ~ Binomial(n, p), where q = 1-p is
+// supplied to full precision: for p > 1/2 it is computed as the lower tail
+// of the failures, ln P(F <= n-k) with F ~ Binomial(n, q).
+func logGE(k, n int64, p, q float64) float64 {
+	if p <= 0.5 {
+		return logTail(k-1, n, p, true)
+	}
+	return logTail(n-k, n, q, false)
+}
+
+// logPoint returns ln P(X = k) for X ~ Binomial(n, p), with q = 1-p.
+func logPoint(k, n int64, p, q float64) float64 {
+	if p <= 0.5 {
+		return binom.Dist{N: n, P: p}.LogProb(k)
+	}
+	return binom.Dist{N: n, P: q}.LogProb(n - k)
+}
+
+// Limits of the direct summation in logTail.
+const (
+	sumMaxP = 2e-3 // below this success probability ...
+	sumMaxJ = 25e6 // ... and up to this count, lower tails are summed
+)
+
+// logTail returns ln P(X > j) (upper) or ln P(X <= j) for X ~ Binomial(n, s),
+// s <= 1/2. Where the lower tail is the smaller one, package binom
+// evaluates it by a continued fraction in 1 - s, whose rounding costs about
+// 2e-16 sqrt(n/s) relative: 3e-10 at n = 1e7, s = 5e-7. There, for
+// s < 2e-3 and j <= 2.5e7, the lower tail is summed instead, term by term
+// downward from j with the ratio b(i-1)/b(i) = i(1-s)/((n-i+1)s), all
+// terms positive, stopping when a term falls below 1e-17 of the sum; the
+// cost is at most min(j+1, about 20 sqrt(j)) terms.
+func logTail(j, n int64, s float64, upper bool) float64 {
+	d := binom.Dist{N: n, P: s}
+	direct := j >= 0 && j < n && (1-s)*float64(n+3) < float64(n-j+1)
+	if !direct || s >= sumMaxP || j > sumMaxJ || s == 0 {
+		if upper {
+			return d.LogSurvival(j)
+		}
+		return d.LogCDF(j)
+	}
+	sum, t := 1.0, 1.0
+	fn, r := float64(n), (1-s)/s
+	for i := j; i > 0; i-- {
+		t *= float64(i) * r / (fn - float64(i) + 1)
+		sum += t
+		if t < 1e-17*sum {
+			break
+		}
+	}
+	lower := d.LogProb(j) + math.Log(sum)
+	if upper {
+		return log1mexp(lower)
+	}
+	return lower
+}
+
+// logAddExp returns ln(e^a + e^b).
+func logAddExp(a, b float64) float64 {
+	if a < b {
+		a, b = b, a
+	}
+	if math.IsInf(b, -1) {
+		return a
+	}
+	return a + math.Log1p(math.Exp(b-a))
+}
+
+// exactLower returns the lower limit for k of a method found by root
+// finding: expit of lowerT.
+func exactLower(m Method, k, n int64, lv level) float64 { return expit(lowerT(m, k, n, lv)) }
+
+// exactUpper returns the upper limit for k by the symmetry of every
+// root-found method, U(k, n) = 1 - L(n-k, n), taken on the log-odds scale
+// as expit(-t) so that it keeps full precision. U = 1 at k = n.
+func exactUpper(m Method, k, n int64, lv level) float64 { return expit(-lowerT(m, n-k, n, lv)) }
+
+// endT returns the log-odds of p = e^lp, for a closed-form limit p near 1.
+func endT(lp float64) float64 { return lp - math.Log(-math.Expm1(lp)) }
+
+// lowerT returns the log-odds t of the lower limit for k of a method found
+// by root finding (Clopper-Pearson, mid-p, Jeffreys, likelihood ratio,
+// Blaker); -Inf (the limit 0) at k = 0. With a the tail probability:
+//
+//	Clopper-Pearson:  P(X >= k; L) = a                  (a^(1/n) at k = n)
+//	mid-p:            P(X > k; L) + P(X = k; L)/2 = a   ((2a)^(1/n) at k = n)
+//	Jeffreys:         I_L(k + 1/2, n - k + 1/2) = a     (the Beta quantile)
+//	likelihood ratio: 2[l(k/n) - l(L)] = z^2, L < k/n  (e^(-z^2/(2n)) at k = n)
+//	Blaker:           the smallest p whose Blaker p-value exceeds 1 - Level
+func lowerT(m Method, k, n int64, lv level) float64 {
+	if k == 0 {
+		return math.Inf(-1)
+	}
+	la := math.Log(lv.tail)
+	fn := float64(n)
+	switch m {
+	case ClopperPearson:
+		if k == n {
+			return endT(la / fn)
+		}
+		return solveIncreasing(func(t float64) float64 {
+			p, q := pq(t)
+			return logGE(k, n, p, q) - la
+		}, logOdds(wilsonCCLower(k, n, lv.z)))
+	case MidP:
+		if k == n {
+			return endT((la + math.Ln2) / fn)
+		}
+		return solveIncreasing(func(t float64) float64 {
+			p, q := pq(t)
+			return logAddExp(logGE(k+1, n, p, q), logPoint(k, n, p, q)-math.Ln2) - la
+		}, logOdds(wilsonLower(k, n, lv.z)))
+	case Jeffreys:
+		a, b := float64(k)+0.5, float64(n-k)+0.5
+		return solveIncreasing(func(t float64) float64 {
+			p, q := pq(t)
+			return logBetaCDF(a, b, p, q) - la
+		}, logOdds(wilsonLower(k, n, lv.z)))
+	case LikelihoodRatio:
+		if k == n {
+			return endT(-lv.z * lv.z / (2 * fn))
+		}
+		fk, fnk := float64(k), float64(n-k)
+		return solveIncreasing(func(t float64) float64 {
+			p, q := pq(t)
+			d := 2 * (bd0(fk, fn*p) + bd0(fnk, fn*q))
+			r := math.Sqrt(math.Max(d, 0))
+			if fn*p < fk {
+				r = -r
+			}
+			return r + lv.z
+		}, logOdds(wilsonLower(k, n, lv.z)))
+	case Blaker:
+		return blakerLowerT(k, n, lv)
+	}
+	return math.NaN() // unreachable for a validated method
+}
