@@ -409,7 +409,7 @@ func runDetect(c *Call) error {
 
 // powerPlot draws power against n as bars, one column per n (every k-th n
 // when the range is wider than the plot), with a reference line at target.
-func powerPlot(s *Session, curve []power.NPower, target float64) string {
+func powerPlot(s *Session, curve []power.NPower, target float64, marks ...int64) string {
 	cols := s.plotColumns(6)
 	step := max(1, (len(curve)+cols-1)/cols)
 	var xs, ys []float64
@@ -426,6 +426,13 @@ func powerPlot(s *Session, curve []power.NPower, target float64) string {
 	}
 	ch := chart{xs: xs, series: []series{{"power", ys}}, yLo: yLo, yHi: yHi, ref: target, height: 10,
 		ascii: s.Set.ASCII, digits: 2, xLabel: label}
+	if len(marks) == 2 {
+		ch.marks = []float64{float64(marks[0]), float64(marks[1])}
+		ch.markNote = "first n " + count(marks[0]) + ", safe n " + count(marks[1])
+		if marks[0] == marks[1] {
+			ch.markNote = "first and safe n " + count(marks[0])
+		}
+	}
 	return "power (line at " + fmtIn(target) + ")\n" + ch.render()
 }
 
@@ -541,7 +548,7 @@ func exactSizeRows(c *Call, b *Block, r power.ExactSize, target float64) {
 		}
 	}
 	if len(pts) > 1 {
-		c.Plot(powerPlot(s, pts, target))
+		c.Plot(powerPlot(s, pts, target, r.First, max(r.Stable, r.First)))
 	}
 }
 

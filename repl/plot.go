@@ -21,6 +21,8 @@ type chart struct {
 	ascii    bool
 	digits   int
 	xLabel   string
+	marks    []float64 // x values marked under the axis
+	markNote string    // what the marks are
 }
 
 type series struct {
@@ -122,6 +124,24 @@ func (c chart) render() string {
 	sb.WriteString(corner)
 	sb.WriteString(strings.Repeat(hbar, cols))
 	sb.WriteByte('\n')
+	if len(c.marks) > 0 {
+		m := '▲'
+		if c.ascii {
+			m = '^'
+		}
+		line := []rune(strings.Repeat(" ", cols))
+		for _, x := range c.marks {
+			for j, xv := range c.xs {
+				if xv == x || (j+1 < cols && xv < x && c.xs[j+1] > x) {
+					line[j] = m
+					break
+				}
+			}
+		}
+		sb.WriteString(strings.Repeat(" ", lw+2))
+		sb.WriteString(strings.TrimRight(string(line), " "))
+		sb.WriteString("  " + string(m) + " " + c.markNote + "\n")
+	}
 	sb.WriteString(strings.Repeat(" ", lw+2))
 	sb.WriteString(c.xAxis(cols))
 	sb.WriteByte('\n')
