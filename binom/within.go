@@ -1,0 +1,95 @@
+package binom
+
+import (
+	"math"
+	"math/big"
+	"strconv"
+)
+
+// ProportionWithin returns the probability that the sample proportion X/N
+// lies within eps of P, boundaries included:
+//
+//	P(|X/N - P| <= eps) = P(kmin <= X <= kmax),
+//	kmin = ceil(N (P - eps)),  kmax = floor(N (P + eps)),
+//
+// the exact precision of the empirical estimator X/N (the probability
+// that an estimate from N trials misses P by no more than eps).
+//
+// Boundaries are decided as the caller means them: P and eps are read as
+// the shortest decimals that print them (strconv.FormatFloat(x, 'g', -1,
+// 64): 0.3 and 0.1, not their binary neighbours) and compared with k/N in
+// exact rational arithmetic. For N = 50, P = 0.3, eps = 0.1 that counts
+// k = 10 through 20 (probability 0.9120); a floating-point comparison,
+// where 0.3 + 0.1 > 0.4, would drop k = 20. The probability of the range
+// itself uses the binomial with the double P, by one ProbRange call.
+//
+// Special cases: eps < 0 gives 0; N = 0 gives 0 (no trials, no estimate);
+// otherwise eps >= 1 (+Inf included) gives 1; eps NaN, or an invalid Dist,
+// gives NaN (the only NaN). Accuracy: that of ProbRange; cost: one range
+// probability plus a few exact rational operations.
+func (d Dist) ProportionWithin(eps float64) float64 {
+	if !d.valid() || math.IsNaN(eps) {
+		return math.NaN()
+	}
+	switch {
+	case eps < 0 || d.N == 0:
+		return 0
+	case eps >= 1:
+		return 1
+	}
+	lo, hi := withinRange(d.N, d.P, eps)
+	if lo > hi {
+		return 0
+	}
+	return d.ProbRange(lo, hi)
+}
+
+// withinRange returns kmin = max(0, ceil(n (p - eps))) and
+// kmax = min(n, floor(n (p + eps))) with p and eps read as their shortest
+// decimals, for n >= 1 and finite eps in [0, 1).
+func withinRange(n int64, p, eps float64) (kmin, kmax int64) {
+	pr, er := shortestRat(p), shortestRat(eps)
+	nr := new(big.Rat).SetInt64(n)
+	a := new(big.Rat).Mul(nr, new(big.Rat).Sub(pr, er))
+	b := new(big.Rat).Mul(nr, new(big.Rat).Add(pr, er))
+	kmin = clampInt(ratCeil(a), 0, n)
+	kmax = clampInt(ratFloor(b), 0, n)
+	return kmin, kmax
+}
+
+// shortestRat returns the shortest decimal that prints x, as an exact
+// rational number; x must be finite.
+func shortestRat(x float64) *big.Rat {
+	r, ok := new(big.Rat).SetString(strconv.FormatFloat(x, 'g', -1, 64))
+	if !ok { // unreachable for finite x; fall back to the binary value
+		r = new(big.Rat).SetFloat64(x)
+	}
+	return r
+}
+
+// ratFloor returns floor(r).
+func ratFloor(r *big.Rat) *big.Int {
+	// big.Int.Div is Euclidean: with a positive denominator the quotient
+	// is the floor, negative numerators included.
+	return new(big.Int).Div(r.Num(), r.Denom())
+}
+
+// ratCeil returns ceil(r).
+func ratCeil(r *big.Rat) *big.Int {
+	q := ratFloor(r)
+	if !r.IsInt() {
+		q.Add(q, big.NewInt(1))
+	}
+	return q
+}
+
+// clampInt returns v clamped to [lo, hi] as an int64.
+func clampInt(v *big.Int, lo, hi int64) int64 {
+	switch {
+	case v.Cmp(big.NewInt(lo)) < 0:
+		return lo
+	case v.Cmp(big.NewInt(hi)) > 0:
+		return hi
+	}
+	return v.Int64()
+}
