@@ -26,7 +26,8 @@ import (
 // Special cases: eps < 0 gives 0; N = 0 gives 0 (no trials, no estimate);
 // otherwise eps >= 1 (+Inf included) gives 1; eps NaN, or an invalid Dist,
 // gives NaN (the only NaN). Accuracy: that of ProbRange; cost: one range
-// probability plus a few exact rational operations.
+// probability (the PMF when the range is one point) plus a few exact
+// rational operations.
 func (d Dist) ProportionWithin(eps float64) float64 {
 	if !d.valid() || math.IsNaN(eps) {
 		return math.NaN()
@@ -38,8 +39,11 @@ func (d Dist) ProportionWithin(eps float64) float64 {
 		return 1
 	}
 	lo, hi := withinRange(d.N, d.P, eps)
-	if lo > hi {
+	switch {
+	case lo > hi:
 		return 0
+	case lo == hi: // eps = 0 or a short range: the PMF itself, cheaper
+		return d.Prob(lo)
 	}
 	return d.ProbRange(lo, hi)
 }
