@@ -111,3 +111,9 @@ func (discard) Write(p []byte) (int, error) { return len(p), nil }
 func BenchmarkEachCheckScore(b *testing.B)   { benchmarkEach(b, "check p=0.3 method=score", 10000) }
 func BenchmarkEachCheckCentral(b *testing.B) { benchmarkEach(b, "check p=0.3 method=central", 10000) }
 func BenchmarkEachFlips(b *testing.B)        { benchmarkEach(b, "flips", 10000) }
+
+func BenchmarkEachBoundsWilson(b *testing.B) { benchmarkEach(b, "bounds", 10000) }
+func BenchmarkEachBoundsClopperPearson(b *testing.B) {
+	benchmarkEach(b, "bounds method=clopper-pearson", 10000)
+}
+func BenchmarkEachGapNewcombe(b *testing.B) { benchmarkEach(b, "gap", 10000) }
