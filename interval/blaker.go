@@ -1,10 +1,47 @@
 package interval
 
-import "math"
+import (
+	"math"
 
-// blakerLowerT returns the log-odds of Blaker's lower limit.
+	"github.com/kofnlab/kofn/internal/onesample"
+)
+
+// blakerLowerT returns the log-odds of the lower limit of Blaker's (2000)
+// interval, "Confidence curves and improved exact confidence intervals for
+// discrete distributions", Canadian Journal of Statistics 28:783-798: the
+// smallest p whose acceptability (the two-sided Blaker p-value of
+// onesample.LogAcceptability) is at least alpha = 1 - Level.
+//
+// Blaker's interval lies inside the Clopper-Pearson interval at the same
+// level, so the search runs from the Clopper-Pearson limit (where the
+// acceptability is at most alpha) up to k/n (where it is 1), by Brent's
+// method on ln(acceptability) - ln(alpha) in the log-odds; the
+// acceptability is a step function of the opposite tail's index with
+// continuous pieces, so the limit is found to 1e-15 relative whether it
+// falls inside a piece or at a jump. The acceptability test is two-sided:
+// one-sided Blaker bounds are the Clopper-Pearson ones.
 func blakerLowerT(k, n int64, lv level) float64 {
-	return lowerT(ClopperPearson, k, n, lv) // placeholder until the acceptability test lands
+	tcp := lowerT(ClopperPearson, k, n, lv)
+	if lv.side != TwoSided {
+		return tcp
+	}
+	la := math.Log(2 * lv.tail) // alpha = 1 - Level
+	g := func(t float64) float64 {
+		// The acceptability is symmetric, acc(k; p) = acc(n-k; 1-p); above
+		// p = 1/2 it is evaluated at the accurately held 1-p.
+		p, q := pq(t)
+		v, err := onesample.LogAcceptability(k, n, p, false)
+		if p > 0.5 {
+			v, err = onesample.LogAcceptability(n-k, n, q, false)
+		}
+		if err != nil {
+			return math.NaN()
+		}
+		return v - la
+	}
+	hi := logOdds(float64(k) / float64(n))
+	if k == n {
+		hi = tMax
+	}
+	return rootIncreasing(g, tcp, hi, 1e-15)
 }
-
-var _ = math.Pi
