@@ -1,0 +1,179 @@
+package power
+
+import (
+	"context"
+	"errors"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+)
+
+// Normal-approximation sizes against an independent SciPy implementation
+// of the same published formulas (testdata/gen/power_normal.py): Fleiss
+// (1981) eq. 3.14 with the Casagrande-Pike-Smith correction generalized by
+// Fleiss, Tytun and Ury (1980); Blackwelder (1982) for non-inferiority;
+// Schuirmann's TOST for equivalence; Connor (1987) for pairs.
+func TestNormalGolden(t *testing.T) {
+	t.Parallel()
+	_, rows := goldenRows(t, "power_normal.tsv")
+	for _, r := range rows {
+		p1, p2, alpha, pw := atof(t, r[1]), atof(t, r[2]), atof(t, r[3]), atof(t, r[4])
+		var alt Alternative
+		if r[5] != "-" {
+			var err error
+			if alt, err = ParseAlternative(r[5]); err != nil {
+				t.Fatal(err)
+			}
+		}
+		var got NormalSize
+		var err error
+		switch r[0] {
+		case "one":
+			got, err = OneSampleNormalN(p1, p2, OneSampleOptions{Alpha: alpha, Power: pw, Alternative: alt})
+		case "paired":
+			got, err = PairedNormalN(p1, p2, PairedOptions{Alpha: alpha, Power: pw, Alternative: alt})
+		default:
+			o := TwoSampleOptions{Alpha: alpha, Power: pw, Alternative: alt, Ratio: atof(t, r[6]), Margin: atof(t, r[9])}
+			switch r[0] {
+			case "ni":
+				o.Hypothesis = NonInferiority
+			case "eq":
+				o.Hypothesis = Equivalence
+			}
+			if r[7] == "unpooled" {
+				o.Variance = Unpooled
+			}
+			if r[8] == "none" {
+				o.Correction = NoCorrection
+			}
+			got, err = TwoSampleNormalN(p1, p2, o)
+		}
+		if err != nil {
+			t.Fatalf("%v: %v", r, err)
+		}
+		if diff := cmp.Diff(atof(t, r[10]), got.Real, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
+			t.Errorf("%v (-want +got):\n%s", r[:10], diff)
+		}
+		if got.Power < pw-1e-9 && r[8] != "cps" {
+			t.Errorf("%v: power %v at the rounded n below the target", r[:10], got.Power)
+		}
+	}
+}
+
+// Properties of the exact one-sample power: it increases with the effect
+// and with alpha at fixed n (for the one-sided test, whose region only
+// grows with alpha), and the normal n is close to the stable exact n for
+// large samples (within 5% at n near 1000).
+func TestOneSampleProperties(t *testing.T) {
+	t.Parallel()
+	prev := 0.0
+	for _, p1 := range []float64{0.31, 0.33, 0.36, 0.4, 0.5} {
+		r, err := OneSamplePower(200, 0.3, p1, OneSampleOptions{Alternative: Greater})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.Power < prev {
+			t.Errorf("power fell to %v at p1 = %v", r.Power, p1)
+		}
+		prev = r.Power
+	}
+	for _, o := range []OneSampleOptions{{}, {Alternative: Greater}, {Method: Central}} {
+		prev = 0
+		for _, a := range []float64{0.001, 0.01, 0.05, 0.1, 0.2} {
+			o.Alpha = a
+			r, err := OneSamplePower(150, 0.4, 0.5, o)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if r.Power < prev {
+				t.Errorf("%+v: power fell to %v at alpha = %v", o, r.Power, a)
+			}
+			if r.Size > a {
+				t.Errorf("%+v: size %v above alpha", o, r.Size)
+			}
+			prev = r.Power
+		}
+	}
+	ex, err := OneSampleN(context.Background(), 0.3, 0.35, OneSampleOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if q := float64(ex.Stable) / float64(ex.Normal.N); q < 0.95 || q > 1.05 {
+		t.Errorf("exact stable n %d vs normal n %d", ex.Stable, ex.Normal.N)
+	}
+}
+
+func TestNormalErrors(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		err  error
+		want error
+		msg  string
+	}{
+		{errOf(OneSampleNormalN(0.5, 0.5, OneSampleOptions{})), ErrInvalidArgument, "power.OneSampleNormalN: p1 = 0.5 equals p0: a sample size needs an effect to detect"},
+		{errOf(OneSampleNormalN(0, 0.5, OneSampleOptions{})), ErrInvalidArgument, "power.OneSampleNormalN: p0 = 0 must lie strictly between 0 and 1"},
+		{errOf(OneSampleNormalN(0.5, 0.4, OneSampleOptions{Alternative: Greater})), ErrNoSolution, ""},
+		{errOf(OneSampleNormalN(0.5, 0.6, OneSampleOptions{Power: 1})), ErrInvalidArgument, "power.OneSampleNormalN: Power = 1 must lie strictly between 0 and 1"},
+		{errOf(TwoSampleNormalN(0.5, 0.6, TwoSampleOptions{Ratio: -1})), ErrInvalidArgument, ""},
+		{errOf(TwoSampleNormalN(0.5, 0.6, TwoSampleOptions{Hypothesis: Equivalence})), ErrInvalidArgument, ""},
+		{errOf(TwoSampleNormalN(0.5, 0.8, TwoSampleOptions{Hypothesis: Equivalence, Margin: 0.1})), ErrNoSolution, ""},
+		{errOf(TwoSampleNormalN(0.5, 0.7, TwoSampleOptions{Hypothesis: NonInferiority, Margin: 0.1})), ErrNoSolution, ""},
+		{errOf(MarginOfErrorN(0.5, 0, 0.95)), ErrInvalidArgument, "power.MarginOfErrorN: d = 0 must lie strictly between 0 and 1"},
+	}
+	for _, tc := range cases {
+		if !errors.Is(tc.err, tc.want) || (tc.msg != "" && tc.err.Error() != tc.msg) {
+			t.Errorf("error %v, want %v %q", tc.err, tc.want, tc.msg)
+		}
+	}
+	for _, s := range []string{"sideways"} {
+		if _, err := ParseAlternative(s); !errors.Is(err, ErrInvalidArgument) {
+			t.Errorf("ParseAlternative(%q): %v", s, err)
+		}
+	}
+}
+
+func errOf[T any](_ T, err error) error { return err }
+
+// Every enum round-trips through String and its parser.
+func TestEnumsRoundTrip(t *testing.T) {
+	t.Parallel()
+	for a := TwoSided; a <= Less; a++ {
+		if g, err := ParseAlternative(a.String()); err != nil || g != a {
+			t.Errorf("Alternative %v: %v %v", a, g, err)
+		}
+	}
+	for m := PointProbability; m <= Blaker; m++ {
+		if g, err := ParseTwoSidedMethod(m.String()); err != nil || g != m {
+			t.Errorf("TwoSidedMethod %v: %v %v", m, g, err)
+		}
+	}
+	for m := Fisher; m <= ZPooled; m++ {
+		if g, err := ParseExactTest(m.String()); err != nil || g != m {
+			t.Errorf("ExactTest %v: %v %v", m, g, err)
+		}
+	}
+	for m := McNemarExact; m <= McNemarAsymptotic; m++ {
+		if g, err := ParsePairedMethod(m.String()); err != nil || g != m {
+			t.Errorf("PairedMethod %v: %v %v", m, g, err)
+		}
+	}
+	for v := PooledNull; v <= Unpooled; v++ {
+		if g, err := ParseVariance(v.String()); err != nil || g != v {
+			t.Errorf("Variance %v: %v %v", v, g, err)
+		}
+	}
+	for c := CPS; c <= NoCorrection; c++ {
+		if g, err := ParseCorrection(c.String()); err != nil || g != c {
+			t.Errorf("Correction %v: %v %v", c, g, err)
+		}
+	}
+	for h := Equality; h <= Equivalence; h++ {
+		if g, err := ParseHypothesis(h.String()); err != nil || g != h {
+			t.Errorf("Hypothesis %v: %v %v", h, g, err)
+		}
+	}
+	if s := Alternative(9).String(); s != "Alternative(9)" {
+		t.Errorf("undefined alternative prints %q", s)
+	}
+}
