@@ -44,59 +44,74 @@ func stirlerr(n float64) float64 {
 	if n <= 15 {
 		return stirlerrTable[int(n)]
 	}
-	nn := n * n
+	r := 1 / n
+	rr := r * r
 	switch {
 	case n > 500:
-		return (s0 - s1/nn) / n
+		return (s0 - s1*rr) * r
 	case n > 80:
-		return (s0 - (s1-s2/nn)/nn) / n
+		return (s0 - (s1-s2*rr)*rr) * r
 	case n > 35:
-		return (s0 - (s1-(s2-s3/nn)/nn)/nn) / n
+		return (s0 - (s1-(s2-s3*rr)*rr)*rr) * r
 	default:
-		return (s0 - (s1-(s2-(s3-s4/nn)/nn)/nn)/nn) / n
+		return (s0 - (s1-(s2-(s3-s4*rr)*rr)*rr)*rr) * r
 	}
 }
+
+// invOdd[i] is 1/(2i+3), the weights of bd0's series.
+var invOdd = [...]float64{1.0 / 3, 1.0 / 5, 1.0 / 7, 1.0 / 9, 1.0 / 11, 1.0 / 13, 1.0 / 15, 1.0 / 17,
+	1.0 / 19, 1.0 / 21, 1.0 / 23, 1.0 / 25, 1.0 / 27, 1.0 / 29, 1.0 / 31, 1.0 / 33, 1.0 / 35, 1.0 / 37}
 
 // bd0 returns the deviance term x ln(x/m) + m - x for x >= 0 and m > 0,
 // where m = mHi + mLo is held as an unevaluated sum (a compensated
 // product n*p). Near x = m it sums the series in v = (x-m)/(x+m) to avoid
-// cancellation (Loader 2000, section 3); the low part of m enters through
-// the first-order term mLo (1 - x/m), exact to rounding.
+// cancellation (Loader 2000, section 3) with x-m taken to the low part of
+// m; elsewhere the low part enters through the first-order term
+// mLo (1 - x/m), exact to rounding.
 func bd0(x, mHi, mLo float64) float64 {
-	var s float64
-	if d := x - mHi; math.Abs(d) < 0.1*(x+mHi) {
-		v := d / (x + mHi)
-		s = d * v
+	if d := (x - mHi) - mLo; math.Abs(d) < 0.1*(x+mHi) {
+		// x - mHi is exact here (Sterbenz), so d carries the low part and
+		// the series is relative-accurate even when x - m is far below
+		// the rounding unit of m (the deviance is then (x-m)^2/(2m), and
+		// its square root, the signed distance the uniform expansion
+		// needs, is first order in mLo). |v| < 0.1: the terms fall by
+		// v^2 < 0.01, and 18 of them reach 1e-36.
+		v := d / (x + mHi + mLo)
+		s := d * v
 		ej := 2 * x * v
 		v2 := v * v
-		for j := 3.0; ; j += 2 {
+		for _, w := range invOdd {
 			ej *= v2
-			s1 := s + ej/j
+			s1 := s + ej*w
 			if s1 == s {
 				break
 			}
 			s = s1
 		}
-	} else {
-		s = x*math.Log(x/mHi) + mHi - x
+		return s
 	}
-	return s + mLo*(1-x/mHi)
+	return x*math.Log(x/mHi) + mHi - x + mLo*(1-x/mHi)
 }
 
 // means returns N P and N (1-P) as compensated sums hi + lo, so the
 // rounding of the products does not reach the far tails (at N = 1e9 a
 // plain N*P already costs 1e-10 relative there).
 func (d Dist) means() (npHi, npLo, nqHi, nqLo float64) {
-	n := float64(d.N)
-	npHi = n * d.P
-	npLo = math.FMA(n, d.P, -npHi)
-	// n - np exactly as a double-double: TwoSum(n, -npHi) then the low part.
-	s := n - npHi
-	bb := s - n
-	err := (n - (s - bb)) + (-npHi - bb)
-	lo := err - npLo
-	nqHi = s + lo
-	nqLo = lo - (nqHi - s)
+	return compMeans(float64(d.N), d.P)
+}
+
+// compMeans returns m p and m (1-p) as unevaluated sums hi + lo, accurate
+// to about 2^-106 relative: m p by math.FMA and m - m p by an exact TwoSum,
+// so 1-p is never rounded (it would be for p < 1/2).
+func compMeans(m, p float64) (mpHi, mpLo, mqHi, mqLo float64) {
+	mpHi = m * p
+	mpLo = math.FMA(m, p, -mpHi)
+	s := m - mpHi
+	bb := s - m
+	err := (m - (s - bb)) + (-mpHi - bb)
+	lo := err - mpLo
+	mqHi = s + lo
+	mqLo = lo - (mqHi - s)
 	return
 }
 
@@ -141,8 +156,9 @@ func (d Dist) LogProb(k int64) float64 {
 	fk, fn := float64(k), float64(n)
 	fnk := float64(n - k)
 	lc := stirlerr(fn) - stirlerr(fk) - stirlerr(fnk) - bd0(fk, npHi, npLo) - bd0(fnk, nqHi, nqLo)
-	lf := ln2pi + math.Log(fk) + math.Log1p(-fk/fn)
-	return lc - 0.5*lf
+	// ln(2 pi k (N-k)/N) as one logarithm; (N-k)/N is formed from the
+	// exact N-k, so nothing cancels at k near N.
+	return lc - 0.5*math.Log(2*math.Pi*fk*(fnk/fn))
 }
 
 // Prob returns P(X = k) = exp(LogProb(k)): 0 outside 0..N.

@@ -2,152 +2,272 @@ package binom
 
 import "math"
 
-// search returns the smallest k in [0, N] with ok(k) true, for a predicate
-// that is monotone (false ... false true ... true) and true at N; guess is a
-// starting point. It brackets by doubling steps from the guess, then
-// bisects: O(log N) evaluations.
-func (d Dist) search(guess int64, ok func(int64) bool) int64 {
-	if guess < 0 {
-		guess = 0
+// quantileTarget describes one quantile search: the smallest k in [0, N]
+// at which ok(k) holds, where ok is monotone (false ... false true ... true)
+// and true at N.
+type quantileTarget struct {
+	upper bool    // upper-tail quantile: ok(k) is "tail(k) <= target"
+	plain bool    // compare plain probabilities (q) rather than logs (lq)
+	q, lq float64 // target probability and its natural log
+}
+
+// eval returns, at k in [0, N], the decision ok(k), made on the same
+// computation as CDF, Survival, LogCDF and LogSurvival (so the quantiles
+// invert them exactly), and a residual f(k) that increases with k and
+// changes sign at the answer, with its backward difference f(k) - f(k-1)
+// for the secant steps. The residual is taken on the tail whose target is
+// at most 1/2: ln CDF(k) - ln c (concave in k) or ln c - ln Survival(k)
+// (convex), c being the target or its complement; a log tail near 0 would
+// be nearly flat and slow the steps. The differences come from ln P(X = k)
+// without another tail evaluation.
+func (d Dist) eval(t *quantileTarget, k int64) (ok bool, f, slope float64) {
+	var l, s float64 // ln P(X <= k), ln P(X > k)
+	if k >= d.N {
+		l, s = 0, math.Inf(-1)
+	} else {
+		l, s = d.bothTails(k)
 	}
-	if guess > d.N {
-		guess = d.N
-	}
-	lo, hi := int64(-1), d.N // invariant: ok(hi) true; ok(lo) false or lo = -1
-	if ok(guess) {
-		hi = guess
-		for step := int64(1); ; step *= 2 {
-			c := hi - step
-			if c < 0 {
-				break
-			}
-			if !ok(c) {
-				lo = c
-				break
-			}
-			hi = c
+	if !t.upper {
+		if t.plain {
+			ok = math.Exp(l) >= t.q
+		} else {
+			ok = l >= t.lq
 		}
 	} else {
-		lo = guess
-		for step := int64(1); ; step *= 2 {
-			c := lo + step
-			if c >= d.N {
-				break
-			}
-			if ok(c) {
-				hi = c
-				break
-			}
-			lo = c
+		if t.plain {
+			ok = math.Exp(s) <= t.q
+		} else {
+			ok = s <= t.lq
 		}
 	}
-	for hi-lo > 1 {
-		mid := lo + (hi-lo)/2
-		if ok(mid) {
-			hi = mid
+	lb := d.LogProb(k)
+	lowerRes := t.upper == (t.lq > -math.Ln2) // residual on the lower tail
+	c := t.lq
+	if t.lq > -math.Ln2 {
+		c = log1mexp(t.lq)
+	}
+	if lowerRes {
+		// ln CDF(k-1) = l + ln(1 - b(k)/CDF(k)); where b(k) is all of
+		// CDF(k) to rounding, ln(b(k)/b(k-1)) bounds the difference from
+		// below (log-concavity).
+		if lb-l < -1e-12 {
+			slope = -log1mexp(lb - l)
 		} else {
-			lo = mid
+			slope = d.logRatioDown(k)
 		}
+		return ok, l - c, slope
+	}
+	// ln Survival(k-1) = s + ln(1 + b(k)/Survival(k)).
+	if math.IsInf(s, -1) {
+		slope = math.Inf(1)
+	} else {
+		slope = log1pexp(lb - s)
+	}
+	return ok, c - s, slope
+}
+
+// logRatioDown returns ln(b(k)/b(k-1)) = ln((N-k+1) P / (k (1-P))),
+// +Inf at k = 0.
+func (d Dist) logRatioDown(k int64) float64 {
+	if k <= 0 {
+		return math.Inf(1)
+	}
+	return math.Log(float64(d.N-k+1)/float64(k)) + math.Log(d.P) - math.Log1p(-d.P)
+}
+
+// log1pexp returns ln(1 + e^x) without overflow or loss for small e^x.
+func log1pexp(x float64) float64 {
+	if x > 36 {
+		return x + math.Exp(-x)
+	}
+	return math.Log1p(math.Exp(x))
+}
+
+// search returns the smallest k in [0, N] with ok(k), starting at guess.
+// Each step is a secant (Newton) step on the residual f with the backward
+// difference from the PMF; the residual is concave or convex in k for the
+// log-concave binomial, so the steps approach the answer from one side.
+// A bracket [lo, hi] guards them: proposals outside it bisect, and where
+// the residual cannot guide (a unit step in the same direction twice in a
+// row, as where plain subnormal targets round coarsely) the steps double.
+// With the Cornish-Fisher start the answer takes two to four tail
+// evaluations; at most about 2 log2(N) + 10 in any case, and never more
+// than 300.
+func (d Dist) search(t *quantileTarget, guess int64) int64 {
+	lo, hi := int64(-1), d.N // ok(hi) holds; ok(lo) does not (lo = -1: none)
+	k := guess
+	var lastStep, run int64 = 0, 1
+	for it := 0; it < 300 && hi-lo > 1; it++ {
+		if k <= lo || k >= hi {
+			k = lo + (hi-lo)/2
+		}
+		ok, f, s := d.eval(t, k)
+		if ok {
+			hi = k
+		} else {
+			lo = k
+		}
+		if hi-lo <= 1 {
+			break
+		}
+		step := -f / s // predicted distance to the sign change of f
+		var next int64
+		switch {
+		case math.IsNaN(step):
+			next = lo + (hi-lo)/2
+		case step >= float64(hi-k):
+			next = hi - 1
+		case step <= float64(lo-k):
+			next = lo + 1
+		default:
+			next = k + int64(math.Ceil(step))
+		}
+		if ok && next >= k {
+			next = k - 1
+		}
+		if !ok && next <= k {
+			next = k + 1
+		}
+		if st := next - k; (st == 1 || st == -1) && st*lastStep > 0 {
+			run *= 2
+			next = k + st*run
+		} else {
+			run = 1
+		}
+		lastStep = next - k
+		k = next
 	}
 	return hi
 }
 
-// normalGuess returns the Cornish-Fisher (normal plus skewness) estimate of
-// the quantile with lower-tail probability given by z (a standard normal
-// quantile), clamped to [0, N].
-func (d Dist) normalGuess(z float64) int64 {
-	mu, sd := d.Mean(), d.StdDev()
-	g := mu + sd*(z+d.Skewness()*(z*z-1)/6) - 0.5
-	if math.IsNaN(g) || g < 0 {
+// normalQuantileLog returns z with Phi(z) = e^lq for lq <= ln(1/2),
+// accurate to about 1e-9 relative for lq > -23 (math.Erfinv) and to a few
+// digits below (the asymptotic expansion of Mills' ratio): a starting
+// point, not a result.
+func normalQuantileLog(lq float64) float64 {
+	if lq > -23 {
+		return math.Sqrt2 * math.Erfinv(2*math.Exp(lq)-1)
+	}
+	// ln Phi(z) ~ -z^2/2 - ln(-z sqrt(2 pi)) - ln(1 - 1/z^2), z < 0.
+	z := -math.Sqrt(-2 * lq)
+	for range 4 {
+		z2 := -2*lq - ln2pi - 2*math.Log(-z) - 2*math.Log1p(-1/(z*z))
+		z = -math.Sqrt(math.Max(z2, 1))
+	}
+	return z
+}
+
+// guess returns the Cornish-Fisher estimate of the quantile at standard
+// normal deviate z (skewness and kurtosis terms, continuity correction),
+// clamped to [0, N].
+func (d Dist) guess(z float64) int64 {
+	n := float64(d.N)
+	v := n * d.P * (1 - d.P)
+	if !(v > 0) {
 		return 0
 	}
-	if g > float64(d.N) {
+	sd := math.Sqrt(v)
+	g1 := (1 - 2*d.P) / sd
+	g2 := (1 - 6*d.P*(1-d.P)) / v
+	z2 := z * z
+	w := z + g1*(z2-1)/6 + g2*z*(z2-3)/24 - g1*g1*z*(2*z2-5)/36
+	x := n*d.P + sd*w - 0.5
+	switch {
+	case !(x > 0):
+		return 0
+	case x >= n:
 		return d.N
 	}
-	return int64(math.Round(g))
+	return int64(math.Ceil(x))
 }
 
-// zFromLog returns the standard normal quantile for lower-tail log
-// probability lq (lq <= 0), accurate enough for a starting guess.
-func zFromLog(lq float64) float64 {
-	if lq < -700 {
-		return -math.Sqrt(-2 * lq)
-	}
-	q := math.Exp(lq)
-	if q >= 1 {
-		return 40
-	}
-	return math.Sqrt2 * math.Erfinv(2*q-1)
-}
-
-// Quantile returns the smallest k with P(X <= k) >= q. Special cases: q <= 0
-// gives 0; q = 1 gives the smallest k whose upper tail is exactly 0 (N for
-// 0 < P < 1); q > 1 or NaN gives -1 (no such k). Ties with a CDF value are
-// decided on the smaller tail (for q > 1/2 as P(X > k) <= 1-q, 1-q being
-// exact there), so Quantile(CDF(k)) == k. Cost: O(log N) tail evaluations.
+// Quantile returns the smallest k with CDF(k) >= q, the comparison made on
+// the value CDF returns, so that Quantile(CDF(k)) == k wherever
+// CDF(k-1) < CDF(k) < 1 as computed. Special cases: q <= 0 gives 0; q = 1
+// gives the smallest k with P(X <= k) = 1 exactly (N for 0 < P < 1, 0 for
+// P = 0); q > 1 or NaN gives -1 (no such k), as does an invalid Dist.
+// Cost: a Cornish-Fisher start and secant steps on the log tail, two to
+// four tail evaluations (about 1 microsecond at any N up to 1e12).
 func (d Dist) Quantile(q float64) int64 {
 	if !d.valid() || math.IsNaN(q) || q > 1 {
 		return -1
 	}
-	if q <= 0 {
+	switch {
+	case q <= 0 || d.N == 0 || d.P == 0:
 		return 0
+	case q == 1 || d.P == 1:
+		return d.N
 	}
-	if q > 0.5 {
-		return d.UpperQuantile(1 - q)
-	}
-	return d.LogQuantile(math.Log(q))
+	t := quantileTarget{plain: true, q: q, lq: math.Log(q)}
+	return d.search(&t, d.guess(zFromLog(t.lq)))
 }
 
-// LogQuantile returns the smallest k with ln P(X <= k) >= lq, for lq <= 0;
-// it reaches far below the smallest double (lq = -1e5 is fine). lq > 0 or
-// NaN gives -1; lq = -Inf gives 0.
+// LogQuantile returns the smallest k with LogCDF(k) >= lq, for lq <= 0; it
+// reaches far below the smallest double (lq = -1e5 is fine), with the same
+// exact inversion of LogCDF as Quantile has of CDF. lq > 0 or NaN gives -1;
+// lq = -Inf gives 0; lq = 0 gives N (0 for P = 0).
 func (d Dist) LogQuantile(lq float64) int64 {
 	if !d.valid() || math.IsNaN(lq) || lq > 0 {
 		return -1
 	}
-	if math.IsInf(lq, -1) || d.LogCDF(0) >= lq {
+	switch {
+	case math.IsInf(lq, -1) || d.N == 0 || d.P == 0:
 		return 0
+	case lq == 0 || d.P == 1:
+		return d.N
 	}
-	return d.search(d.normalGuess(zFromLog(lq)), func(k int64) bool { return d.LogCDF(k) >= lq })
+	t := quantileTarget{lq: lq, q: math.Exp(lq)}
+	return d.search(&t, d.guess(zFromLog(lq)))
 }
 
-// UpperQuantile returns the smallest k with P(X > k) <= q. It is exact for q
-// down to the smallest positive double (compare LogUpperQuantile for
-// smaller). Special cases: q >= 1 gives 0; q = 0 gives the smallest k with
-// P(X > k) = 0 exactly (N for 0 < P < 1, 0 for P = 0); q < 0 or NaN gives -1.
+// UpperQuantile returns the smallest k with Survival(k) <= q, the comparison
+// made on the value Survival returns (computed directly, never as 1 - CDF),
+// so it is exact for every q down to the smallest positive double and
+// UpperQuantile(Survival(k)) == k wherever 0 < Survival(k) < Survival(k-1).
+// Special cases: q >= 1 gives 0; q = 0 gives the smallest k with
+// P(X > k) = 0 exactly (N for 0 < P <= 1, 0 for P = 0); q < 0 or NaN gives
+// -1, as does an invalid Dist. Cost as Quantile.
 func (d Dist) UpperQuantile(q float64) int64 {
 	if !d.valid() || math.IsNaN(q) || q < 0 {
 		return -1
 	}
-	if q >= 1 {
+	switch {
+	case q >= 1 || d.N == 0 || d.P == 0:
 		return 0
+	case q == 0 || d.P == 1:
+		return d.N
 	}
-	if q == 0 {
-		switch d.P {
-		case 0:
-			return 0
-		default:
-			return d.N
-		}
-	}
-	return d.LogUpperQuantile(math.Log(q))
+	t := quantileTarget{upper: true, plain: true, q: q, lq: math.Log(q)}
+	return d.search(&t, d.guess(-zFromLog(t.lq)))
 }
 
-// LogUpperQuantile returns the smallest k with ln P(X > k) <= lq, for
-// lq <= 0. lq > 0 or NaN gives -1; lq = -Inf gives the smallest k with an
-// upper tail of exactly 0 (N for 0 < P < 1).
+// LogUpperQuantile returns the smallest k with LogSurvival(k) <= lq, for
+// lq <= 0, inverting LogSurvival exactly; it reaches tails far beyond the
+// smallest double. lq > 0 or NaN gives -1; lq = 0 gives 0; lq = -Inf gives
+// the smallest k with P(X > k) = 0 exactly (N for 0 < P <= 1, 0 for P = 0).
 func (d Dist) LogUpperQuantile(lq float64) int64 {
 	if !d.valid() || math.IsNaN(lq) || lq > 0 {
 		return -1
 	}
-	if lq == 0 {
+	switch {
+	case lq == 0 || d.N == 0 || d.P == 0:
 		return 0
-	}
-	if math.IsInf(lq, -1) {
-		if d.P == 0 {
-			return 0
-		}
+	case math.IsInf(lq, -1) || d.P == 1:
 		return d.N
 	}
-	return d.search(d.normalGuess(-zFromLog(lq)), func(k int64) bool { return d.LogSurvival(k) <= lq })
+	t := quantileTarget{upper: true, lq: lq, q: math.Exp(lq)}
+	return d.search(&t, d.guess(-zFromLog(lq)))
+}
+
+// zFromLog returns the standard normal quantile for the lower-tail log
+// probability lq <= 0 (40 for lq >= 0), accurate enough for a starting
+// guess; other searches in the package start from it.
+func zFromLog(lq float64) float64 {
+	switch {
+	case lq >= 0:
+		return 40
+	case lq <= -math.Ln2:
+		return normalQuantileLog(lq)
+	}
+	return -normalQuantileLog(log1mexp(lq))
 }

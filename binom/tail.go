@@ -2,80 +2,99 @@ package binom
 
 import "math"
 
-// betacf evaluates the continued fraction of the regularized incomplete
-// beta function,
-//
-//	I_x(a, b) = x^a (1-x)^b / (a B(a, b)) * betacf(a, b, x),
-//
-// by the modified Lentz method (Press et al., Numerical Recipes, 3rd ed.,
-// section 6.4). It converges quickly for x < (a+1)/(a+b+2), the only region
-// the tails use; the number of terms grows like sqrt(min(a, b)) near that
-// boundary.
-func betacf(a, b, x float64) float64 {
-	const (
-		tiny = 1e-300
-		eps  = 1e-16
-	)
-	qab, qap, qam := a+b, a+1, a-1
-	c := 1.0
-	dd := 1 - qab*x/qap
-	if math.Abs(dd) < tiny {
-		dd = tiny
-	}
-	dd = 1 / dd
-	h := dd
-	for m := 1.0; m < 1e9; m++ {
-		m2 := 2 * m
-		aa := m * (b - m) * x / ((qam + m2) * (a + m2))
-		dd = 1 + aa*dd
-		if math.Abs(dd) < tiny {
-			dd = tiny
-		}
-		c = 1 + aa/c
-		if math.Abs(c) < tiny {
-			c = tiny
-		}
-		dd = 1 / dd
-		h *= dd * c
-		aa = -(a + m) * (qab + m) * x / ((a + m2) * (qap + m2))
-		dd = 1 + aa*dd
-		if math.Abs(dd) < tiny {
-			dd = tiny
-		}
-		c = 1 + aa/c
-		if math.Abs(c) < tiny {
-			c = tiny
-		}
-		dd = 1 / dd
-		del := dd * c
-		h *= del
-		if math.Abs(del-1) < eps {
-			break
-		}
-	}
-	return h
-}
-
-// lowerDirect reports whether the lower tail P(X <= k) is the one to
-// evaluate directly: its continued fraction converges fast exactly when
-// 1-P < (N-k+1)/(N+3), which also makes it the smaller tail, so the other
-// tail, obtained as its complement, loses no relative accuracy.
+// lowerDirect reports whether the lower tail P(X <= k) is the one whose
+// continued fraction converges: 1-P < (N-k+1)/(N+3). That is also, up to a
+// fraction of a standard deviation, the smaller tail, so the other tail,
+// obtained from it by log1mexp, is at least about 1/2 and loses nothing.
 func (d Dist) lowerDirect(k int64) bool {
 	return (1-d.P)*float64(d.N+3) < float64(d.N-k+1)
 }
 
-// logLower returns ln P(X <= k) for 0 <= k < N and 0 < P < 1, computed
-// directly: P(X <= k) = I_{1-P}(N-k, k+1) = b(k) P betacf(N-k, k+1, 1-P).
+// logLower returns ln P(X <= k) for 0 <= k < N and 0 < P < 1 on the side
+// where lowerDirect holds. For P >= 1/2 it uses the continued fraction
+// P(X <= k) = I_{1-P}(N-k, k+1) = b(k) P betaFrac(N-k, k+1, 1-P), whose
+// argument 1-P is then exact and at most 1/2. For P < 1/2 the fraction would
+// see 1-P rounded and near 1, where its leading denominators cancel (at
+// N = 1e12 that costs 1e-8); there the tail is summed from k down,
+// P(X <= k) = b(k) (1 + r_k + r_k r_{k-1} + ...), r_j = j (1-P) / ((N-j+1) P),
+// with positive terms only. The callers send the bulk to the uniform
+// expansion, so the ratios stay below about 0.6 (at most about 70 terms)
+// or k is below temmeMinAB.
 func (d Dist) logLower(k int64) float64 {
-	cf := betacf(float64(d.N-k), float64(k+1), 1-d.P)
-	return d.LogProb(k) + math.Log(d.P) + math.Log(cf)
+	if d.P >= 0.5 {
+		cf := betaFrac(float64(d.N-k), float64(k+1), 1-d.P)
+		return d.LogProb(k) + math.Log(d.P) + math.Log(cf)
+	}
+	n := float64(d.N)
+	qp := (1 - d.P) / d.P
+	return d.LogProb(k) + math.Log(termSum(float64(k), n+1, qp, -1))
 }
 
-// logUpper returns ln P(X > k) for 0 <= k < N and 0 < P < 1, computed
-// directly: P(X > k) = I_P(k+1, N-k) = b(k+1) (1-P) betacf(k+1, N-k, P).
+// logUpper returns ln P(X > k) for 0 <= k < N and 0 < P < 1 on the side
+// where lowerDirect fails, the mirror image of logLower: the continued
+// fraction P(X > k) = I_P(k+1, N-k) = b(k+1) (1-P) betaFrac(k+1, N-k, P)
+// for P <= 1/2, the sum from k+1 up,
+// P(X > k) = b(k+1) (1 + s_{k+1} + s_{k+1} s_{k+2} + ...),
+// s_j = (N-j) P / ((j+1) (1-P)), for P > 1/2.
 func (d Dist) logUpper(k int64) float64 {
-	cf := betacf(float64(k+1), float64(d.N-k), d.P)
-	return d.LogProb(k+1) + math.Log1p(-d.P) + math.Log(cf)
+	if d.P <= 0.5 {
+		cf := betaFrac(float64(k+1), float64(d.N-k), d.P)
+		return d.LogProb(k+1) + math.Log1p(-d.P) + math.Log(cf)
+	}
+	n := float64(d.N)
+	pq := d.P / (1 - d.P)
+	return d.LogProb(k+1) + math.Log(termSum(n-float64(k+1), n+1, pq, -1))
+}
+
+// termSum returns 1 + r_j + r_j r_{j-1} + ... with r_i = i c / (m - i),
+// for i = j, j-1, ..., 1, stopped when a term no longer changes the sum
+// (the ratios fall, so the rest is smaller still). The lower tail sum is
+// termSum(k, N+1, (1-P)/P); the upper one, by the symmetry k -> N-k, is
+// termSum(N-k-1, N+1, P/(1-P)). The last argument is unused.
+func termSum(j, m, c float64, _ int) float64 {
+	sum, t := 1.0, 1.0
+	for i := j; i >= 1; i-- {
+		t *= i * c / (m - i)
+		s1 := sum + t
+		if s1 == sum {
+			break
+		}
+		sum = s1
+	}
+	return sum
+}
+
+// Where the uniform expansion replaces the continued fraction and the term
+// sums: a variance N P (1-P) of at least temmeMinVar, both beta parameters
+// (k+1 and N-k) at least temmeMinAB, and z^2 <= temmeZ2 min(k+1, N-k) for
+// the standardised distance z of k from the mean. Outside, the fraction
+// and the sums need at most about 70 steps, and the fraction's leading
+// denominators, which cancel near the mean, stay away from cancellation.
+const (
+	temmeMinVar = 16
+	temmeMinAB  = 25
+	temmeZ2     = 0.5
+)
+
+// smallTail returns ln of the smaller of the two tails at k (for
+// 0 <= k < N and 0 < P < 1, up to the fraction of a standard deviation where
+// the methods switch sides) and whether it is the lower tail P(X <= k).
+func (d Dist) smallTail(k int64) (lnSmall float64, lower bool) {
+	n := float64(d.N)
+	if v := n * d.P * (1 - d.P); v >= temmeMinVar {
+		fk := float64(k)
+		m := math.Min(fk+1, n-fk)
+		z := fk + 0.5 - n*d.P
+		if m >= temmeMinAB && z*z <= temmeZ2*m*v {
+			if ls, lo, ok := d.temmeTail(k); ok {
+				return ls, lo
+			}
+		}
+	}
+	if d.lowerDirect(k) {
+		return d.logLower(k), true
+	}
+	return d.logUpper(k), false
 }
 
 // log1mexp returns ln(1 - e^x) for x <= 0 without cancellation
@@ -109,10 +128,11 @@ func (d Dist) LogCDF(k int64) float64 {
 	case d.P == 1:
 		return math.Inf(-1)
 	}
-	if d.lowerDirect(k) {
-		return d.logLower(k)
+	if ls, lower := d.smallTail(k); lower {
+		return ls
+	} else {
+		return log1mexp(ls)
 	}
-	return log1mexp(d.logUpper(k))
 }
 
 // LogSurvival returns ln P(X > k): 0 for k < 0, -Inf for k >= N. It is
@@ -132,10 +152,11 @@ func (d Dist) LogSurvival(k int64) float64 {
 	case d.P == 1:
 		return 0
 	}
-	if d.lowerDirect(k) {
-		return log1mexp(d.logLower(k))
+	if ls, lower := d.smallTail(k); lower {
+		return log1mexp(ls)
+	} else {
+		return ls
 	}
-	return d.logUpper(k)
 }
 
 // CDF returns P(X <= k) = exp(LogCDF(k)); 0 for k < 0 and 1 for k >= N.
@@ -147,35 +168,6 @@ func (d Dist) CDF(k int64) float64 { return math.Exp(d.LogCDF(k)) }
 // such, not as 1 - CDF = 0.
 func (d Dist) Survival(k int64) float64 { return math.Exp(d.LogSurvival(k)) }
 
-// LogProbRange returns ln P(lo <= X <= hi); -Inf when the range is empty
-// (lo > hi) or outside the support. It combines the two tails outside the
-// range, or the tail inside it, so that no digits cancel.
-func (d Dist) LogProbRange(lo, hi int64) float64 {
-	if !d.valid() {
-		return math.NaN()
-	}
-	if lo < 0 {
-		lo = 0
-	}
-	if hi > d.N {
-		hi = d.N
-	}
-	if lo > hi {
-		return math.Inf(-1)
-	}
-	// P(lo <= X <= hi) = P(X <= hi) - P(X <= lo-1) = P(X > lo-1) - P(X > hi).
-	// Use the representation whose subtracted term is the smaller.
-	a := d.LogCDF(hi)
-	b := d.LogCDF(lo - 1)
-	sa := d.LogSurvival(lo - 1)
-	sb := d.LogSurvival(hi)
-	if sa <= a {
-		// Range sits in the upper part: survival difference.
-		return logDiff(sa, sb)
-	}
-	return logDiff(a, b)
-}
-
 // logDiff returns ln(e^a - e^b) for a >= b, -Inf when a == b or a is -Inf.
 func logDiff(a, b float64) float64 {
 	if math.IsInf(a, -1) || b >= a {
@@ -186,6 +178,3 @@ func logDiff(a, b float64) float64 {
 	}
 	return a + log1mexp(b-a)
 }
-
-// ProbRange returns P(lo <= X <= hi) = exp(LogProbRange(lo, hi)).
-func (d Dist) ProbRange(lo, hi int64) float64 { return math.Exp(d.LogProbRange(lo, hi)) }

@@ -1,0 +1,100 @@
+package binom
+
+import (
+	"fmt"
+	"math"
+	"testing"
+)
+
+// benchPoints are the distributions and points the benchmarks time: for
+// each N, P = 0.3 at the mean ("bulk"), 1.5 standard deviations out
+// ("shoulder") and about 20 standard deviations out ("tail").
+func benchPoints() []struct {
+	name string
+	d    Dist
+	k    int64
+} {
+	var out []struct {
+		name string
+		d    Dist
+		k    int64
+	}
+	for _, n := range []int64{10, 1e3, 1e6, 1e9, 1e12} {
+		d := Dist{N: n, P: 0.3}
+		mean, sd := d.Mean(), d.StdDev()
+		for _, pt := range []struct {
+			name string
+			z    float64
+		}{{"bulk", 0}, {"shoulder", 1.5}, {"tail", 20}} {
+			k := int64(math.Round(mean + pt.z*sd))
+			if k > n {
+				k = n - 1
+			}
+			out = append(out, struct {
+				name string
+				d    Dist
+				k    int64
+			}{fmt.Sprintf("n=%.0e/%s", float64(n), pt.name), d, k})
+		}
+	}
+	return out
+}
+
+var sink float64
+var sinkInt int64
+
+func benchFloat(b *testing.B, f func(d Dist, k int64) float64) {
+	for _, c := range benchPoints() {
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				sink = f(c.d, c.k)
+			}
+		})
+	}
+}
+
+func BenchmarkProb(b *testing.B)    { benchFloat(b, Dist.Prob) }
+func BenchmarkLogProb(b *testing.B) { benchFloat(b, Dist.LogProb) }
+func BenchmarkCDF(b *testing.B)     { benchFloat(b, Dist.CDF) }
+func BenchmarkLogCDF(b *testing.B)  { benchFloat(b, Dist.LogCDF) }
+func BenchmarkSurvival(b *testing.B) {
+	benchFloat(b, Dist.Survival)
+}
+func BenchmarkLogSurvival(b *testing.B) { benchFloat(b, Dist.LogSurvival) }
+
+// BenchmarkProbRange times a range of one standard deviation on either side
+// of k (a narrow range in the bulk is the hard case for cancellation).
+func BenchmarkProbRange(b *testing.B) {
+	benchFloat(b, func(d Dist, k int64) float64 {
+		h := int64(d.StdDev())
+		return d.ProbRange(k-h, k+h)
+	})
+}
+
+func BenchmarkLogProbRange(b *testing.B) {
+	benchFloat(b, func(d Dist, k int64) float64 {
+		h := int64(d.StdDev())
+		return d.LogProbRange(k-h, k+h)
+	})
+}
+
+func benchQuantile(b *testing.B, at func(d Dist, k int64) float64, f func(d Dist, q float64) int64) {
+	for _, c := range benchPoints() {
+		q := at(c.d, c.k)
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				sinkInt = f(c.d, q)
+			}
+		})
+	}
+}
+
+// The quantile benchmarks invert the tail value at each benchmark point.
+func BenchmarkQuantile(b *testing.B)      { benchQuantile(b, Dist.CDF, Dist.Quantile) }
+func BenchmarkUpperQuantile(b *testing.B) { benchQuantile(b, Dist.Survival, Dist.UpperQuantile) }
+func BenchmarkLogQuantile(b *testing.B)   { benchQuantile(b, Dist.LogCDF, Dist.LogQuantile) }
+func BenchmarkLogUpperQuantile(b *testing.B) {
+	benchQuantile(b, Dist.LogSurvival, Dist.LogUpperQuantile)
+}

@@ -1,0 +1,197 @@
+package binom
+
+import (
+	"math"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+)
+
+// propertyDists spans the domain of the accuracy bar: N from 1 to 1e12 and
+// P from 1e-15 to 1-1e-15, with the standard deviation small and large.
+func propertyDists() []Dist {
+	var ds []Dist
+	for _, n := range []int64{1, 7, 60, 1000, 123457, 1e8, 999999999989, 1e12} {
+		for _, p := range []float64{1e-15, 1e-9, 3e-4, 0.02, 0.3, 0.5, 0.77, 0.999, 1 - 1e-9, 1 - 1e-15} {
+			ds = append(ds, Dist{N: n, P: p})
+		}
+	}
+	return ds
+}
+
+// propertyKs returns points across the support: the ends, the bulk at
+// fractions of a standard deviation, the shoulders where the methods
+// switch, and far tails.
+func propertyKs(d Dist) []int64 {
+	mean, sd := d.Mean(), d.StdDev()
+	ks := []int64{0, 1, 2, d.N - 2, d.N - 1, d.N}
+	for _, z := range []float64{-300, -40, -12, -7, -4, -2.5, -1, -0.2, 0, 0.2, 1, 2.5, 4, 7, 12, 40, 300} {
+		ks = append(ks, int64(math.Floor(mean+z*sd)))
+	}
+	out := ks[:0]
+	for _, k := range ks {
+		if k >= 0 && k <= d.N {
+			out = append(out, k)
+		}
+	}
+	return out
+}
+
+// TestComplement checks P(X <= k) + P(X > k) = 1 in log space, from both
+// sides: ln(e^LogCDF + e^LogSurvival) = 0 within 1e-15, and, where both
+// tails are at least 1e-3 (so the complement is well conditioned), each is
+// the log1mexp of the other within 1e-13.
+// Property check (DESIGN.md section 4).
+func TestComplement(t *testing.T) {
+	t.Parallel()
+	for _, d := range propertyDists() {
+		for _, k := range propertyKs(d) {
+			lc, ls := d.LogCDF(k), d.LogSurvival(k)
+			if s := logAddExp2(lc, ls); math.Abs(s) > 1e-15 {
+				t.Errorf("%v k=%d: ln(CDF + Survival) = %.3g", d, k, s)
+			}
+			if ls > math.Log(1e-3) && lc > math.Log(1e-3) {
+				if e := logErr(log1mexp(ls), lc); e > 1e-13 {
+					t.Errorf("%v k=%d: LogCDF %v vs log1mexp(LogSurvival) %v", d, k, lc, log1mexp(ls))
+				}
+				if e := logErr(log1mexp(lc), ls); e > 1e-13 {
+					t.Errorf("%v k=%d: LogSurvival %v vs log1mexp(LogCDF) %v", d, k, ls, log1mexp(lc))
+				}
+			}
+		}
+	}
+}
+
+// TestMonotone checks that LogCDF never decreases and LogSurvival never
+// increases in k, on runs of consecutive k around the points where the
+// methods switch (uniform expansion, continued fraction, term sums).
+func TestMonotone(t *testing.T) {
+	t.Parallel()
+	for _, d := range propertyDists() {
+		for _, k0 := range propertyKs(d) {
+			prevC, prevS := d.LogCDF(k0-1), d.LogSurvival(k0-1)
+			for k := k0; k <= min(k0+12, d.N+1); k++ {
+				c, s := d.LogCDF(k), d.LogSurvival(k)
+				if c < prevC || s > prevS {
+					t.Errorf("%v: not monotone at k=%d: LogCDF %v -> %v, LogSurvival %v -> %v", d, k, prevC, c, prevS, s)
+				}
+				prevC, prevS = c, s
+			}
+		}
+	}
+}
+
+// TestMethodsAgree compares the uniform expansion with the continued
+// fraction or term sum at points where both apply and the latter is well
+// conditioned: the fraction's rounding grows like its value, about
+// 1/(1 - rho) for the ratio rho of successive PMF terms, so the points sit
+// where rho <= 0.9 (at least 0.1 standard deviations times the standard
+// deviation out, and 3 standard deviations), inside the expansion's range
+// z^2 <= min(k+1, N-k)/2. Two independent methods agreeing to 1e-14.
+func TestMethodsAgree(t *testing.T) {
+	t.Parallel()
+	checked := 0
+	for _, n := range []int64{2000, 1e5, 1e7, 1e9, 1e12} {
+		for _, p := range []float64{1e-4, 0.01, 0.3, 0.5, 0.8, 0.999} {
+			d := Dist{N: n, P: p}
+			sd := d.StdDev()
+			if sd < 6 {
+				continue
+			}
+			for _, z := range []float64{-2 * max(3, 0.1*sd), -max(3, 0.1*sd), max(3, 0.1*sd), 2 * max(3, 0.1*sd)} {
+				k := int64(math.Floor(d.Mean() + z*sd))
+				m := math.Min(float64(k+1), float64(n-k))
+				if k < 0 || k >= n || z*z > 0.4*m {
+					continue
+				}
+				tem, lower, ok := d.temmeTail(k)
+				if !ok {
+					t.Errorf("%v k=%d: uniform expansion did not converge", d, k)
+					continue
+				}
+				var other float64
+				if lower {
+					other = d.logLower(k)
+				} else {
+					other = d.logUpper(k)
+				}
+				if e := logErr(tem, other); e > 1e-14 {
+					t.Errorf("%v k=%d (z=%.4g): expansion %v, continued fraction or sum %v (error %.3g)", d, k, z, tem, other, e)
+				}
+				checked++
+			}
+		}
+	}
+	if checked < 80 {
+		t.Errorf("only %d points checked", checked)
+	}
+}
+
+// TestTailSpecialCases pins the values at the edges of the domain, which
+// follow from the definitions.
+func TestTailSpecialCases(t *testing.T) {
+	t.Parallel()
+	inf := math.Inf(1)
+	tests := []struct {
+		d      Dist
+		k      int64
+		lc, ls float64
+	}{
+		{Dist{10, 0.3}, -1, -inf, 0},
+		{Dist{10, 0.3}, 10, 0, -inf},
+		{Dist{10, 0.3}, 11, 0, -inf},
+		{Dist{10, 0}, 0, 0, -inf},
+		{Dist{10, 1}, 9, -inf, 0},
+		{Dist{0, 0.5}, 0, 0, -inf},
+		{Dist{0, 0.5}, -1, -inf, 0},
+		// k = 0: P(X <= 0) = (1-P)^N; k = N-1: P(X > N-1) = P^N.
+		{Dist{1e12, 1e-12}, 0, 1e12 * math.Log1p(-1e-12), log1mexp(1e12 * math.Log1p(-1e-12))},
+		{Dist{40, 0.5}, 39, log1mexp(40 * math.Log(0.5)), 40 * math.Log(0.5)},
+	}
+	for _, tc := range tests {
+		got := []float64{tc.d.LogCDF(tc.k), tc.d.LogSurvival(tc.k)}
+		want := []float64{tc.lc, tc.ls}
+		if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-14, 0)); diff != "" {
+			t.Errorf("%v at k=%d: LogCDF, LogSurvival (-want +got):\n%s", tc.d, tc.k, diff)
+		}
+	}
+	// Invalid distributions report NaN.
+	for _, d := range []Dist{{-1, 0.5}, {5, -0.1}, {5, math.NaN()}, {MaxN + 1, 0.5}} {
+		for _, v := range []float64{d.LogCDF(1), d.LogSurvival(1), d.CDF(1), d.Survival(1), d.LogProbRange(0, 1)} {
+			if !math.IsNaN(v) {
+				t.Errorf("%v: got %v, want NaN", d, v)
+			}
+		}
+	}
+}
+
+// TestFarTails checks tails far beyond the smallest double stay finite and
+// directly computed: a survival of about 1e-42 is not 1 - CDF = 0, and
+// log tails near -1e5 and -1e10 are finite and match the leading
+// large-deviation term N KL(k/N || P) to its O(ln N) error.
+func TestFarTails(t *testing.T) {
+	t.Parallel()
+	// P(X > 250) for N = 1000, P = 0.1 is about 1.1e-42 while CDF(250)
+	// rounds to 1: 1 - CDF would return 0.
+	d := Dist{N: 1000, P: 0.1}
+	if s, c := d.Survival(250), d.CDF(250); !(s > 1e-43 && s < 1e-41) || c != 1 || logErr(math.Log(s), d.LogSurvival(250)) > 1e-15 {
+		t.Errorf("Survival(250) = %v (CDF %v), want about 1.1e-42 with CDF 1", s, c)
+	}
+	for _, c := range []struct {
+		d Dist
+		k int64
+	}{{Dist{1e6, 0.5}, 100000}, {Dist{1e12, 0.3}, 1e11}, {Dist{1e12, 0.3}, 9e11}} {
+		x := float64(c.k) / float64(c.d.N)
+		kl := float64(c.d.N) * (x*math.Log(x/c.d.P) + (1-x)*math.Log((1-x)/(1-c.d.P)))
+		var l float64
+		if x < c.d.P {
+			l = c.d.LogCDF(c.k)
+		} else {
+			l = c.d.LogSurvival(c.k)
+		}
+		if math.IsInf(l, 0) || math.Abs(l+kl) > 2*math.Log(float64(c.d.N)) {
+			t.Errorf("%v k=%d: log tail %v, large-deviation estimate %v", c.d, c.k, l, -kl)
+		}
+	}
+}
