@@ -19,15 +19,17 @@ var spreadCmd = &Command{
 	Name:    "spread",
 	Group:   "distribution",
 	Summary: "the sampling distribution of k (and k/n) in n trials, with a plot",
-	Usage:   "spread n=N p=P [k=LO..HI] [level=L]",
-	Options: []Opt{optN, optP, {Name: "k", Doc: "range of k to plot, like 0..20 (default: where the probability is)"}, optLevel},
+	Usage:   "spread n=N p=P [k=LO..HI] [level=L] [within=D]",
+	Options: []Opt{optN, optP, {Name: "k", Doc: "range of k to plot, like 0..20 (default: where the probability is)"}, optLevel,
+		{Name: "within", Doc: "a distance D: print the chance that k/n lands within D of p"}},
 	Help: Help{
 		Computes: "The binomial distribution of the number of successes k in n independent trials with " +
 			"success probability p: mean, standard deviation, mode, skewness, the central range of k holding " +
 			"at least the level of probability, and a plot of P(X = k). The same numbers divided by n describe " +
-			"the sample proportion k/n.",
+			"the sample proportion k/n. within=D adds the exact chance that k/n lands within D of p, " +
+			"P(|k/n - p| <= D), boundaries included and decided on the decimals as written.",
 		Assumptions: "Independent trials with one common success probability.",
-		Examples:    []string{"spread n=40 p=0.3", "spread n=1000 p=0.02 level=99%", "spread n=20 p=0.5 k=0..20"},
+		Examples:    []string{"spread n=40 p=0.3", "spread n=1000 p=0.02 level=99%", "spread n=20 p=0.5 k=0..20", "spread n=50 p=0.3 within=0.1"},
 		Sources:     sourcesBinom,
 	},
 	Run: runSpread,
@@ -67,6 +69,8 @@ type spreadResult struct {
 	CentralFrom    int64     `json:"central_from"`
 	CentralTo      int64     `json:"central_to"`
 	CentralProb    float64   `json:"central_prob"`
+	Within         *float64  `json:"within,omitempty"`
+	WithinProb     *float64  `json:"within_prob,omitempty"`
 	Mass           []massBin `json:"mass"`
 }
 
@@ -100,7 +104,6 @@ func runSpread(c *Call) error {
 	}
 	var plot string
 	r.Mass, plot = massPlot(c.S, plo, phi, d.ProbRange)
-	c.Data(r)
 	s := c.S
 	nf := float64(d.N)
 	b := c.Block("binomial distribution of k successes in n = " + count(d.N) + " trials, p = " + in(d.P))
@@ -111,9 +114,19 @@ func runSpread(c *Call) error {
 	b.Row("excess kurtosis", s.num(r.ExcessKurtosis))
 	b.Row("central "+pct(level), count(lo)+" to "+count(hi),
 		"k/n: "+s.num(float64(lo)/nf)+" to "+s.num(float64(hi)/nf)+"; holds "+s.num(r.CentralProb))
+	if a.Has("within") {
+		eps, err := a.Prob("within", 0)
+		if err != nil {
+			return err
+		}
+		pw := d.ProportionWithin(eps)
+		r.Within, r.WithinProb = &eps, &pw
+		b.Row("k/n within "+in(eps), s.num(pw), "chance that |k/n - p| "+s.le()+" "+in(eps))
+	}
 	if d.N == 0 {
 		b.Warn("n = 0: no trials, k is always 0")
 	}
+	c.Data(r)
 	c.Plot(plot)
 	return nil
 }
