@@ -1,0 +1,203 @@
+package power
+
+import (
+	"context"
+	"math"
+
+	"github.com/kofnlab/kofn/binom"
+	"github.com/kofnlab/kofn/internal/argerr"
+)
+
+// PrecisionOptions configures PrecisionN and WorstPrecisionN. The zero
+// value means target probability 0.95 and search limit DefaultMaxN.
+type PrecisionOptions struct {
+	// Target is the required probability that k/n lands within eps of p,
+	// in (0, 1); 0 means 0.95.
+	Target float64
+	// MaxN bounds the search; 0 means DefaultMaxN (PrecisionN) or
+	// DefaultMaxWorstN (WorstPrecisionN).
+	MaxN int64
+}
+
+// DefaultMaxWorstN is the search limit of WorstPrecisionN when MaxN is 0;
+// MaxWorstN the largest it accepts (each n costs O(n) range probabilities).
+const (
+	DefaultMaxWorstN int64 = 20_000
+	MaxWorstN        int64 = 200_000
+)
+
+func (o PrecisionOptions) check(fn string, eps float64, def, limit int64) (target float64, nmax int64, err error) {
+	if !(eps > 0 && eps < 0.5) {
+		return 0, 0, argerr.Invalid(fn, "eps", eps, "must lie in (0, 0.5)")
+	}
+	target = orDefault(o.Target, 0.95)
+	if err = checkLevel(fn, "Target", target); err != nil {
+		return
+	}
+	nmax, err = maxN(fn, o.MaxN, def, limit)
+	return
+}
+
+// PrecisionN returns the number of trials for the sample proportion to
+// land within eps of p with probability at least o.Target,
+//
+//	P(|X/n - p| <= eps) >= target,  X ~ Binomial(n, p),
+//
+// computed exactly by binom's ProportionWithin (boundaries included, p
+// and eps read as the decimals that print them). The probability is a
+// sawtooth in n (the count range [n(p - eps), n(p + eps)] gains or loses
+// an outcome as n grows), so the result gives the first n reaching the
+// target and the stable n from which every n through Horizon keeps it,
+// exactly as OneSampleN; Normal is the common-practice margin-of-error n
+// z^2 p (1-p) / eps^2 for comparison. Domain: 0 < p < 1, 0 < eps < 0.5.
+// The scan runs from n = 1 to at most o.MaxN (ErrNoSolution beyond).
+func PrecisionN(ctx context.Context, p, eps float64, o PrecisionOptions) (ExactSize, error) {
+	const fn = "power.PrecisionN"
+	if err := argerr.OpenProb(fn, "p", p); err != nil {
+		return ExactSize{}, err
+	}
+	target, limit, err := o.check(fn, eps, DefaultMaxN, MaxSearchN)
+	if err != nil {
+		return ExactSize{}, err
+	}
+	within := func(n int64) float64 { return binom.Dist{N: n, P: p}.ProportionWithin(eps) }
+	r, err := searchStable(ctx, fn, within, target, limit)
+	if err != nil {
+		return ExactSize{}, err
+	}
+	r.Test = "exact P(|k/n - p| <= eps)"
+	if n, err := MarginOfErrorN(p, eps, target); err == nil {
+		r.Normal = NormalSize{Method: "margin of error z^2 p (1-p) / eps^2 (common practice)", N: n, Real: float64(n), Uncorrected: float64(n), Power: math.NaN()}
+	}
+	return r, nil
+}
+
+// WorstPrecision is the smallest probability, over all true proportions,
+// that k/n lands within eps of p, at one n.
+type WorstPrecision struct {
+	N int64 `json:"n"`
+	// Prob is inf over p of P(|X/n - p| <= eps). The infimum is a limit:
+	// it is approached as p tends to WorstP from the side where the range
+	// of counts loses an end point.
+	Prob float64 `json:"prob"`
+	// WorstP is the p (at most 1/2; 1 - WorstP is as bad) where it is
+	// approached.
+	WorstP float64 `json:"worst_p"`
+}
+
+// worstWithin returns the infimum over p of P(|X/n - p| <= eps). For p in
+// an open interval where kmin = ceil(n(p - eps)) and kmax = floor(n(p +
+// eps)) stay fixed, P(kmin <= X <= kmax) is unimodal in p, so the infimum
+// is a one-sided limit at an end of such an interval: p = j/n - eps
+// approached from below (kmax drops to j - 1) or p = k/n + eps from above
+// (kmin rises to k + 1). By symmetry only p <= 1/2 is examined. Cost:
+// O(n) range probabilities.
+func worstWithin(ctx context.Context, fn string, n int64, eps float64) (WorstPrecision, error) {
+	w := WorstPrecision{N: n, Prob: 1, WorstP: 0.5}
+	fn64 := float64(n)
+	ceilTol := func(x float64) int64 { // ceil with integers within 1e-9 kept
+		r := math.Round(x)
+		if math.Abs(x-r) <= 1e-9*math.Max(1, math.Abs(r)) {
+			return int64(r)
+		}
+		return int64(math.Ceil(x))
+	}
+	floorTol := func(x float64) int64 {
+		r := math.Round(x)
+		if math.Abs(x-r) <= 1e-9*math.Max(1, math.Abs(r)) {
+			return int64(r)
+		}
+		return int64(math.Floor(x))
+	}
+	try := func(p float64, lo, hi int64) {
+		if !(p > 0 && p <= 0.5) {
+			return
+		}
+		lo, hi = max(lo, 0), min(hi, n)
+		v := 0.0
+		if lo <= hi {
+			v = binom.Dist{N: n, P: p}.ProbRange(lo, hi)
+		}
+		if v < w.Prob {
+			w.Prob, w.WorstP = v, p
+		}
+	}
+	for j := int64(0); j <= n+1; j++ {
+		if j&1023 == 0 {
+			if err := argerr.Canceled(fn, ctx); err != nil {
+				return w, err
+			}
+		}
+		// p = j/n - eps from below: kmax = j - 1.
+		p := float64(j)/fn64 - eps
+		try(p, ceilTol(fn64*(p-eps)), j-1)
+		// p = j/n + eps from above: kmin = j + 1.
+		p = float64(j)/fn64 + eps
+		try(p, j+1, floorTol(fn64*(p+eps)))
+	}
+	// The interior maximum region cannot hold the infimum; p = 1/2 itself
+	// is included as a candidate for completeness.
+	d := binom.Dist{N: n, P: 0.5}
+	if v := d.ProportionWithin(eps); v < w.Prob {
+		w.Prob, w.WorstP = v, 0.5
+	}
+	return w, nil
+}
+
+// WorstPrecisionN returns the number of trials for which k/n lands within
+// eps of the true proportion with probability at least o.Target whatever
+// the proportion (the infimum over p described on WorstPrecision). The
+// worst case is a sawtooth in n as well; the result gives the first and
+// the stable n as OneSampleN does, with Curve holding the worst-case
+// probability per n. Each n costs O(n) range probabilities, so the scan
+// starts at n = max(1, floor(N/2)), N the common-practice worst-case
+// margin-of-error size at p = 1/2 (smaller n are not examined), and the
+// limit is o.MaxN (default DefaultMaxWorstN, at most MaxWorstN).
+// Example (invented planning question): eps = 0.1 at 95% needs the
+// worst-case n reported by the package example. Domain: 0 < eps < 0.5.
+func WorstPrecisionN(ctx context.Context, eps float64, o PrecisionOptions) (ExactSize, error) {
+	const fn = "power.WorstPrecisionN"
+	target, limit, err := o.check(fn, eps, DefaultMaxWorstN, MaxWorstN)
+	if err != nil {
+		return ExactSize{}, err
+	}
+	n0, err := MarginOfErrorN(0.5, eps, target)
+	if err != nil {
+		return ExactSize{}, err
+	}
+	start := max(1, n0/2)
+	if start > limit {
+		return ExactSize{}, argerr.NoSolution(fn, "the margin-of-error size "+argerr.Format(n0)+" is beyond twice MaxN = "+argerr.Format(limit))
+	}
+	res := ExactSize{Test: "exact worst-case P(|k/n - p| <= eps)", Target: target,
+		Normal: NormalSize{Method: "margin of error at p = 1/2 (common practice)", N: n0, Real: float64(n0), Uncorrected: float64(n0), Power: math.NaN()}}
+	horizon := limit
+	lastFail := start - 1
+	for n := start; n <= horizon; n++ {
+		w, err := worstWithin(ctx, fn, n, eps)
+		if err != nil {
+			return ExactSize{}, err
+		}
+		res.Curve = append(res.Curve, NPower{N: n, Power: w.Prob})
+		if w.Prob < target {
+			lastFail = n
+		} else if res.First == 0 {
+			res.First, res.FirstPower = n, w.Prob
+			horizon = min(limit, n+max(20, n/4))
+		}
+	}
+	if res.First == 0 {
+		return ExactSize{}, argerr.NoSolution(fn, "no n up to MaxN = "+argerr.Format(limit)+" reaches the target")
+	}
+	res.Horizon = horizon
+	if lastFail < horizon {
+		res.Stable = max(lastFail+1, res.First)
+		res.StablePower = res.Curve[res.Stable-start].Power
+	} else {
+		res.Warnings = append(res.Warnings, "the worst-case probability falls below the target again at MaxN: no stable n found")
+	}
+	if res.First == start && start > 1 {
+		res.Warnings = append(res.Warnings, "the target is already reached where the scan starts: smaller n were not examined")
+	}
+	return res, nil
+}
