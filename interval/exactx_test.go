@@ -6,8 +6,8 @@ import (
 	"testing"
 
 	"github.com/kofnlab/kofn/binom"
-	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/internal/onesample"
+	"github.com/kofnlab/kofn/interval"
 	"gonum.org/v1/gonum/mathext"
 )
 
