@@ -403,13 +403,13 @@ func runDetect(c *Call) error {
 	b.Row("n", count(lo)+" to "+count(hi))
 	b.Row("lowest power", s.num(minP.Power), "at n = "+count(minP.N))
 	b.Row("highest power", s.num(maxP.Power), "at n = "+count(maxP.N))
-	c.Plot(powerPlot(s, curve, 0.8))
+	c.Plot(powerPlot(s, curve, 0.8, "power"))
 	return nil
 }
 
 // powerPlot draws power against n as bars, one column per n (every k-th n
 // when the range is wider than the plot), with a reference line at target.
-func powerPlot(s *Session, curve []power.NPower, target float64, marks ...int64) string {
+func powerPlot(s *Session, curve []power.NPower, target float64, what string, marks ...int64) string {
 	cols := s.plotColumns(6)
 	step := max(1, (len(curve)+cols-1)/cols)
 	var xs, ys []float64
@@ -433,7 +433,7 @@ func powerPlot(s *Session, curve []power.NPower, target float64, marks ...int64)
 			ch.markNote = "first and safe n " + count(marks[0])
 		}
 	}
-	return "power (line at " + fmtIn(target) + ")\n" + ch.render()
+	return what + " (line at " + fmtIn(target) + ")\n" + ch.render()
 }
 
 type sizeResult struct {
@@ -477,7 +477,7 @@ func runSize(c *Call) error {
 		if err != nil {
 			return err
 		}
-		exactSizeRows(c, b, r, target)
+		exactSizeRows(c, b, r, target, "power")
 	case twoSample:
 		o := in.two
 		o.Power, o.MaxN = target, upto
@@ -492,7 +492,7 @@ func runSize(c *Call) error {
 			if err != nil {
 				return err
 			}
-			exactSizeRows(c, b, r, target)
+			exactSizeRows(c, b, r, target, "power")
 			return nil
 		}
 		if a.Has("upto") {
@@ -511,7 +511,7 @@ func runSize(c *Call) error {
 		if err != nil {
 			return err
 		}
-		exactSizeRows(c, b, r, target)
+		exactSizeRows(c, b, r, target, "power")
 	}
 	return nil
 }
@@ -519,17 +519,19 @@ func runSize(c *Call) error {
 // exactSizeRows writes an exact sample size search: the first and the
 // safe n, the attained size and the normal-approximation n, and plots the
 // sawtooth around them.
-func exactSizeRows(c *Call, b *Block, r power.ExactSize, target float64) {
+func exactSizeRows(c *Call, b *Block, r power.ExactSize, target float64, what string) {
 	s := c.S
 	c.Data(sizeResult{Exact: &r})
 	b.Row("method", r.Test)
-	b.Row("first n", count(r.First), "power "+s.num(r.FirstPower)+": the smallest n reaching "+fmtIn(target))
+	b.Row("first n", count(r.First), what+" "+s.num(r.FirstPower)+": the smallest n reaching "+fmtIn(target))
 	if r.Stable > 0 {
-		b.Row("safe n", count(r.Stable), "power "+s.num(r.StablePower)+": every n from here to "+count(r.Horizon)+" reaches it")
+		b.Row("safe n", count(r.Stable), what+" "+s.num(r.StablePower)+": every n from here to "+count(r.Horizon)+" reaches it")
 	} else {
-		b.Row("safe n", "not found", "power drops below the target again up to n = "+count(r.Horizon))
+		b.Row("safe n", "not found", what+" drops below the target again up to n = "+count(r.Horizon))
 	}
-	b.Row("attained size", s.num(r.Size))
+	if what == "power" {
+		b.Row("attained size", s.num(r.Size))
+	}
 	b.Row("normal approx.", count(r.Normal.N), r.Normal.Method)
 	b.Warn(r.Warnings...)
 	// Plot the sawtooth around the first and safe n, from the curve points
@@ -548,7 +550,7 @@ func exactSizeRows(c *Call, b *Block, r power.ExactSize, target float64) {
 		}
 	}
 	if len(pts) > 1 {
-		c.Plot(powerPlot(s, pts, target, r.First, max(r.Stable, r.First)))
+		c.Plot(powerPlot(s, pts, target, what, r.First, max(r.Stable, r.First)))
 	}
 }
 

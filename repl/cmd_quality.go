@@ -26,6 +26,10 @@ var marginCmd = &Command{
 	Run: runMargin,
 }
 
+// marginRun, when set, handles the exact forms of margin (by=...); it
+// reports whether it did.
+var marginRun func(c *Call, d, p, level float64) (bool, error)
+
 type marginResult struct {
 	N     int64   `json:"n"`
 	D     float64 `json:"d"`
@@ -52,6 +56,11 @@ func runMargin(c *Call) error {
 	level, err := c.Level()
 	if err != nil {
 		return err
+	}
+	if marginRun != nil {
+		if done, err := marginRun(c, d, p, level); done || err != nil {
+			return err
+		}
 	}
 	n, err := power.MarginOfErrorN(p, d, level)
 	if err != nil {
