@@ -82,8 +82,16 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 		ok := func(x int64) bool {
 			return onesample.LogPValueOf(h, lo, hi, x, onesample.PointProbability, false, oalt) >= la
 		}
-		// As s grows by one both ends move up by about n1/N.
-		a, b := acceptInterval(ok, lo, hi, h.Mode(), max(ga, lo), min(gb+1, hi))
+		// As s grows by one both ends move up by about n1/N: start from the
+		// previous interval, certified by two decisions when the test is
+		// two-sided (see certifyInterval), walked otherwise.
+		a, b, done := int64(0), int64(-1), false
+		if alt == TwoSided {
+			a, b, done = certifyInterval(ok, h.LogProb, lo, hi, min(max(ga, lo), hi), min(max(gb, lo), hi))
+		}
+		if !done {
+			a, b = acceptInterval(ok, lo, hi, h.Mode(), max(ga, lo), min(gb+1, hi))
+		}
 		r.a[s], r.b[s] = a, b
 		ga, gb = a, b
 	}
@@ -317,4 +325,13 @@ func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactS
 		res.Warnings = append(res.Warnings, "the target is already reached where the scan starts (half the normal size): smaller n1 were not examined")
 	}
 	return res, nil
+}
+
+// rejects reports whether the table (x1, x2) lies in the rejection region.
+func (r *twoRegion) rejects(x1, x2 int64) bool {
+	if r.bySum {
+		s := x1 + x2
+		return x1 < r.a[s] || x1 > r.b[s]
+	}
+	return x2 < r.a[x1] || x2 > r.b[x1]
 }

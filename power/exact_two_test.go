@@ -3,10 +3,12 @@ package power
 import (
 	"context"
 	"errors"
+	"math"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/test"
 )
 
 // Exact two-sample power against an independent enumeration in which
@@ -132,4 +134,59 @@ func TestTwoSampleErrors(t *testing.T) {
 	if _, err := TwoSamplePower(cctx, 100, 100, 0.2, 0.3, TwoSampleOptions{}); !errors.Is(err, context.Canceled) {
 		t.Errorf("cancelled: %v", err)
 	}
+}
+
+// The rejection regions agree, table by table, with the test package's
+// own decisions (test.Fisher, test.TwoSample, test.Barnard: reject when
+// ln p < ln alpha) for several group sizes, alternatives and levels.
+func TestTwoRegionsMatchTests(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	sizes := [][2]int64{{1, 1}, {3, 7}, {12, 12}, {20, 9}, {30, 45}}
+	if testing.Short() {
+		sizes = sizes[:3]
+	}
+	for _, nn := range sizes {
+		n1, n2 := nn[0], nn[1]
+		for _, alt := range []Alternative{TwoSided, Greater, Less} {
+			for _, alpha := range []float64{0.01, 0.05, 0.3} {
+				for _, tst := range []ExactTest{Fisher, ZPooled, Barnard} {
+					if tst == Barnard && n1*n2 > 300 {
+						continue
+					}
+					o := TwoSampleOptions{Test: tst, Alternative: alt}
+					reg, err := buildRegion(ctx, "test", n1, n2, alpha, o)
+					if err != nil {
+						t.Fatal(err)
+					}
+					for x1 := int64(0); x1 <= n1; x1++ {
+						for x2 := int64(0); x2 <= n2; x2++ {
+							want := decide(t, tst, x1, n1, x2, n2, alt) < math.Log(alpha)
+							if got := reg.rejects(x1, x2); got != want {
+								t.Fatalf("%v %v alpha %v, %d/%d vs %d/%d: region %v, test %v", tst, alt, alpha, x1, n1, x2, n2, got, want)
+							}
+						}
+					}
+				}
+			}
+		}
+	}
+}
+
+func decide(t *testing.T, tst ExactTest, x1, n1, x2, n2 int64, alt Alternative) float64 {
+	t.Helper()
+	var r test.Result
+	var err error
+	switch tst {
+	case Fisher:
+		r, err = test.Fisher(x1, n1, x2, n2, test.FisherOptions{Alternative: testAlt(alt)})
+	case ZPooled:
+		r, err = test.TwoSample(x1, n1, x2, n2, test.TwoSampleOptions{Alternative: testAlt(alt)})
+	default:
+		r, err = test.Barnard(context.Background(), x1, n1, x2, n2, test.UnconditionalOptions{Alternative: testAlt(alt)})
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r.LogPValue
 }

@@ -147,19 +147,24 @@ func (r *region) walkHi(n int64) (int64, bool) {
 	return 0, false
 }
 
-// certify moves a two-sided point-probability region to n. Its p-value
-// p(k) = P(f(X) <= f(k)) is a non-decreasing function of the outcome's
-// probability f(k), and f is unimodal, so the region [lo, hi] is exact
-// when the more likely of the two outcomes just outside it is rejected
-// (then so is everything beyond) and the less likely of its two end
-// outcomes is accepted (then so is everything inside): two p-values. A
-// failed check moves the corresponding boundary by one and checks again;
-// decisions are cached within n. Mid-p is handled the same way (its
-// p-value is also monotone in f(k)). It gives up (ok = false) after
-// walkLimit moves.
+// certify moves a two-sided point-probability region to n; see
+// certifyInterval.
 func (r *region) certify(n int64) (lo, hi int64, ok bool) {
 	d := binomDist(n, r.t.P0)
-	lo, hi = min(r.lo, n), min(r.hi, n)
+	return certifyInterval(func(k int64) bool { return r.ok(k, n) }, d.LogProb, 0, n, min(r.lo, n), min(r.hi, n))
+}
+
+// certifyInterval returns the acceptance interval of a two-sided
+// point-probability test over the support sLo..sHi, starting from the
+// guess [lo, hi]. Its p-value p(k) = P(f(X) <= f(k)) is a non-decreasing
+// function of the outcome's probability f(k) (mid-p too), and f is
+// unimodal, so [lo, hi] is exact when the more likely of the two outcomes
+// just outside it is rejected (then so is everything beyond) and the less
+// likely of its two end outcomes is accepted (then so is everything
+// inside): two decisions of the test, ok(k). A failed check moves the
+// corresponding end by one and checks again, with decisions cached; it
+// gives up (ok = false) after walkLimit moves.
+func certifyInterval(accept func(int64) bool, logProb func(int64) float64, sLo, sHi, lo, hi int64) (int64, int64, bool) {
 	var cache [8]struct {
 		k  int64
 		ok bool
@@ -171,7 +176,7 @@ func (r *region) certify(n int64) (lo, hi int64, ok bool) {
 				return cache[i].ok
 			}
 		}
-		v := r.ok(k, n)
+		v := accept(k)
 		if nc < len(cache) {
 			cache[nc].k, cache[nc].ok = k, v
 			nc++
@@ -179,20 +184,20 @@ func (r *region) certify(n int64) (lo, hi int64, ok bool) {
 		return v
 	}
 	for moves := 0; moves <= walkLimit; moves++ {
-		if lo > hi {
+		if lo > hi || lo < sLo || hi > sHi {
 			return 0, 0, false
 		}
 		// Outside: the more likely of lo-1 and hi+1.
-		out, fo := int64(-1), math.Inf(-1)
-		if lo > 0 {
-			out, fo = lo-1, d.LogProb(lo-1)
+		out, fo := sLo-1, math.Inf(-1)
+		if lo > sLo {
+			out, fo = lo-1, logProb(lo-1)
 		}
-		if hi < n {
-			if f := d.LogProb(hi + 1); out < 0 || f > fo {
-				out, fo = hi+1, f
+		if hi < sHi {
+			if f := logProb(hi + 1); out < sLo || f > fo {
+				out = hi + 1
 			}
 		}
-		if out >= 0 && accepted(out) {
+		if out >= sLo && accepted(out) {
 			if out < lo {
 				lo--
 			} else {
@@ -202,7 +207,7 @@ func (r *region) certify(n int64) (lo, hi int64, ok bool) {
 		}
 		// Inside: the less likely of lo and hi.
 		in := lo
-		if hi != lo && d.LogProb(hi) < d.LogProb(lo) {
+		if hi != lo && logProb(hi) < logProb(lo) {
 			in = hi
 		}
 		if !accepted(in) {
