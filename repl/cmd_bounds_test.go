@@ -57,6 +57,14 @@ func TestIntervalValues(t *testing.T) {
 		valueCase{"gap 189/11034 104/11037 method=wald", "estimate", 0.0077, 1e-2, "Agresti 2019 2.2"},
 		valueCase{"gap 189/11034 104/11037 method=wald", "lower", 0.005, 0.1, "Agresti 2019 2.2"},
 	)
+	tests = append(tests,
+		// Brown LD, Cai TT, DasGupta A (2001), Statistical Science 16:101-133 (recalled, recomputed):
+		// exact coverage of the 95% Wald interval, closed intervals.
+		valueCase{"cover n=30 p=0.2 method=wald", "methods.0.points.0.coverage", 0.946, 5e-4, "Brown, Cai, DasGupta 2001"},
+		valueCase{"cover n=591 p=0.005 method=wald", "methods.0.points.0.coverage", 0.945, 5e-4, "Brown, Cai, DasGupta 2001"},
+		valueCase{"cover n=592 p=0.005 method=wald", "methods.0.points.0.coverage", 0.792, 5e-4, "Brown, Cai, DasGupta 2001"},
+		valueCase{"cover n=585..600 p=0.005 method=wald", "methods.0.summary.min_at_n", 592, 0, "Brown, Cai, DasGupta 2001"},
+	)
 	checkValues(t, tests)
 }
 

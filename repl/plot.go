@@ -76,9 +76,10 @@ func (c chart) render() string {
 				m = asciiMarkers[i%len(asciiMarkers)]
 			}
 			for j, v := range s.ys {
-				if math.IsNaN(v) || v < c.yLo || v > c.yHi {
+				if math.IsNaN(v) {
 					continue
 				}
+				v = math.Max(c.yLo, math.Min(c.yHi, v)) // out of range: drawn on the edge row
 				r := int(math.Round((v - c.yLo) / span * float64(h-1)))
 				grid[h-1-r][j] = m
 			}

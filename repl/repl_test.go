@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -57,6 +58,14 @@ func num(t *testing.T, obj map[string]any, path string) float64 {
 	t.Helper()
 	var v any = obj
 	for _, key := range strings.Split(path, ".") {
+		if l, ok := v.([]any); ok { // a list index
+			i, err := strconv.Atoi(key)
+			if err != nil || i >= len(l) {
+				t.Fatalf("path %s: %q is not an index of a list of %d", path, key, len(l))
+			}
+			v = l[i]
+			continue
+		}
 		m, ok := v.(map[string]any)
 		if !ok {
 			t.Fatalf("path %s: %v is not an object", path, v)
