@@ -12,10 +12,10 @@ import (
 // smallest p whose acceptability (the two-sided Blaker p-value of
 // onesample.LogAcceptability) is at least alpha = 1 - Level.
 //
-// Blaker's interval lies inside the Clopper-Pearson interval at the same
-// level, so the search runs from the Clopper-Pearson limit (where the
-// acceptability is at most alpha) up to k/n (where it is 1), by Brent's
-// method on ln(acceptability) - ln(alpha) in the log-odds; the
+// The acceptability lies between the observed tail P(X >= k) and twice
+// it, so the limit lies between the two-sided Clopper-Pearson limit at the
+// same level and the one-sided one at tail alpha; it is found there by
+// Brent's method on ln(acceptability) - ln(alpha) in the log-odds; the
 // acceptability is a step function of the opposite tail's index with
 // continuous pieces, so the limit is found to 1e-15 relative whether it
 // falls inside a piece or at a jump. The acceptability test is two-sided:
@@ -39,9 +39,10 @@ func blakerLowerT(k, n int64, lv level) float64 {
 		}
 		return v - la
 	}
-	hi := logOdds(float64(k) / float64(n))
-	if k == n {
-		hi = tMax
-	}
-	return rootIncreasing(g, tcp, hi, 1e-15)
+	// The acceptability lies between the observed tail P(X >= k) and twice
+	// it, so the limit lies between the two-sided Clopper-Pearson limit and
+	// the one-sided one at tail alpha.
+	one := lv
+	one.side, one.tail = LowerBound, 2*lv.tail
+	return rootIncreasing(g, tcp, lowerT(ClopperPearson, k, n, one), 1e-15)
 }
