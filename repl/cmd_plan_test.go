@@ -2,6 +2,8 @@ package repl
 
 import (
 	"context"
+	"errors"
+	"strings"
 	"testing"
 
 	"github.com/kofnlab/kofn/power"
@@ -85,5 +87,43 @@ func TestPlanningMatchesPackage(t *testing.T) {
 	obj = runJSON(t, "detect n=20..60 p=0.3 truth=0.5")
 	if got := num(t, obj, "power"); got != curve[59].Power {
 		t.Errorf("curve end: %v, package %v", got, curve[59].Power)
+	}
+}
+
+func TestMarginExactMatchesPackage(t *testing.T) {
+	t.Parallel()
+	want, err := power.PrecisionN(context.Background(), 0.3, 0.05, power.PrecisionOptions{Target: 0.95})
+	if err != nil {
+		t.Fatal(err)
+	}
+	obj := runJSON(t, "margin d=0.05 p=0.3 by=chance")
+	if got := num(t, obj, "exact.first"); got != float64(want.First) {
+		t.Errorf("first n %v, package %d", got, want.First)
+	}
+	if got := num(t, obj, "exact.stable"); got != float64(want.Stable) {
+		t.Errorf("safe n %v, package %d", got, want.Stable)
+	}
+	w, err := power.ExpectedWidthN(context.Background(), 0.2, 0.05, power.WidthOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := num(t, runJSON(t, "margin d=0.05 p=0.2 by=width"), "n"); got != float64(w.N) {
+		t.Errorf("width n %v, package %d", got, w.N)
+	}
+}
+
+// TestCancel runs a long search with a cancelled context: the command
+// fails with the interruption message and the session goes on.
+func TestCancel(t *testing.T) {
+	t.Parallel()
+	s, out, errw := testSession()
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	err := s.Run(ctx, "size p=0.3 truth=0.3001 upto=10000000")
+	if !errors.Is(err, context.Canceled) || !strings.Contains(errw.String(), "stopped (interrupted)") {
+		t.Fatalf("err = %v, stderr %q", err, errw.String())
+	}
+	if err := s.Run(context.Background(), "margin d=0.03"); err != nil || !strings.Contains(out.String(), "1068") {
+		t.Errorf("session after cancel: %v %q", err, out.String())
 	}
 }
