@@ -23,6 +23,19 @@ func orDefault(v, def float64) float64 {
 	return v
 }
 
+// alphaPower applies the defaults to a significance level and a target
+// power and checks both lie in (0, 1).
+func alphaPower(fn string, alpha, pw float64) (float64, float64, error) {
+	alpha, pw = orDefault(alpha, DefaultAlpha), orDefault(pw, DefaultPower)
+	if err := checkLevel(fn, "Alpha", alpha); err != nil {
+		return 0, 0, err
+	}
+	if err := checkLevel(fn, "Power", pw); err != nil {
+		return 0, 0, err
+	}
+	return alpha, pw, nil
+}
+
 // checkLevel checks that v (a significance level, power, confidence or
 // target probability) lies strictly inside (0, 1).
 func checkLevel(fn, arg string, v float64) error {

@@ -191,41 +191,68 @@ func (r ExactSize) MarshalJSON() ([]byte, error) {
 
 // searchStable scans n = 1, 2, ... with power(n), finds the first n
 // reaching target and the start of the run that keeps it, as documented
-// on ExactSize. It returns ErrNoSolution when no n <= maxN reaches the
-// target.
+// on ExactSize: the horizon is max(2 First, First + 100), doubled while
+// the last failing n lies in its upper half. It returns ErrNoSolution
+// when no n <= maxN reaches the target.
 func searchStable(ctx context.Context, fn string, power func(int64) float64, target float64, maxN int64) (ExactSize, error) {
-	var r ExactSize
-	r.Target = target
-	horizon := maxN
-	lastFail := int64(0)
-	for n := int64(1); n <= horizon; n++ {
+	return scanStable(ctx, fn, scan{start: 1, maxN: maxN, target: target, extend: true,
+		horizon: func(first int64) int64 { return max(2*first, first+100) }},
+		func(n int64) (float64, error) { return power(n), nil })
+}
+
+// scan describes a sawtooth-aware scan over n: where it starts, its
+// limit, the target, the horizon after the first success, and whether the
+// horizon doubles while the last failure lies in its upper half.
+type scan struct {
+	start, maxN int64
+	target      float64
+	horizon     func(first int64) int64
+	extend      bool
+}
+
+// scanStable evaluates power(n) for n = sc.start, ..., finds the first n
+// reaching the target and the smallest n from which every n through the
+// horizon keeps it, and fills an ExactSize with the curve. It returns
+// ErrNoSolution when no n <= sc.maxN reaches the target, and power's
+// error or a cancellation (ctx is checked every 256 n) unchanged.
+func scanStable(ctx context.Context, fn string, sc scan, power func(int64) (float64, error)) (ExactSize, error) {
+	r := ExactSize{Target: sc.target}
+	horizon := sc.maxN
+	lastFail := sc.start - 1
+	for n := sc.start; n <= horizon; n++ {
 		if n&255 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return ExactSize{}, err
 			}
 		}
-		pw := power(n)
+		pw, err := power(n)
+		if err != nil {
+			return ExactSize{}, err
+		}
 		r.Curve = append(r.Curve, NPower{N: n, Power: pw})
-		if pw < target {
+		if pw < sc.target {
 			lastFail = n
 		} else if r.First == 0 {
 			r.First, r.FirstPower = n, pw
-			horizon = min(maxN, max(2*n, n+100))
+			horizon = min(sc.maxN, sc.horizon(n))
 		}
-		if n == horizon && r.First > 0 && lastFail > r.First+(horizon-r.First)/2 && horizon < maxN {
-			horizon = min(maxN, 2*horizon)
+		if sc.extend && n == horizon && r.First > 0 && lastFail > r.First+(horizon-r.First)/2 && horizon < sc.maxN {
+			horizon = min(sc.maxN, 2*horizon)
 		}
 	}
 	if r.First == 0 {
-		return ExactSize{}, argerr.NoSolution(fn, "no n up to MaxN = "+argerr.Format(maxN)+" reaches the target power "+
-			argerr.Format(target)+"; raise MaxN or the effect")
+		return ExactSize{}, argerr.NoSolution(fn, "no n up to MaxN = "+argerr.Format(sc.maxN)+" reaches the target "+
+			argerr.Format(sc.target)+"; raise MaxN or the effect")
 	}
 	r.Horizon = horizon
 	if lastFail < horizon {
 		r.Stable = max(lastFail+1, r.First)
-		r.StablePower = r.Curve[r.Stable-1].Power
+		r.StablePower = r.Curve[r.Stable-sc.start].Power
 	} else {
-		r.Warnings = append(r.Warnings, "the power falls below the target again at MaxN: no stable n found")
+		r.Warnings = append(r.Warnings, "the target is missed again at MaxN: no stable n found")
+	}
+	if r.First == sc.start && sc.start > 1 {
+		r.Warnings = append(r.Warnings, "the target is already reached where the scan starts: smaller n were not examined")
 	}
 	return r, nil
 }

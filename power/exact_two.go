@@ -278,51 +278,30 @@ func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactS
 	if start > limit {
 		return ExactSize{}, argerr.NoSolution(fn, "the normal-approximation size "+argerr.Format(normal.N)+" is beyond twice MaxN = "+argerr.Format(limit))
 	}
-	res := ExactSize{Test: twoTestName(o), Target: s.pw, Normal: normal}
 	n2Of := func(n1 int64) int64 { return ceilN(s.r * float64(n1)) }
-	power := func(n1 int64) (float64, float64, error) {
+	sizes := map[int64]float64{}
+	power := func(n1 int64) (float64, error) {
 		n2 := n2Of(n1)
 		if err := checkGroups(fn, n1, n2); err != nil {
-			return 0, 0, err
+			return 0, err
 		}
 		reg, err := buildRegion(ctx, fn, n1, n2, s.alpha, o)
 		if err != nil {
-			return 0, 0, err
+			return 0, err
 		}
 		pbar := (float64(n1)*p1 + float64(n2)*p2) / float64(n1+n2)
-		return reg.prob(p1, p2), reg.prob(pbar, pbar), nil
+		sizes[n1] = reg.prob(pbar, pbar)
+		return reg.prob(p1, p2), nil
 	}
-	horizon := limit
-	lastFail := start - 1
-	sizes := map[int64]float64{}
-	for n := start; n <= horizon; n++ {
-		pw, size, err := power(n)
-		if err != nil {
-			return ExactSize{}, err
-		}
-		sizes[n] = size
-		res.Curve = append(res.Curve, NPower{N: n, Power: pw})
-		if pw < s.pw {
-			lastFail = n
-		} else if res.First == 0 {
-			res.First, res.FirstPower = n, pw
-			horizon = min(limit, n+max(10, n/4))
-		}
+	res, err := scanStable(ctx, fn, scan{start: start, maxN: limit, target: s.pw,
+		horizon: func(first int64) int64 { return first + max(10, first/4) }}, power)
+	if err != nil {
+		return ExactSize{}, err
 	}
-	if res.First == 0 {
-		return ExactSize{}, argerr.NoSolution(fn, "no n1 up to MaxN = "+argerr.Format(limit)+" reaches the target power "+argerr.Format(s.pw))
-	}
-	res.Horizon = horizon
-	if lastFail < horizon {
-		res.Stable = max(lastFail+1, res.First)
-		res.StablePower = res.Curve[res.Stable-start].Power
+	res.Test, res.Normal = twoTestName(o), normal
+	res.Size = sizes[res.First]
+	if res.Stable > 0 {
 		res.Size = sizes[res.Stable]
-	} else {
-		res.Size = sizes[res.First]
-		res.Warnings = append(res.Warnings, "the power falls below the target again at MaxN: no stable n found")
-	}
-	if res.First == start && start > 1 {
-		res.Warnings = append(res.Warnings, "the target is already reached where the scan starts (half the normal size): smaller n1 were not examined")
 	}
 	return res, nil
 }

@@ -73,10 +73,21 @@ func OneSampleNormalPower(n int64, p0, p1 float64, o OneSampleOptions) (float64,
 }
 
 func oneSampleNormalPower(n, p0, p1, alpha float64, alt Alternative) float64 {
-	za := zAlpha(alpha, alt)
-	s0, s1 := math.Sqrt(p0*(1-p0)), math.Sqrt(p1*(1-p1))
-	side := func(d float64) float64 { // power of the side where p1 - p0 = d counts as evidence
-		num := math.Sqrt(n)*d - za*s0
+	return sidedPower(n, p1-p0, math.Sqrt(p0*(1-p0)), math.Sqrt(p1*(1-p1)), zAlpha(alpha, alt), alt)
+}
+
+// sidedPower returns the normal-approximation power of a z test with
+// signed effect d per unit (positive: the Greater direction), null and
+// alternative standard deviations s0 and s1 per unit, critical value za
+// and n units:
+//
+//	side(e) = Phi( (sqrt(n) e - za s0) / s1 ),
+//
+// side(d) for Greater, side(-d) for Less, their sum (at most 1) for
+// two-sided. s1 = 0 gives 0 or 1 by the sign of the numerator.
+func sidedPower(n, d, s0, s1, za float64, alt Alternative) float64 {
+	side := func(e float64) float64 {
+		num := math.Sqrt(n)*e - za*s0
 		if s1 == 0 {
 			if num > 0 {
 				return 1
@@ -87,9 +98,9 @@ func oneSampleNormalPower(n, p0, p1, alpha float64, alt Alternative) float64 {
 	}
 	switch alt {
 	case Greater:
-		return side(p1 - p0)
+		return side(d)
 	case Less:
-		return side(p0 - p1)
+		return side(-d)
 	}
-	return math.Min(1, side(p1-p0)+side(p0-p1))
+	return math.Min(1, side(d)+side(-d))
 }

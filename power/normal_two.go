@@ -166,11 +166,8 @@ func (o TwoSampleOptions) setup(fn string, p1, p2 float64, needEffect bool) (two
 	if err := checkAlternative(fn, o.Alternative); err != nil {
 		return s, err
 	}
-	s.alpha, s.pw = orDefault(o.Alpha, DefaultAlpha), orDefault(o.Power, DefaultPower)
-	if err := checkLevel(fn, "Alpha", s.alpha); err != nil {
-		return s, err
-	}
-	if err := checkLevel(fn, "Power", s.pw); err != nil {
+	var err error
+	if s.alpha, s.pw, err = alphaPower(fn, o.Alpha, o.Power); err != nil {
 		return s, err
 	}
 	s.r = orDefault(o.Ratio, 1)

@@ -86,12 +86,5 @@ func (o OneSampleOptions) base(fn string, p0, p1 float64) (alpha, pw float64, er
 		err = argerr.Invalid(fn, "Method", int(o.Method), "is not a defined TwoSidedMethod")
 		return
 	}
-	alpha, pw = orDefault(o.Alpha, DefaultAlpha), orDefault(o.Power, DefaultPower)
-	if err = checkLevel(fn, "Alpha", alpha); err != nil {
-		return
-	}
-	if err = checkLevel(fn, "Power", pw); err != nil {
-		return
-	}
-	return
+	return alphaPower(fn, o.Alpha, o.Power)
 }

@@ -37,11 +37,7 @@ func (o PairedOptions) check(fn string, p10, p01 float64, needEffect bool) (alph
 	if err = checkAlternative(fn, o.Alternative); err != nil {
 		return
 	}
-	alpha, pw = orDefault(o.Alpha, DefaultAlpha), orDefault(o.Power, DefaultPower)
-	if err = checkLevel(fn, "Alpha", alpha); err != nil {
-		return
-	}
-	if err = checkLevel(fn, "Power", pw); err != nil {
+	if alpha, pw, err = alphaPower(fn, o.Alpha, o.Power); err != nil {
 		return
 	}
 	if !needEffect {
@@ -115,23 +111,6 @@ func pairedNormalPower(n, p10, p01, alpha float64, alt Alternative) float64 {
 	if psi == 0 {
 		return 0
 	}
-	za := zAlpha(alpha, alt)
 	s1 := math.Sqrt(math.Max(0, psi-(p10-p01)*(p10-p01)))
-	side := func(d float64) float64 {
-		num := math.Sqrt(n)*d - za*math.Sqrt(psi)
-		if s1 == 0 {
-			if num > 0 {
-				return 1
-			}
-			return 0
-		}
-		return phi(num / s1)
-	}
-	switch alt {
-	case Greater:
-		return side(p10 - p01)
-	case Less:
-		return side(p01 - p10)
-	}
-	return math.Min(1, side(p10-p01)+side(p01-p10))
+	return sidedPower(n, p10-p01, math.Sqrt(psi), s1, zAlpha(alpha, alt), alt)
 }

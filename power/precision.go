@@ -169,35 +169,16 @@ func WorstPrecisionN(ctx context.Context, eps float64, o PrecisionOptions) (Exac
 	if start > limit {
 		return ExactSize{}, argerr.NoSolution(fn, "the margin-of-error size "+argerr.Format(n0)+" is beyond twice MaxN = "+argerr.Format(limit))
 	}
-	res := ExactSize{Test: "exact worst-case P(|k/n - p| <= eps)", Target: target,
-		Normal: NormalSize{Method: "margin of error at p = 1/2 (common practice)", N: n0, Real: float64(n0), Uncorrected: float64(n0), Power: math.NaN()}}
-	horizon := limit
-	lastFail := start - 1
-	for n := start; n <= horizon; n++ {
+	worst := func(n int64) (float64, error) {
 		w, err := worstWithin(ctx, fn, n, eps)
-		if err != nil {
-			return ExactSize{}, err
-		}
-		res.Curve = append(res.Curve, NPower{N: n, Power: w.Prob})
-		if w.Prob < target {
-			lastFail = n
-		} else if res.First == 0 {
-			res.First, res.FirstPower = n, w.Prob
-			horizon = min(limit, n+max(20, n/4))
-		}
+		return w.Prob, err
 	}
-	if res.First == 0 {
-		return ExactSize{}, argerr.NoSolution(fn, "no n up to MaxN = "+argerr.Format(limit)+" reaches the target")
+	res, err := scanStable(ctx, fn, scan{start: start, maxN: limit, target: target,
+		horizon: func(first int64) int64 { return first + max(20, first/4) }}, worst)
+	if err != nil {
+		return ExactSize{}, err
 	}
-	res.Horizon = horizon
-	if lastFail < horizon {
-		res.Stable = max(lastFail+1, res.First)
-		res.StablePower = res.Curve[res.Stable-start].Power
-	} else {
-		res.Warnings = append(res.Warnings, "the worst-case probability falls below the target again at MaxN: no stable n found")
-	}
-	if res.First == start && start > 1 {
-		res.Warnings = append(res.Warnings, "the target is already reached where the scan starts: smaller n were not examined")
-	}
+	res.Test = "exact worst-case P(|k/n - p| <= eps)"
+	res.Normal = NormalSize{Method: "margin of error at p = 1/2 (common practice)", N: n0, Real: float64(n0), Uncorrected: float64(n0), Power: math.NaN()}
 	return res, nil
 }

@@ -1,0 +1,36 @@
+package power
+
+import (
+	"context"
+	"encoding/json"
+	"strings"
+	"testing"
+)
+
+// Results marshal to JSON, with non-finite values as strings.
+func TestResultsMarshal(t *testing.T) {
+	t.Parallel()
+	r, err := PrecisionN(context.Background(), 0.3, 0.1, PrecisionOptions{MaxN: 300})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := json.Marshal(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(b), `"power":"NaN"`) || !strings.Contains(string(b), `"first":70`) {
+		t.Errorf("unexpected JSON %.200s", b)
+	}
+	d, err := DesignPlan(context.Background(), 0.01, 0.06, DesignOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b, err = json.Marshal(d); err != nil || !strings.Contains(string(b), `"plan":{"n":110,"c":3}`) {
+		t.Errorf("DesignPlan JSON %s, %v", b, err)
+	}
+	for _, v := range []any{Demonstration{}, Rectifying{}, AOQLimit{}, ExactPower{}, WidthPlan{}, NPower{}, Point{}, Candidate{}, NormalSize{}} {
+		if _, err := json.Marshal(v); err != nil {
+			t.Errorf("%T: %v", v, err)
+		}
+	}
+}
