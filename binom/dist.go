@@ -45,7 +45,7 @@ func (d Dist) valid() bool {
 	return d.N >= 0 && d.N <= MaxN && d.P >= 0 && d.P <= 1
 }
 
-// Mean returns N P.
+// Mean returns N P (one rounding); NaN only for an invalid Dist.
 func (d Dist) Mean() float64 {
 	if !d.valid() {
 		return math.NaN()
@@ -53,7 +53,8 @@ func (d Dist) Mean() float64 {
 	return float64(d.N) * d.P
 }
 
-// Variance returns N P (1-P).
+// Variance returns N P (1-P), within a few units in the last place; 0 for
+// a point mass (N = 0, P = 0 or P = 1); NaN only for an invalid Dist.
 func (d Dist) Variance() float64 {
 	if !d.valid() {
 		return math.NaN()
@@ -88,24 +89,34 @@ func (d Dist) Mode() int64 {
 	return m
 }
 
-// Skewness returns (1 - 2P) / sqrt(N P (1-P)); it is +Inf or -Inf when the
-// variance is 0 and 1-2P is not, and NaN only for an invalid Dist or when
-// N P (1-P) = 0 and P = 1/2 cannot both hold (never for a valid Dist:
-// a degenerate distribution at P = 0 or 1 gives ±Inf, and N = 0 gives
-// +Inf or -Inf by the sign of 1 - 2P, 0/0 at P = 1/2 is reported as NaN).
+// Skewness returns the skewness E[(X - NP)^3] / sd^3 = (1 - 2P) / sqrt(N P (1-P)).
+// It is 0 at P = 1/2. For a point mass (N = 0, P = 0 or P = 1) the
+// variance is 0 and the skewness is 0/0, mathematically undefined: Skewness
+// returns NaN there, the only NaN for a valid Dist (as P approaches 0 or 1
+// it grows without bound, to +Inf or -Inf, but the limit is not the value).
+// Accuracy: a few units in the last place.
 func (d Dist) Skewness() float64 {
-	if !d.valid() {
+	if !d.valid() || d.degenerate() {
 		return math.NaN()
 	}
 	return (1 - 2*d.P) / d.StdDev()
 }
 
-// ExKurtosis returns the excess kurtosis (1 - 6 P (1-P)) / (N P (1-P)),
-// +Inf when the variance is 0.
+// ExKurtosis returns the excess kurtosis E[(X - NP)^4] / sd^4 - 3,
+//
+//	(1 - 6 P (1-P)) / (N P (1-P)).
+//
+// For a point mass (N = 0, P = 0 or P = 1) it is 0/0, mathematically
+// undefined, and ExKurtosis returns NaN there, the only NaN for a valid
+// Dist. Accuracy: a few units in the last place (1 - 6 P (1-P) cancels
+// near P = (3 +- sqrt 3)/6, where the value is near 0 in absolute terms).
 func (d Dist) ExKurtosis() float64 {
-	if !d.valid() {
+	if !d.valid() || d.degenerate() {
 		return math.NaN()
 	}
 	pq := d.P * (1 - d.P)
 	return (1 - 6*pq) / (float64(d.N) * pq)
 }
+
+// degenerate reports whether all probability sits on one value.
+func (d Dist) degenerate() bool { return d.N == 0 || d.P == 0 || d.P == 1 }

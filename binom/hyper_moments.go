@@ -93,6 +93,34 @@ func (h Hyper) ExKurtosis() float64 {
 	return ratFloat(num, mulInts(n, K, N-K, N-n, N-2, N-3))
 }
 
+// Entropy returns the Shannon entropy in nats, -sum_x P(X = x) ln P(X = x),
+// summed over the terms around the mode that matter (outward by the PMF
+// ratio, re-anchored every 32 terms, until the rest is below 1e-34 of the
+// sum), as ln S - (1/S) sum t ln t with t = P(X = x)/P(X = mode). A
+// single-point support gives 0; an invalid Hyper NaN. Accuracy: about
+// 1e-14 relative, checked against mpmath. Cost: O(standard deviation)
+// terms (a few thousand at totals of 1e6).
+func (h Hyper) Entropy() float64 {
+	if !h.valid() {
+		return math.NaN()
+	}
+	lo, hi := h.Support()
+	if lo == hi {
+		return 0
+	}
+	// s sums the terms off the mode (t = 1 there), kept apart so that a
+	// near point mass keeps its tiny entropy to full relative accuracy.
+	var s, sl float64
+	w := h.centralWeights()
+	w.logRangeAtMode(lo, hi, func(j int64, t float64) {
+		if j != w.mode && t > 0 {
+			s += t
+			sl += t * math.Log(t)
+		}
+	})
+	return math.Log1p(s) - sl/(1+s)
+}
+
 // mulInts returns the exact product of its arguments.
 func mulInts(xs ...int64) *big.Int {
 	p := big.NewInt(1)
