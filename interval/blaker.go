@@ -44,5 +44,11 @@ func blakerLowerT(k, n int64, lv level) float64 {
 	// the one-sided one at tail alpha.
 	one := lv
 	one.side, one.tail = LowerBound, 2*lv.tail
-	return rootIncreasing(g, tcp, lowerT(ClopperPearson, k, n, one), 1e-15)
+	// At levels below 1/2 that one-sided limit passes k/n; the search stops
+	// there (the acceptability is not monotone beyond the estimate).
+	hi := math.Min(lowerT(ClopperPearson, k, n, one), logOdds(float64(k)/float64(n)))
+	if hi <= tcp {
+		return tcp
+	}
+	return rootIncreasing(g, tcp, hi, 1e-15)
 }

@@ -115,6 +115,9 @@ func newLevel(fn string, lev float64, side Side) (level, error) {
 	if side < TwoSided || side > UpperBound {
 		return level{}, argerr.Invalid(fn, "Side", int(side), "is not a side; use TwoSided, LowerBound or UpperBound")
 	}
+	if side != TwoSided && lev < 0.5 {
+		return level{}, argerr.Invalid(fn, "Level", lev, "is below 0.5; a one-sided bound at such a level lies on the far side of the estimate")
+	}
 	a := 1 - lev
 	if side == TwoSided {
 		a /= 2

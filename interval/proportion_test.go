@@ -203,6 +203,7 @@ func TestProportionErrors(t *testing.T) {
 		{1, 10, interval.Options{Level: 1}, "interval.Proportion: Level = 1 must lie strictly between 0 and 1 (0 means 0.95)"},
 		{1, 10, interval.Options{Level: math.NaN()}, "interval.Proportion: Level = NaN must lie strictly between 0 and 1 (0 means 0.95)"},
 		{1, 10, interval.Options{Level: -0.5}, "interval.Proportion: Level = -0.5 must lie strictly between 0 and 1 (0 means 0.95)"},
+		{1, 10, interval.Options{Level: 0.3, Side: interval.LowerBound}, "interval.Proportion: Level = 0.3 is below 0.5; a one-sided bound at such a level lies on the far side of the estimate"},
 		{1, 10, interval.Options{Method: 99}, "interval.Proportion: Method = 99 is not a method; see the Method constants"},
 		{1, 10, interval.Options{Side: 7}, "interval.Proportion: Side = 7 is not a side; use TwoSided, LowerBound or UpperBound"},
 	}
