@@ -46,6 +46,7 @@ func testAlt(a Alternative) test.Alternative {
 type twoRegion struct {
 	n1, n2 int64
 	bySum  bool
+	inner  bool // rows store the rejected x2 interval instead of the accepted one
 	a, b   []int64
 }
 
@@ -90,7 +91,14 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 			a, b, done = certifyInterval(ok, h.LogProb, lo, hi, min(max(ga, lo), hi), min(max(gb, lo), hi))
 		}
 		if !done {
-			a, b = acceptInterval(ok, lo, hi, h.Mode(), max(ga, lo), min(gb+1, hi))
+			peak := h.Mode() // where the two-sided p-value is largest
+			switch alt {
+			case Greater: // P(X1 >= x) falls with x
+				peak = lo
+			case Less:
+				peak = hi
+			}
+			a, b = acceptInterval(ok, lo, hi, peak, max(ga, lo), min(gb+1, hi))
 		}
 		r.a[s], r.b[s] = a, b
 		ga, gb = a, b
@@ -117,8 +125,15 @@ func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt Al
 			res, err := test.TwoSample(x1, n1, x2, n2, opt)
 			return err != nil || res.LogPValue >= la
 		}
-		// z = 0 at x2 = x1 n2 / n1: the peak of the p-value in this row.
+		// The p-value peaks where z = 0, x2 = x1 n2 / n1, for the two-sided
+		// test; z falls as x2 grows, so at x2 = n2 (Greater) or 0 (Less).
 		peak := int64(math.Round(float64(x1) * float64(n2) / float64(n1)))
+		switch alt {
+		case Greater:
+			peak = n2
+		case Less:
+			peak = 0
+		}
 		a, b := acceptInterval(ok, 0, n2, peak, max(ga, 0), min(gb+1, n2))
 		r.a[x1], r.b[x1] = a, b
 		ga, gb = a, b
@@ -154,9 +169,14 @@ func (r *twoRegion) prob(p1, p2 float64) float64 {
 		for x1 := int64(0); x1 <= r.n1; x1++ {
 			a, b := r.a[x1], r.b[x1]
 			var rej float64
-			if a > b {
+			switch {
+			case r.inner && a <= b:
+				rej = c2[b+1] - c2[a]
+			case r.inner:
+				rej = 0
+			case a > b:
 				rej = c2[r.n2+1]
-			} else {
+			default:
 				rej = c2[a] + (c2[r.n2+1] - c2[b+1])
 			}
 			sum += b1[x1] * rej
@@ -167,6 +187,9 @@ func (r *twoRegion) prob(p1, p2 float64) float64 {
 
 // buildRegion builds the rejection region of o.Test.
 func buildRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, o TwoSampleOptions) (*twoRegion, error) {
+	if o.Hypothesis != Equality {
+		return marginRegion(ctx, fn, n1, n2, alpha, o.Hypothesis, o.Margin)
+	}
 	switch o.Test {
 	case Barnard:
 		return barnardRegion(ctx, fn, n1, n2, alpha, o.Alternative)
@@ -177,6 +200,12 @@ func buildRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, o 
 }
 
 func twoTestName(o TwoSampleOptions) string {
+	switch o.Hypothesis {
+	case NonInferiority:
+		return "Miettinen-Nurminen score non-inferiority, margin " + argerr.Format(o.Margin)
+	case Equivalence:
+		return "Miettinen-Nurminen score equivalence (TOST), margin " + argerr.Format(o.Margin)
+	}
 	switch o.Test {
 	case Barnard:
 		return "Barnard exact unconditional, " + o.Alternative.String()
@@ -215,8 +244,13 @@ func checkGroups(fn string, n1, n2 int64) error {
 // pooled proportion (n1 p1 + n2 p2)/(n1 + n2) (the size of an exact
 // unconditional test is at most alpha at every common proportion).
 //
-// Only Equality hypotheses are enumerated (margins: ErrInvalidArgument,
-// use TwoSampleNormalPower). Limits: (n1+1)(n2+1) <= MaxTables. Cost:
+// With o.Hypothesis NonInferiority or Equivalence (margin o.Margin) the
+// enumerated test is the test package's Miettinen-Nurminen score test
+// with that margin (test.DifferenceMargin, one-sided at Alpha, or
+// test.DifferenceEquivalence, two one-sided tests), o.Test being ignored,
+// and Size is the rejection probability on the null boundary p1 = p2 - m
+// (and p2 + m for equivalence) with p2 as planned.
+// Limits: (n1+1)(n2+1) <= MaxTables. Cost:
 // Fisher and z about 2 ms at 200 x 200; Barnard about 20 p-values of
 // test.Barnard (tens of ms at 200 x 200). ctx is checked while the region
 // is built. Accuracy: absolute 1e-14 on the power.
@@ -230,17 +264,13 @@ func TwoSamplePower(ctx context.Context, n1, n2 int64, p1, p2 float64, o TwoSamp
 	if err != nil {
 		return ExactPower{}, err
 	}
-	if s.hyp != Equality {
-		return ExactPower{}, argerr.Invalid(fn, "Hypothesis", o.Hypothesis.String(), "is not enumerated exactly; use TwoSampleNormalPower for margins")
-	}
 	reg, err := buildRegion(ctx, fn, n1, n2, s.alpha, o)
 	if err != nil {
 		return ExactPower{}, err
 	}
-	pbar := (float64(n1)*p1 + float64(n2)*p2) / float64(n1+n2)
 	return ExactPower{
 		Test: twoTestName(o), N: n1, Alpha: s.alpha,
-		Power: reg.prob(p1, p2), Size: reg.prob(pbar, pbar),
+		Power: reg.prob(p1, p2), Size: twoSize(reg, n1, n2, p1, p2, s),
 		AcceptLo: -1, AcceptHi: -1,
 	}, nil
 }
@@ -261,15 +291,13 @@ func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactS
 	if err != nil {
 		return ExactSize{}, err
 	}
-	if s.hyp != Equality {
-		return ExactSize{}, argerr.Invalid(fn, "Hypothesis", o.Hypothesis.String(), "is not searched exactly; use TwoSampleNormalN for margins")
-	}
 	limit, err := maxN(fn, o.MaxN, DefaultMaxN2, MaxTables)
 	if err != nil {
 		return ExactSize{}, err
 	}
 	no := o
 	no.Correction, no.Variance = CPS, PooledNull
+	no.Alpha = s.alpha
 	normal, err := TwoSampleNormalN(p1, p2, no)
 	if err != nil {
 		return ExactSize{}, err
@@ -289,8 +317,7 @@ func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactS
 		if err != nil {
 			return 0, err
 		}
-		pbar := (float64(n1)*p1 + float64(n2)*p2) / float64(n1+n2)
-		sizes[n1] = reg.prob(pbar, pbar)
+		sizes[n1] = twoSize(reg, n1, n2, p1, p2, s)
 		return reg.prob(p1, p2), nil
 	}
 	res, err := scanStable(ctx, fn, scan{start: start, maxN: limit, target: s.pw,
@@ -312,5 +339,82 @@ func (r *twoRegion) rejects(x1, x2 int64) bool {
 		s := x1 + x2
 		return x1 < r.a[s] || x1 > r.b[s]
 	}
+	if r.inner {
+		return x2 >= r.a[x1] && x2 <= r.b[x1]
+	}
 	return x2 < r.a[x1] || x2 > r.b[x1]
+}
+
+// marginRegion builds the rejection region of the test package's score
+// tests with a margin m (Miettinen-Nurminen variance, the package
+// default), row by row. Non-inferiority, test.DifferenceMargin with delta
+// = -m, Greater: for fixed x1 the score z falls as x2 grows, so the
+// accepted x2 form a suffix, found from x2 = n2. Equivalence,
+// test.DifferenceEquivalence on (-m, m): the rejected x2 (equivalence
+// shown) form an interval around x2 = x1 n2/n1. Each row is seeded by the
+// previous one; the structure is checked table by table in the tests.
+func marginRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, hyp Hypothesis, m float64) (*twoRegion, error) {
+	r := &twoRegion{n1: n1, n2: n2, inner: hyp == Equivalence, a: make([]int64, n1+1), b: make([]int64, n1+1)}
+	la := math.Log(alpha)
+	opt := test.MarginOptions{Alternative: test.Greater}
+	ga, gb := int64(0), n2
+	for x1 := int64(0); x1 <= n1; x1++ {
+		if x1&63 == 0 {
+			if err := argerr.Canceled(fn, ctx); err != nil {
+				return nil, err
+			}
+		}
+		var in func(x2 int64) bool // the stored interval's predicate
+		peak := n2
+		if hyp == Equivalence {
+			in = func(x2 int64) bool {
+				res, err := test.DifferenceEquivalence(x1, n1, x2, n2, -m, m, test.MarginOptions{})
+				return err == nil && res.LogPValue < la
+			}
+			peak = int64(math.Round(float64(x1) * float64(n2) / float64(n1)))
+		} else {
+			in = func(x2 int64) bool {
+				res, err := test.DifferenceMargin(x1, n1, x2, n2, -m, opt)
+				return err != nil || res.LogPValue >= la
+			}
+		}
+		a, b := acceptInterval(in, 0, n2, peak, max(ga, 0), min(gb+1, n2))
+		r.a[x1], r.b[x1] = a, b
+		if a <= b {
+			ga, gb = a, b
+		}
+	}
+	return r, nil
+}
+
+// marginSize returns the largest rejection probability of a margin
+// region on the boundary of H0 with p2 held at its planned value: p1 = p2
+// - m for non-inferiority, p1 = p2 - m and p2 + m for equivalence (those
+// inside [0, 1]); NaN when none is.
+func marginSize(reg *twoRegion, p2 float64, hyp Hypothesis, m float64) float64 {
+	size := math.NaN()
+	cands := []float64{p2 - m}
+	if hyp == Equivalence {
+		cands = append(cands, p2+m)
+	}
+	for _, p1 := range cands {
+		if p1 >= 0 && p1 <= 1 {
+			v := reg.prob(p1, p2)
+			if math.IsNaN(size) || v > size {
+				size = v
+			}
+		}
+	}
+	return size
+}
+
+// twoSize returns the attained size reported with an exact two-sample
+// power: at the pooled proportion for Equality, on the null boundary for
+// margins (marginSize).
+func twoSize(reg *twoRegion, n1, n2 int64, p1, p2 float64, s twoSetup) float64 {
+	if s.hyp != Equality {
+		return marginSize(reg, p2, s.hyp, s.margin)
+	}
+	pbar := (float64(n1)*p1 + float64(n2)*p2) / float64(n1+n2)
+	return reg.prob(pbar, pbar)
 }

@@ -190,3 +190,51 @@ func decide(t *testing.T, tst ExactTest, x1, n1, x2, n2 int64, alt Alternative) 
 	}
 	return r.LogPValue
 }
+
+// Margin regions agree table by table with test.DifferenceMargin and
+// test.DifferenceEquivalence (Miettinen-Nurminen), and the exact power of
+// the non-inferiority test is close to the normal approximation's at a
+// normal-size n.
+func TestMarginRegionsMatchTests(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	for _, nn := range [][2]int64{{5, 8}, {20, 20}, {30, 17}} {
+		n1, n2 := nn[0], nn[1]
+		for _, m := range []float64{0.05, 0.2} {
+			for _, hyp := range []Hypothesis{NonInferiority, Equivalence} {
+				reg, err := buildRegion(ctx, "test", n1, n2, 0.05, TwoSampleOptions{Hypothesis: hyp, Margin: m})
+				if err != nil {
+					t.Fatal(err)
+				}
+				for x1 := int64(0); x1 <= n1; x1++ {
+					for x2 := int64(0); x2 <= n2; x2++ {
+						var r test.Result
+						if hyp == NonInferiority {
+							r, err = test.DifferenceMargin(x1, n1, x2, n2, -m, test.MarginOptions{Alternative: test.Greater})
+						} else {
+							r, err = test.DifferenceEquivalence(x1, n1, x2, n2, -m, m, test.MarginOptions{})
+						}
+						if err != nil {
+							t.Fatal(err)
+						}
+						if want := r.LogPValue < math.Log(0.05); reg.rejects(x1, x2) != want {
+							t.Fatalf("%v m %v %d/%d vs %d/%d: region %v, test %v", hyp, m, x1, n1, x2, n2, !want, want)
+						}
+					}
+				}
+			}
+		}
+	}
+	o := TwoSampleOptions{Hypothesis: NonInferiority, Margin: 0.1, Alpha: 0.025}
+	ns, err := TwoSampleNormalN(0.8, 0.8, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ep, err := TwoSamplePower(ctx, ns.N, ns.N2, 0.8, 0.8, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ep.Power < 0.75 || ep.Power > 0.85 || ep.Size > 0.03 {
+		t.Errorf("exact NI power %v (size %v) at the normal n %d", ep.Power, ep.Size, ns.N)
+	}
+}

@@ -8,7 +8,8 @@ import "github.com/kofnlab/kofn/internal/root"
 // alpha) and a guess [ga, gb] (the previous interval of a neighbouring
 // problem). Each end is certified by the decisions on both sides of it;
 // the walk from the guess is bounded and falls back to a bisection from an
-// accepted outcome near peak. It returns a > b when nothing is accepted.
+// accepted outcome at peak or next to it, where the caller knows the
+// p-value is largest. It returns a > b when nothing is accepted there.
 func acceptInterval(ok func(int64) bool, lo, hi, peak, ga, gb int64) (a, b int64) {
 	if ga >= lo && gb <= hi && ga <= gb {
 		if a, okA := walkEdge(ok, ga, lo, hi, -1); okA {
@@ -24,16 +25,8 @@ func acceptInterval(ok func(int64) bool, lo, hi, peak, ga, gb int64) (a, b int64
 			break
 		}
 	}
-	if m < 0 {
-		for c := lo; c <= hi; c++ { // only mid-p tests at large alpha get here
-			if ok(c) {
-				m = c
-				break
-			}
-		}
-		if m < 0 {
-			return lo, lo - 1
-		}
+	if m < 0 { // the p-value peaks at peak (within one): nothing is accepted
+		return lo, lo - 1
 	}
 	a = root.SmallestInt(ok, lo, m)
 	b = root.SmallestInt(func(k int64) bool { return !ok(k) }, m, hi) - 1
