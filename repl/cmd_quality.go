@@ -172,6 +172,7 @@ var acceptCmd = &Command{
 		{Name: "c", Doc: "acceptance number: the lot is accepted with at most c defectives"},
 		{Name: "at", Doc: "a defect rate at which to report the acceptance probability"},
 		{Name: "lot", Doc: "lot size, for rectifying inspection (AOQ, ATI, AOQL)"},
+		{Name: "defectives", Doc: "with lot=: defectives in the lot, for the exact finite-lot (hypergeometric) acceptance chance"},
 		{Name: "aql", Doc: "design: acceptable quality level (defect rate that should pass)"},
 		{Name: "rql", Doc: "design: rejectable quality level (defect rate that should fail)"},
 		{Name: "producer", Doc: "design: largest chance of rejecting a lot at the AQL (default 0.05)"},
@@ -183,7 +184,8 @@ var acceptCmd = &Command{
 			"the operating characteristic, the chance of accepting a lot against its defect rate (binomial, " +
 			"for large lots), drawn as a curve; at= gives its value at one rate; lot= adds rectifying " +
 			"inspection: average outgoing quality (AOQ) and average total inspection (ATI) at the rate, and the " +
-			"average outgoing quality limit (AOQL). With aql= and rql=: the plan with the smallest n that " +
+			"average outgoing quality limit (AOQL); lot= with defectives= gives the exact acceptance chance for " +
+			"that finite lot (hypergeometric, type A). With aql= and rql=: the plan with the smallest n that " +
 			"meets both risks, found by an exact search.",
 		Assumptions: "Lots much larger than the sample (binomial model); items defective independently.",
 		Examples:    []string{"accept n=89 c=2", "accept n=89 c=2 at=0.01 lot=10000", "accept aql=0.01 rql=0.05"},
@@ -199,8 +201,11 @@ type acceptResult struct {
 	At         *float64          `json:"at,omitempty"`
 	AcceptProb *float64          `json:"accept_prob,omitempty"`
 	Rectifying *power.Rectifying `json:"rectifying,omitempty"`
-	AOQL       *power.AOQLimit   `json:"aoql,omitempty"`
-	OC         []power.Point     `json:"oc"`
+	// LotDefectives and LotAcceptProb: the finite-lot acceptance chance.
+	LotDefectives *int64          `json:"lot_defectives,omitempty"`
+	LotAcceptProb *float64        `json:"lot_accept_prob,omitempty"`
+	AOQL          *power.AOQLimit `json:"aoql,omitempty"`
+	OC            []power.Point   `json:"oc"`
 }
 
 func runAccept(c *Call) error {
@@ -288,6 +293,18 @@ func runAccept(c *Call) error {
 			r.Rectifying = &rect
 			b.Row("AOQ at "+fmtIn(*r.At), s.num(rect.AOQ), "average outgoing quality, lots of "+count(lot))
 			b.Row("ATI at "+fmtIn(*r.At), s.num(rect.ATI), "average total inspection per lot")
+		}
+		if a.Has("defectives") {
+			dv, err := a.Count("defectives", 0)
+			if err != nil {
+				return err
+			}
+			pa, err := power.AcceptProbLot(r.Plan, lot, dv)
+			if err != nil {
+				return err
+			}
+			r.LotDefectives, r.LotAcceptProb = &dv, &pa
+			b.Row("P(accept), this lot", s.num(pa), count(dv)+" defective in "+count(lot)+" (hypergeometric)")
 		}
 		q, err := power.AOQL(r.Plan, lot)
 		if err != nil {
