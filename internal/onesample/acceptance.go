@@ -36,9 +36,15 @@ func Acceptance(n int64, alpha float64, t Test) (lo, hi int64, err error) {
 	ok := func(k int64) bool { return t.logP(d, k) >= la }
 	switch t.Alternative {
 	case Less: // p(k) = P(X <= k) increases in k
-		return root.SmallestInt(ok, 0, n), n, nil
+		lo, hi = root.SmallestInt(ok, 0, n), n
 	case Greater: // p(k) = P(X >= k) decreases in k
-		return 0, root.SmallestInt(func(k int64) bool { return !ok(k) }, 0, n) - 1, nil
+		lo, hi = 0, root.SmallestInt(func(k int64) bool { return !ok(k) }, 0, n)-1
+	}
+	if t.Alternative != TwoSided {
+		if lo > hi {
+			return 0, -1, nil
+		}
+		return lo, hi, nil
 	}
 	// The p-value is unimodal in k with its maximum at the mode (point
 	// probability) or at one of the two outcomes around the median split.
