@@ -25,7 +25,8 @@ type ExactPower struct {
 	// Test names the test, for example "exact binomial, two-sided
 	// point-probability".
 	Test string `json:"test"`
-	// N is the number of trials (pairs for McNemar).
+	// N is the number of trials (group 1 for two samples, pairs for
+	// McNemar).
 	N int64 `json:"n"`
 	// Power is the probability of rejecting H0 at the true proportion(s).
 	Power float64 `json:"power"`

@@ -18,7 +18,6 @@ func TestTwoSampleGolden(t *testing.T) {
 	t.Parallel()
 	cases, rows := goldenRows(t, "power_two.tsv")
 	var want, got []float64
-	var scan []NPower
 	for _, r := range rows {
 		tst, err := ParseExactTest(map[string]string{"fisher": "fisher", "barnard": "barnard", "z": "z"}[r[1]])
 		if err != nil {
@@ -36,9 +35,6 @@ func TestTwoSampleGolden(t *testing.T) {
 		}
 		want = append(want, atof(t, r[8]))
 		got = append(got, ep.Power)
-		if r[0] == "scan" {
-			scan = append(scan, NPower{N: n1, Power: ep.Power})
-		}
 	}
 	if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
 		t.Errorf("exact two-sample power (-want +got):\n%s", diff)

@@ -142,7 +142,9 @@ type TwoSampleOptions struct {
 	// Margin is the non-inferiority or equivalence margin, > 0, required
 	// for those hypotheses and ignored for Equality.
 	Margin float64
-	// Test selects the exact test for exact power and its searches.
+	// Test selects the exact test for exact power and its searches
+	// (Equality only; with a margin the score test with that margin is
+	// enumerated).
 	Test ExactTest
 	// MaxN bounds the size of group 1 in searches; 0 means DefaultMaxN2.
 	MaxN int64
