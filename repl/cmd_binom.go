@@ -65,6 +65,7 @@ type spreadResult struct {
 	Mode           int64     `json:"mode"`
 	Skewness       float64   `json:"skewness"`
 	ExcessKurtosis float64   `json:"excess_kurtosis"`
+	Entropy        float64   `json:"entropy"`
 	Level          float64   `json:"level"`
 	CentralFrom    int64     `json:"central_from"`
 	CentralTo      int64     `json:"central_to"`
@@ -90,7 +91,7 @@ func runSpread(c *Call) error {
 	alpha := (1 - level) / 2
 	lo, hi := d.Quantile(alpha), d.UpperQuantile(alpha)
 	r := spreadResult{N: d.N, P: d.P, Mean: d.Mean(), StdDev: d.StdDev(), Mode: d.Mode(),
-		Skewness: d.Skewness(), ExcessKurtosis: d.ExKurtosis(), Level: level,
+		Skewness: d.Skewness(), ExcessKurtosis: d.ExKurtosis(), Entropy: d.Entropy(), Level: level,
 		CentralFrom: lo, CentralTo: hi, CentralProb: d.ProbRange(lo, hi)}
 	// Plot range: where all but 1e-4 of the probability lies, unless given.
 	plo, phi := d.Quantile(5e-5), d.UpperQuantile(5e-5)
@@ -112,6 +113,7 @@ func runSpread(c *Call) error {
 	b.Row("most likely k", count(r.Mode))
 	b.Row("skewness", s.num(r.Skewness))
 	b.Row("excess kurtosis", s.num(r.ExcessKurtosis))
+	b.Row("entropy", s.num(r.Entropy), "nats")
 	b.Row("central "+pct(level), count(lo)+" to "+count(hi),
 		"k/n: "+s.num(float64(lo)/nf)+" to "+s.num(float64(hi)/nf)+"; holds "+s.num(r.CentralProb))
 	if a.Has("within") {
@@ -256,29 +258,31 @@ var cutCmd = &Command{
 	Name:    "cut",
 	Group:   "distribution",
 	Summary: "cut-off counts: the k that a tail probability q falls at",
-	Usage:   "cut n=N p=P q=Q",
-	Options: []Opt{optN, optP, {Name: "q", Doc: "tail probability, in [0, 1]"}},
+	Usage:   "cut n=N p=P q=Q   or   cut n=N p=P logq=L",
+	Options: []Opt{optN, optP, {Name: "q", Doc: "tail probability, in [0, 1]"},
+		{Name: "logq", Doc: "the natural log of the tail probability, for tails below 1e-300 (like -2000)"}},
 	Help: Help{
 		Computes: "The lower cut-off: the smallest k with P(X <= k) >= q; and the upper cut-off: the smallest k " +
 			"with P(X > k) <= q. With the actual tail probabilities at those counts, which differ from q because " +
 			"k is discrete. A quality engineer's question: with 200 parts at a 2% defect rate, above how many " +
 			"defects is a lot unusual at the 1% level?",
 		Assumptions: "Independent trials with one common success probability.",
-		Examples:    []string{"cut n=200 p=0.02 q=0.01", "cut n=40 p=0.3 q=5%"},
+		Examples:    []string{"cut n=200 p=0.02 q=0.01", "cut n=40 p=0.3 q=5%", "cut n=100000 p=0.5 logq=-2000"},
 		Sources:     sourcesBinom,
 	},
 	Run: runCut,
 }
 
 type cutResult struct {
-	N          int64   `json:"n"`
-	P          float64 `json:"p"`
-	Q          float64 `json:"q"`
-	Lower      int64   `json:"lower_cut"`
-	LowerTail  float64 `json:"p_at_most_lower_cut"`
-	Upper      int64   `json:"upper_cut"`
-	UpperTail  float64 `json:"p_above_upper_cut"`
-	LowerFound bool    `json:"lower_found"`
+	N          int64    `json:"n"`
+	P          float64  `json:"p"`
+	Q          float64  `json:"q"`
+	LogQ       *float64 `json:"log_q,omitempty"`
+	Lower      int64    `json:"lower_cut"`
+	LowerTail  float64  `json:"p_at_most_lower_cut"`
+	Upper      int64    `json:"upper_cut"`
+	UpperTail  float64  `json:"p_above_upper_cut"`
+	LowerFound bool     `json:"lower_found"`
 }
 
 func runCut(c *Call) error {
@@ -290,6 +294,24 @@ func runCut(c *Call) error {
 	if err != nil {
 		return err
 	}
+	s := c.S
+	if a.Has("logq") {
+		lq, err := a.Float("logq", 0)
+		if err != nil {
+			return err
+		}
+		if lq > 0 {
+			return inputErr("logq="+a.Str("logq", ""), "is above 0; the log of a probability is 0 or less")
+		}
+		lo, hi := d.LogQuantile(lq), d.LogUpperQuantile(lq)
+		r := cutResult{N: d.N, P: d.P, Q: math.Exp(lq), LogQ: &lq, Lower: lo, LowerTail: d.CDF(lo), Upper: hi, UpperTail: d.Survival(hi), LowerFound: lo >= 0}
+		c.Data(r)
+		qs := "e^" + in(lq)
+		b := c.Block("binomial cut-offs, n = " + count(d.N) + " trials, p = " + in(d.P) + ", q = " + qs)
+		b.Row("lower cut-off", count(lo), "smallest k with P(X "+s.le()+" k) "+s.ge()+" "+qs+"; actual "+s.logNum(d.LogCDF(lo)))
+		b.Row("upper cut-off", count(hi), "smallest k with P(X > k) "+s.le()+" "+qs+"; actual "+s.logNum(d.LogSurvival(hi)))
+		return nil
+	}
 	if err := a.Need("q"); err != nil {
 		return err
 	}
@@ -300,7 +322,6 @@ func runCut(c *Call) error {
 	lo, hi := d.Quantile(q), d.UpperQuantile(q)
 	r := cutResult{N: d.N, P: d.P, Q: q, Lower: lo, LowerTail: d.CDF(lo), Upper: hi, UpperTail: d.Survival(hi), LowerFound: lo >= 0}
 	c.Data(r)
-	s := c.S
 	b := c.Block("binomial cut-offs, n = " + count(d.N) + " trials, p = " + in(d.P) + ", q = " + in(q))
 	b.Row("lower cut-off", count(lo), "smallest k with P(X "+s.le()+" k) "+s.ge()+" "+in(q)+"; actual "+s.num(r.LowerTail))
 	b.Row("upper cut-off", count(hi), "smallest k with P(X > k) "+s.le()+" "+in(q)+"; actual "+s.num(r.UpperTail))

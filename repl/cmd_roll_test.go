@@ -51,3 +51,19 @@ func TestUrnAndLotMatchPackage(t *testing.T) {
 		t.Errorf("finite-lot acceptance %v, package %v", got, pa)
 	}
 }
+
+func TestCutAndEntropyMatchPackage(t *testing.T) {
+	t.Parallel()
+	d, _ := binom.New(100000, 0.5)
+	obj := runJSON(t, "cut n=100000 p=0.5 logq=-2000")
+	if got := num(t, obj, "lower_cut"); got != float64(d.LogQuantile(-2000)) {
+		t.Errorf("lower cut %v, package %d", got, d.LogQuantile(-2000))
+	}
+	if got := num(t, obj, "upper_cut"); got != float64(d.LogUpperQuantile(-2000)) {
+		t.Errorf("upper cut %v, package %d", got, d.LogUpperQuantile(-2000))
+	}
+	d2, _ := binom.New(40, 0.3)
+	if got := num(t, runJSON(t, "spread n=40 p=0.3"), "entropy"); got != d2.Entropy() {
+		t.Errorf("entropy %v, package %v", got, d2.Entropy())
+	}
+}
