@@ -76,11 +76,11 @@ func (d Dist) LogProbRange(lo, hi int64) float64 {
 // 0 < P < 1, the smaller computed directly and the larger as its
 // complement.
 func (d Dist) bothTails(k int64) (lower, upper float64) {
-	ls, isLower := d.smallTail(k)
+	ls, ll, isLower := d.smallTail(k)
 	if isLower {
-		return ls, log1mexp(ls)
+		return ls, ll
 	}
-	return log1mexp(ls), ls
+	return ll, ls
 }
 
 // logAddExp2 returns ln(e^a + e^b).

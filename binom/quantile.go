@@ -88,7 +88,7 @@ func log1pexp(x float64) float64 {
 // difference from the PMF; the residual is concave or convex in k for the
 // log-concave binomial, so the steps approach the answer from one side.
 // A bracket [lo, hi] guards them: proposals outside it bisect, and where
-// the residual cannot guide (a unit step in the same direction twice in a
+// the residual cannot guide (a third unit step in the same direction in a
 // row, as where plain subnormal targets round coarsely) the steps double.
 // With the Cornish-Fisher start the answer takes two to four tail
 // evaluations; at most about 2 log2(N) + 10 in any case, and never more
@@ -97,6 +97,7 @@ func (d Dist) search(t *quantileTarget, guess int64) int64 {
 	lo, hi := int64(-1), d.N // ok(hi) holds; ok(lo) does not (lo = -1: none)
 	k := guess
 	var lastStep, run int64 = 0, 1
+	units := 0 // unit steps in the same direction in a row
 	for it := 0; it < 300 && hi-lo > 1; it++ {
 		if k <= lo || k >= hi {
 			k = lo + (hi-lo)/2
@@ -128,24 +129,30 @@ func (d Dist) search(t *quantileTarget, guess int64) int64 {
 		if !ok && next <= k {
 			next = k + 1
 		}
-		if st := next - k; (st == 1 || st == -1) && st*lastStep > 0 {
+		if st := next - k; (st == 1 || st == -1) && st == lastStep {
+			units++
+		} else {
+			units = 0
+		}
+		lastStep = next - k
+		if units >= 2 {
 			run *= 2
-			next = k + st*run
+			next = k + lastStep*run
 		} else {
 			run = 1
 		}
-		lastStep = next - k
 		k = next
 	}
 	return hi
 }
 
-// normalQuantileLog returns z with Phi(z) = e^lq for lq <= ln(1/2),
-// accurate to about 1e-9 relative for lq > -23 (math.Erfinv) and to a few
-// digits below (the asymptotic expansion of Mills' ratio): a starting
-// point, not a result.
+// normalQuantileLog returns z with Phi(z) = e^lq for lq <= ln(1/2):
+// math.Erfinv down to Phi = 0.02, below that the asymptotic inversion of
+// Mills' ratio refined by two Newton steps on ln Phi (math.Erfc), good to
+// about 1e-12; below z = -37, where erfc underflows, the asymptotic
+// inversion alone (relative 1e-6). A starting point, not a result.
 func normalQuantileLog(lq float64) float64 {
-	if lq > -23 {
+	if lq > math.Log(0.02) {
 		return math.Sqrt2 * math.Erfinv(2*math.Exp(lq)-1)
 	}
 	// ln Phi(z) ~ -z^2/2 - ln(-z sqrt(2 pi)) - ln(1 - 1/z^2), z < 0.
@@ -154,12 +161,25 @@ func normalQuantileLog(lq float64) float64 {
 		z2 := -2*lq - ln2pi - 2*math.Log(-z) - 2*math.Log1p(-1/(z*z))
 		z = -math.Sqrt(math.Max(z2, 1))
 	}
+	if z < -37 {
+		return z
+	}
+	for range 2 {
+		phiTail := 0.5 * math.Erfc(-z/math.Sqrt2)
+		// d ln Phi / dz = phi(z)/Phi(z).
+		z -= (math.Log(phiTail) - lq) * phiTail / math.Exp(-0.5*z*z-0.5*ln2pi)
+	}
 	return z
 }
 
-// guess returns the Cornish-Fisher estimate of the quantile at standard
-// normal deviate z (skewness and kurtosis terms, continuity correction),
-// clamped to [0, N].
+// guess returns an estimate of the lower-tail quantile at standard normal
+// deviate z (CDF(k) = Phi(z)), clamped to [0, N]: the Cornish-Fisher
+// expansion (skewness and kurtosis terms, continuity correction), and
+// beyond 2.5 standard deviations two Newton steps on the leading terms of
+// the uniform expansion, P(X <= k) ~ Phi(z_k + w_k/3) with z_k the signed
+// root of twice the deviance and w_k = (b-a)/sqrt(a b (a+b)) for the beta
+// parameters a = N-k, b = k+1 (temme.go), which follows the skewed far
+// tails that the moment expansion misses.
 func (d Dist) guess(z float64) int64 {
 	n := float64(d.N)
 	v := n * d.P * (1 - d.P)
@@ -172,13 +192,41 @@ func (d Dist) guess(z float64) int64 {
 	z2 := z * z
 	w := z + g1*(z2-1)/6 + g2*z*(z2-3)/24 - g1*g1*z*(2*z2-5)/36
 	x := n*d.P + sd*w - 0.5
+	if (x-n*d.P)*z < 0 {
+		x = n*d.P + sd*z // the expansion has turned over: start plainly
+	}
+	if math.Abs(z) > 2.5 && v >= temmeMinVar && !math.IsInf(z, 0) {
+		mu := n + 1
+		mpHi, mpLo, mqHi, mqLo := compMeans(mu, d.P)
+		for range 2 {
+			x = math.Min(math.Max(x, 0), n-1)
+			a, b := n-x, x+1
+			if b < temmeMinAB || a < temmeMinAB {
+				break
+			}
+			// The deviance by bd0, whose series keeps its digits near the
+			// mean (a ln(a/mq) + b ln(b/mp) would cancel them).
+			dev := bd0(a, mqHi, mqLo) + bd0(b, mpHi, mpLo)
+			la, lb := math.Log(a/mqHi), math.Log(b/mpHi)
+			zk := math.Copysign(math.Sqrt(2*dev), b-mpHi)
+			res := zk + (b-a)/math.Sqrt(a*b*mu)/3 - z
+			slope := (lb - la) / zk // d z_k / d k
+			if !(slope > 0) {
+				break
+			}
+			x -= res / slope
+		}
+	}
+	// The answer is the smallest k >= x; rounding instead of ceil costs
+	// nothing for a generic target and saves a step where the target is a
+	// tail value itself (x then sits just above an integer).
 	switch {
 	case !(x > 0):
 		return 0
 	case x >= n:
 		return d.N
 	}
-	return int64(math.Ceil(x))
+	return int64(math.Round(x))
 }
 
 // Quantile returns the smallest k with CDF(k) >= q, the comparison made on

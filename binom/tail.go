@@ -78,23 +78,27 @@ const (
 
 // smallTail returns ln of the smaller of the two tails at k (for
 // 0 <= k < N and 0 < P < 1, up to the fraction of a standard deviation where
-// the methods switch sides) and whether it is the lower tail P(X <= k).
-func (d Dist) smallTail(k int64) (lnSmall float64, lower bool) {
+// the methods switch sides), whether it is the lower tail P(X <= k), and
+// ln of the other tail, computed from the smaller as log1p(-small) (where
+// the expansion gives the small tail in linear space) or log1mexp.
+func (d Dist) smallTail(k int64) (lnSmall, lnLarge float64, lower bool) {
 	n := float64(d.N)
 	if v := n * d.P * (1 - d.P); v >= temmeMinVar {
 		fk := float64(k)
 		m := math.Min(fk+1, n-fk)
 		z := fk + 0.5 - n*d.P
 		if m >= temmeMinAB && z*z <= temmeZ2*m*v {
-			if ls, lo, ok := d.temmeTail(k); ok {
-				return ls, lo
+			if ls, small, lo, ok := d.temmeTail(k); ok {
+				return ls, math.Log1p(-small), lo
 			}
 		}
 	}
 	if d.lowerDirect(k) {
-		return d.logLower(k), true
+		ls := d.logLower(k)
+		return ls, log1mexp(ls), true
 	}
-	return d.logUpper(k), false
+	ls := d.logUpper(k)
+	return ls, log1mexp(ls), false
 }
 
 // log1mexp returns ln(1 - e^x) for x <= 0 without cancellation
@@ -128,11 +132,11 @@ func (d Dist) LogCDF(k int64) float64 {
 	case d.P == 1:
 		return math.Inf(-1)
 	}
-	if ls, lower := d.smallTail(k); lower {
+	ls, ll, lower := d.smallTail(k)
+	if lower {
 		return ls
-	} else {
-		return log1mexp(ls)
 	}
+	return ll
 }
 
 // LogSurvival returns ln P(X > k): 0 for k < 0, -Inf for k >= N. It is
@@ -152,11 +156,11 @@ func (d Dist) LogSurvival(k int64) float64 {
 	case d.P == 1:
 		return 0
 	}
-	if ls, lower := d.smallTail(k); lower {
-		return log1mexp(ls)
-	} else {
-		return ls
+	ls, ll, lower := d.smallTail(k)
+	if lower {
+		return ll
 	}
+	return ls
 }
 
 // CDF returns P(X <= k) = exp(LogCDF(k)); 0 for k < 0 and 1 for k >= N.

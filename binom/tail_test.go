@@ -105,7 +105,7 @@ func TestMethodsAgree(t *testing.T) {
 				if k < 0 || k >= n || z*z > 0.4*m {
 					continue
 				}
-				tem, lower, ok := d.temmeTail(k)
+				tem, _, lower, ok := d.temmeTail(k)
 				if !ok {
 					t.Errorf("%v k=%d: uniform expansion did not converge", d, k)
 					continue

@@ -121,12 +121,13 @@ func temmeInit() {
 	// temmeG[1] by the same layout: coefficient of omega^1.
 }
 
-// temmeTail returns ln of the smaller tail of the binomial at k (0 <= k < N,
-// 0 < P < 1) by the uniform expansion, and whether that tail is the lower
-// one, P(X <= k). ok is false where the series has not converged to
-// double precision within temmeOrder terms (the caller then uses the
-// continued fraction).
-func (d Dist) temmeTail(k int64) (lnSmall float64, lower, ok bool) {
+// temmeTail returns ln of the smaller tail of the binomial at k
+// (0 <= k < N, 0 < P < 1) by the uniform expansion, the tail itself (0 if
+// it is below about 1e-190, where its complement rounds to 1), and
+// whether it is the lower one, P(X <= k). ok is false where the series has
+// not converged to double precision within temmeOrder terms (the caller
+// then uses the continued fraction or the term sums).
+func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
 	temmeOnce.Do(temmeInit)
 	fa := float64(d.N - k)
 	fb := float64(k + 1)
@@ -139,23 +140,19 @@ func (d Dist) temmeTail(k int64) (lnSmall float64, lower, ok bool) {
 		z = -z
 	}
 	az := math.Abs(z)
-	// ref = Phi(-|z|)/phi(z), Mills' ratio of the smaller Gaussian tail.
-	lnPhi := -dev - 0.5*ln2pi
-	ref := millsRatio(az)
+	// A lower bound on Mills' ratio Phi(-|z|)/phi(z) (Birnbaum 1942) sets
+	// the truncation: terms below 1e-17 of it no longer count.
+	tol := 2e-17 / (az + math.Sqrt(az*az+4))
 	w := (fb - fa) / math.Sqrt(fa*fb*mu) // omega mu^(-1/2)
 	w2 := w * w
 	e := 1 / mu // mu^(-1)
 	var epow [temmeOrder/2 + 1]float64
 	epow[0] = 1
-	for i := 1; i < len(epow); i++ {
-		epow[i] = epow[i-1] * e
-	}
 	// S = sum_j G_j P_j(z), G_j = g_j(omega) mu^(-j/2)
 	//   = w^(j mod 2) sum_l c_{j,l} w^(j-2l-j mod 2) e^l.
 	var s float64
 	pPrev, pCur := 0.0, 1.0 // P_{j-1}, P_j at j = 1
 	zpow := 1.0             // z^(j-1)
-	tol := 1e-17 * ref
 	prevAbs := math.Inf(1)
 	converged := false
 	for j := 1; j <= temmeOrder; j++ {
@@ -164,6 +161,9 @@ func (d Dist) temmeTail(k int64) (lnSmall float64, lower, ok bool) {
 			pPrev, pCur = pCur, zpow+float64(j-1)*pPrev
 		}
 		c := temmeG[j]
+		if h := len(c) - 1; epow[h] == 0 {
+			epow[h] = epow[h-1] * e
+		}
 		acc := c[0]
 		for l := 1; l < len(c); l++ {
 			acc = acc*w2 + c[l]*epow[l]
@@ -181,24 +181,29 @@ func (d Dist) temmeTail(k int64) (lnSmall float64, lower, ok bool) {
 		prevAbs = at
 	}
 	if !converged {
-		return 0, lower, false
+		return 0, 0, lower, false
 	}
-	dd := math.Exp(stirlerr(fa) + stirlerr(fb) - stirlerr(mu))
+	// D = Gamma*(a) Gamma*(b) / Gamma*(mu) = e^x with |x| < 0.007 (a, b >=
+	// 25): Taylor to x^6 is exact to 1e-19.
+	x := stirlerr(fa) + stirlerr(fb) - stirlerr(mu)
+	dd := 1 + x*(1+x/2*(1+x/3*(1+x/4*(1+x/5*(1+x/6)))))
 	corr := s / dd
 	if lower {
 		corr = -corr
 	}
-	return lnPhi + math.Log(ref+corr), lower, true
+	lnPhi := -dev - 0.5*ln2pi
+	if az < 30 {
+		// Tail = Phi(-|z|) -+ phi(z) S/D, both terms from erfc and exp.
+		small = 0.5*math.Erfc(az/math.Sqrt2) + math.Exp(lnPhi)*corr
+		return math.Log(small), small, lower, true
+	}
+	lnSmall = lnPhi + math.Log(millsRatio(az)+corr)
+	return lnSmall, math.Exp(lnSmall), lower, true
 }
 
-// millsRatio returns Phi(-x)/phi(x) = sqrt(pi/2) erfcx(x/sqrt 2) for
-// x >= 0: from math.Erfc where e^(x^2/2) stays finite, and by its
-// asymptotic series 1/x (1 - 1/x^2 + 3/x^4 - ...) beyond x = 30, where
-// nine terms reach 1e-17.
+// millsRatio returns Phi(-x)/phi(x) for x >= 30 by its asymptotic series
+// 1/x (1 - 1/x^2 + 3/x^4 - 15/x^6 + ...), where nine terms reach 1e-17.
 func millsRatio(x float64) float64 {
-	if x < 30 {
-		return math.Sqrt(math.Pi/2) * math.Erfc(x/math.Sqrt2) * math.Exp(0.5*x*x)
-	}
 	r := 1 / (x * x)
 	s, t := 1.0, 1.0
 	for j := 1.0; j <= 9; j++ {
