@@ -60,7 +60,7 @@ func TestEach(t *testing.T) {
 		"each " + in + " check 17/40":    "17/40",
 		"each " + in + " check p=0.3 q=": "q=",
 	} {
-		err, _ := runErr(line)
+		_, err := runErr(line)
 		if err == nil || !strings.Contains(err.Error(), `"`+token+`"`) {
 			t.Errorf("%q: error %v, want it to name %q", line, err, token)
 		}

@@ -129,5 +129,4 @@ func commandNames() []string {
 var (
 	optLevel  = Opt{Name: "level", Doc: "confidence level, like 0.95 or 95% (default: the session level)"}
 	optMethod = func(doc string, methods []string) Opt { return Opt{Name: "method", Doc: doc, Values: methods} }
-	optSide   = Opt{Name: "side", Doc: "two (two-sided, default), above or below", Values: []string{"two", "above", "below"}}
 )

@@ -46,11 +46,7 @@ func completions(head string) ([]string, string) {
 		word = words[len(words)-1]
 	}
 	if cmd == helpCmd {
-		var cands []string
-		for _, n := range commandNames() {
-			cands = append(cands, n)
-		}
-		return cands, word
+		return commandNames(), word
 	}
 	if name, val, ok := strings.Cut(word, "="); ok {
 		o := cmd.option(strings.ToLower(name))

@@ -52,7 +52,7 @@ func TestParseRejectsNamingTheToken(t *testing.T) {
 		{"spread n=40 p=0.3 k=9..3", "k=9..3", "empty range"},
 	}
 	for _, tc := range tests {
-		err, stderr := runErr(tc.line)
+		stderr, err := runErr(tc.line)
 		if err == nil {
 			t.Errorf("%q: no error", tc.line)
 			continue

@@ -79,11 +79,11 @@ func num(t *testing.T, obj map[string]any, path string) float64 {
 	return f
 }
 
-// runErr runs one line and returns its error.
-func runErr(line string) (error, string) {
+// runErr runs one line and returns its error output and error.
+func runErr(line string) (string, error) {
 	s, _, errw := testSession()
 	err := s.Run(context.Background(), line)
-	return err, errw.String()
+	return errw.String(), err
 }
 
 // valueCase is one published or package value that a command's JSON must
