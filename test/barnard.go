@@ -97,10 +97,11 @@ func (a zkey) value(n1, n2 int) float64 {
 //
 // The pooled score statistic satisfies Barnard's convexity condition (if a
 // table is in the rejection region, so is every table with a smaller x1 or
-// a larger x2, for Less; tested in barnard_test.go for all n1, n2 up to
-// 25), so each row of the rejection region is a prefix and/or suffix of x2
+// a larger x2, for Less; tested in barnard_test.go for n1, n2 up to 25),
+// so each row of the rejection region is a prefix and/or suffix of x2
 // values and each nuisance value costs O(n1 + n2); the region itself costs
-// O(n1 n2) exact comparisons, once.
+// O(n1 n2) exact comparisons, once. (Rows that broke the condition would
+// still be summed correctly, as interior runs, only more slowly.)
 //
 // Result: Statistic is z ("z"), Estimate p1 - p2, Null 0, Nuisance the pi
 // of the supremum.
