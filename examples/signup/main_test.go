@@ -1,0 +1,178 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"math"
+	"math/big"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/kofnlab/kofn/interval"
+	"github.com/kofnlab/kofn/power"
+	"github.com/kofnlab/kofn/test"
+)
+
+// z975 is the 0.975 quantile of the standard normal (Abramowitz and Stegun
+// 1964, Table 26.5: 1.959964).
+const z975 = 1.959963984540054
+
+// printed is the absolute tolerance of a value printed with 4 decimals.
+var printed = cmpopts.EquateApprox(0, 5.01e-5)
+
+// TestRun runs the program and checks its key numbers against independent
+// computations: closed forms for Wilson and Newcombe, exact rational sums for
+// Fisher, the Fleiss formula; the unconditional tests and score intervals,
+// which have no closed form, against the public API.
+func TestRun(t *testing.T) {
+	t.Parallel()
+	var buf bytes.Buffer
+	if err := run(&buf); err != nil {
+		t.Fatal(err)
+	}
+	out := buf.String()
+	if first, _, _ := strings.Cut(out, "\n"); !strings.HasPrefix(first, "Invented data:") {
+		t.Errorf("first line %q does not label the data as invented", first)
+	}
+
+	lA, uA := wilson(signupsA, visitorsA)
+	lB, uB := wilson(signupsB, visitorsB)
+	pA, pB := float64(signupsA)/visitorsA, float64(signupsB)/visitorsB
+	d := pB - pA
+	newcombe := []float64{d, d - math.Hypot(pB-lB, uA-pA), d + math.Hypot(uB-pB, pA-lA)}
+	mn, err := interval.Difference(signupsB, visitorsB, signupsA, visitorsA,
+		interval.DiffOptions{Method: interval.DiffMiettinenNurminen})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	bos, err := test.Boschloo(ctx, signupsB, visitorsB, signupsA, visitorsA, test.UnconditionalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	bar, err := test.Barnard(ctx, signupsB, visitorsB, signupsA, visitorsA, test.UnconditionalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		label string
+		want  []float64
+	}{
+		{"A, Wilson", []float64{pA, lA, uA}},
+		{"B, Wilson", []float64{pB, lB, uB}},
+		{"A, Clopper-Pearson", append([]float64{pA}, clopperPearson(signupsA, visitorsA)...)},
+		{"B, Clopper-Pearson", append([]float64{pB}, clopperPearson(signupsB, visitorsB)...)},
+		{"Newcombe hybrid score", append(newcombe, 0)},
+		{"Miettinen-Nurminen", []float64{mn.Estimate, mn.Lower, mn.Upper, 0}},
+		{"Fisher point-probability", []float64{fisherTwoSided(signupsB, visitorsB, signupsA, visitorsA), 0.05}},
+		{"Boschloo", []float64{bos.PValue, 0.05}},
+		{"Barnard", []float64{bar.PValue, 0.05}},
+		{"normal approximation", []float64{fleissCPS(planA, planB)}},
+	} {
+		if diff := cmp.Diff(c.want, values(t, out, c.label), printed); diff != "" {
+			t.Errorf("%s (-want +got):\n%s", c.label, diff)
+		}
+	}
+	// Boschloo's test orders tables by Fisher's p-value and so never gives a
+	// larger p-value than Fisher's test (Boschloo 1970).
+	if bos.PValue > fisherTwoSided(signupsB, visitorsB, signupsA, visitorsA) {
+		t.Errorf("Boschloo p = %g exceeds Fisher's", bos.PValue)
+	}
+
+	// Exact power rows, against the public API.
+	for _, n := range []int64{220, 240, 260} {
+		opt := power.TwoSampleOptions{Alpha: planAlpha, Power: planPower}
+		f, err := power.TwoSamplePower(ctx, n, n, planA, planB, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		opt.Test = power.Barnard
+		b, err := power.TwoSamplePower(ctx, n, n, planA, planB, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		label := "n = " + strconv.FormatInt(n, 10)
+		if diff := cmp.Diff([]float64{f.Power, b.Power}, values(t, out, label), printed); diff != "" {
+			t.Errorf("%s (-want +got):\n%s", label, diff)
+		}
+	}
+}
+
+// wilson is the Wilson (1927) score interval in closed form.
+func wilson(k, n int64) (lo, hi float64) {
+	p, nf, z2 := float64(k)/float64(n), float64(n), z975*z975
+	mid := (p + z2/(2*nf)) / (1 + z2/nf)
+	half := z975 / (1 + z2/nf) * math.Sqrt(p*(1-p)/nf+z2/(4*nf*nf))
+	return mid - half, mid + half
+}
+
+// clopperPearson is the exact interval of Clopper and Pearson (1934) from the
+// beta quantiles (gonum's incomplete beta inverse), for 0 < k < n.
+func clopperPearson(k, n int64) []float64 {
+	lo := distuv.Beta{Alpha: float64(k), Beta: float64(n - k + 1)}.Quantile(0.025)
+	hi := distuv.Beta{Alpha: float64(k + 1), Beta: float64(n - k)}.Quantile(0.975)
+	return []float64{lo, hi}
+}
+
+// fisherTwoSided is Fisher's two-sided point-probability p-value, summed in
+// exact rational arithmetic over the hypergeometric tables no more probable
+// than the observed one (relative tolerance 1e-7, as the test package uses).
+func fisherTwoSided(k1, n1, k2, n2 int64) float64 {
+	s := k1 + k2
+	prob := func(x int64) *big.Rat {
+		num := new(big.Int).Mul(new(big.Int).Binomial(n1, x), new(big.Int).Binomial(n2, s-x))
+		return new(big.Rat).SetFrac(num, new(big.Int).Binomial(n1+n2, s))
+	}
+	obs := prob(k1)
+	limit := new(big.Rat).Mul(obs, new(big.Rat).SetFloat64(1+1e-7))
+	sum := new(big.Rat)
+	for x := max(0, s-n2); x <= min(s, n1); x++ {
+		if px := prob(x); px.Cmp(limit) <= 0 {
+			sum.Add(sum, px)
+		}
+	}
+	f, _ := sum.Float64()
+	return f
+}
+
+// fleissCPS is the per-group size of Fleiss (1981, eq. 3.14) with the
+// Casagrande, Pike and Smith (1978) correction, two-sided 5%, power 80%;
+// z = 0.841621 is the 0.80 normal quantile (Abramowitz and Stegun, Table 26.5).
+func fleissCPS(p1, p2 float64) float64 {
+	const zb = 0.8416212335729143
+	pbar := (p1 + p2) / 2
+	d := math.Abs(p1 - p2)
+	n := math.Pow(z975*math.Sqrt(2*pbar*(1-pbar))+zb*math.Sqrt(p1*(1-p1)+p2*(1-p2)), 2) / (d * d)
+	return math.Ceil(n / 4 * math.Pow(1+math.Sqrt(1+4/(n*d)), 2))
+}
+
+var number = regexp.MustCompile(`[-+]?\d+(\.\d+)?(e[-+]?\d+)?`)
+
+// values returns the numbers on the output line that starts with label,
+// after the label.
+func values(t *testing.T, out, label string) []float64 {
+	t.Helper()
+	for _, line := range strings.Split(out, "\n") {
+		rest, ok := strings.CutPrefix(strings.TrimSpace(line), label)
+		if !ok {
+			continue
+		}
+		var xs []float64
+		for _, s := range number.FindAllString(rest, -1) {
+			x, err := strconv.ParseFloat(s, 64)
+			if err != nil {
+				t.Fatalf("line %q: %v", line, err)
+			}
+			xs = append(xs, x)
+		}
+		return xs
+	}
+	t.Fatalf("no line starting with %q in the output:\n%s", label, out)
+	return nil
+}
