@@ -353,6 +353,6 @@ func massPlot(s *Session, lo, hi int64, probRange func(a, b int64) float64) ([]m
 		label = "k (" + count(width) + " values per column)"
 	}
 	ch := chart{xs: xs, series: []series{{"P(X = k)", ys}}, yLo: 0, yHi: top, ref: math.NaN(),
-		height: 8, ascii: s.Set.ASCII, digits: 2, xLabel: label}
+		height: 8, ascii: s.Set.ASCII, width: s.Set.Width, digits: 2, xLabel: label}
 	return bins, "P(X = k)\n" + ch.render()
 }

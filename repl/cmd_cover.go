@@ -203,6 +203,6 @@ func coverPlot(s *Session, xs []float64, curves []series, yMin, level float64, x
 	if yMin < lo {
 		note = "; lower values drawn on the bottom row"
 	}
-	ch := chart{xs: xs, series: curves, yLo: lo, yHi: hi, ref: level, height: 12, ascii: s.Set.ASCII, digits: 3, xLabel: xLabel}
+	ch := chart{xs: xs, series: curves, yLo: lo, yHi: hi, ref: level, height: 12, ascii: s.Set.ASCII, width: s.Set.Width, digits: 3, xLabel: xLabel}
 	return "coverage (line at the level " + pct(level) + note + ")\n" + ch.render()
 }

@@ -425,7 +425,7 @@ func powerPlot(s *Session, curve []power.NPower, target float64, what string, ma
 		label = "n (one column per " + count(int64(step)) + " sizes; narrow the range to see each)"
 	}
 	ch := chart{xs: xs, series: []series{{"power", ys}}, yLo: yLo, yHi: yHi, ref: target, height: 10,
-		ascii: s.Set.ASCII, digits: 2, xLabel: label}
+		ascii: s.Set.ASCII, width: s.Set.Width, digits: 2, xLabel: label}
 	if len(marks) == 2 {
 		ch.marks = []float64{float64(marks[0]), float64(marks[1])}
 		ch.markNote = "first n " + count(marks[0]) + ", safe n " + count(marks[1])

@@ -331,7 +331,7 @@ func runAccept(c *Call) error {
 		xs[i], ys[i] = pt.X, pt.Y
 	}
 	ch := chart{xs: xs, series: []series{{"P(accept)", ys}}, yLo: 0, yHi: 1, ref: math.NaN(), height: 10,
-		ascii: s.Set.ASCII, digits: 3, xLabel: "defect rate"}
+		ascii: s.Set.ASCII, width: s.Set.Width, digits: 3, xLabel: "defect rate"}
 	c.Plot("operating characteristic: P(accept) against the defect rate\n" + ch.render())
 	return nil
 }

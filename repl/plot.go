@@ -21,6 +21,7 @@ type chart struct {
 	ascii    bool
 	digits   int
 	xLabel   string
+	width    int       // the screen width; a long x label moves to its own line
 	marks    []float64 // x values marked under the axis
 	markNote string    // what the marks are
 }
@@ -185,10 +186,22 @@ func (c chart) xAxis(cols int) string {
 	}
 	put(cols-utf8.RuneCountInString(last), last)
 	out := strings.TrimRight(string(line), " ")
-	if c.xLabel != "" {
-		out += "  " + c.xLabel
+	if c.xLabel == "" {
+		return out
 	}
-	return out
+	if c.width > 0 && utf8.RuneCountInString(out)+len(c.xLabel)+2+c.labelWidth()+2 > c.width {
+		return out + "\n" + strings.Repeat(" ", c.labelWidth()+2) + c.xLabel
+	}
+	return out + "  " + c.xLabel
+}
+
+// labelWidth is the width of the y labels.
+func (c chart) labelWidth() int {
+	w := max(len(formatNum(c.yHi, c.digits)), len(formatNum(c.yLo, c.digits)))
+	if !math.IsNaN(c.ref) {
+		w = max(w, len(formatNum(c.ref, c.digits)))
+	}
+	return w
 }
 
 // formatAxis prints an axis value compactly: integers plainly, others with
