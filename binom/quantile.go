@@ -234,8 +234,11 @@ func (d Dist) guess(z float64) int64 {
 // CDF(k-1) < CDF(k) < 1 as computed. Special cases: q <= 0 gives 0; q = 1
 // gives the smallest k with P(X <= k) = 1 exactly (N for 0 < P < 1, 0 for
 // P = 0); q > 1 or NaN gives -1 (no such k), as does an invalid Dist.
-// Cost: a Cornish-Fisher start and secant steps on the log tail, two to
-// four tail evaluations (about 1 microsecond at any N up to 1e12).
+// Cost: a start from the Cornish-Fisher expansion refined on the uniform
+// expansion's leading terms (within one of the answer almost everywhere),
+// then secant steps on the log tail: usually two tail evaluations, at most
+// about 2 log2(N) + 10; 400-1400 ns of CPU per call measured at N = 10 to
+// 1e12 in bulk and tails (BenchmarkQuantile, shared machine under load).
 func (d Dist) Quantile(q float64) int64 {
 	if !d.valid() || math.IsNaN(q) || q > 1 {
 		return -1

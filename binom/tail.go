@@ -110,14 +110,32 @@ func log1mexp(x float64) float64 {
 	return math.Log1p(-math.Exp(x))
 }
 
-// LogCDF returns ln P(X <= k): -Inf for k < 0, 0 for k >= N.
+// LogCDF returns ln P(X <= k): -Inf for k < 0, 0 for k >= N, NaN only for
+// an invalid Dist. At P = 0 it is 0, at P = 1 -Inf below N.
 //
-// The smaller tail is computed directly from the continued fraction of the
-// regularized incomplete beta with a log-space prefactor b(k); the larger
-// one, which is at least about 1/2, as log1mexp of the smaller, which keeps
-// full relative accuracy. Accuracy: within 1e-13 of the true value relative
-// to max(1, |ln P|) (tested against mpmath over N up to 1e12, tails down
-// to -1e5 and beyond).
+//	P(X <= k) = I_{1-P}(N-k, k+1)   (regularized incomplete beta)
+//
+// The smaller tail is computed directly, the larger (at least about 1/2)
+// as its exact complement by log1p or log1mexp, which keeps full relative
+// accuracy; no small tail is ever 1 - CDF. Three methods share the work:
+//   - in the bulk of a distribution with N P (1-P) >= 16 and both beta
+//     parameters >= 25, out to z^2 <= min(k+1, N-k)/2 standard deviations,
+//     the uniform asymptotic expansion of the incomplete beta (Temme 1992,
+//     SIAM J. Math. Anal. 18; derived for this package in temme.go), both
+//     tails through erfc of the signed root deviance;
+//   - elsewhere, on the side where the argument of the incomplete beta is
+//     at most 1/2, its continued fraction (DiDonato and Morris 1992, ACM
+//     TOMS 18:360-373) times the PMF of Loader (2000) as a log-space
+//     prefactor;
+//   - on the other side, sums of PMF ratios from k outward (at most about
+//     70 terms there), so that 1-P is never rounded inside a tail.
+//
+// Accuracy: within 1e-13 of the true value relative to max(1, |ln P|) for
+// N up to 1e12, P in [1e-15, 1-1e-15] and every k; the worst error measured
+// against the 6046 mpmath values of testdata/binom_golden.tsv (tails down to
+// ln P = -1e5 and far beyond, N up to 1e12) is 5e-15. Cost: constant in N,
+// no allocation; 125-260 ns of CPU per call measured at N = 10 to 1e12 in
+// bulk and tails (BenchmarkLogCDF, on a shared two-core machine under load).
 func (d Dist) LogCDF(k int64) float64 {
 	if !d.valid() {
 		return math.NaN()
@@ -139,9 +157,11 @@ func (d Dist) LogCDF(k int64) float64 {
 	return ll
 }
 
-// LogSurvival returns ln P(X > k): 0 for k < 0, -Inf for k >= N. It is
-// computed the same way as LogCDF, with the roles of the tails exchanged,
-// never as ln(1 - CDF) of a CDF near 1.
+// LogSurvival returns ln P(X > k) = ln I_P(k+1, N-k): 0 for k < 0, -Inf
+// for k >= N, NaN only for an invalid Dist. It is computed by the same
+// methods as LogCDF with the roles of the tails exchanged, never as
+// ln(1 - CDF) of a CDF near 1, with the same accuracy (worst measured
+// 3.4e-15 on the golden file) and cost (95-230 ns of CPU per call).
 func (d Dist) LogSurvival(k int64) float64 {
 	if !d.valid() {
 		return math.NaN()
@@ -164,12 +184,15 @@ func (d Dist) LogSurvival(k int64) float64 {
 }
 
 // CDF returns P(X <= k) = exp(LogCDF(k)); 0 for k < 0 and 1 for k >= N.
-// Accuracy: relative 1e-13 * max(1, |ln P|) where P(X <= k) >= 1e-300.
+// Accuracy: relative 1e-13 * max(1, |ln P|) where P(X <= k) >= 1e-300 (the
+// rounding of the exponent alone costs that much; worst measured 5e-15 on
+// the golden file); exactly 0 or 1 only where the true value rounds to it.
+// Cost as LogCDF.
 func (d Dist) CDF(k int64) float64 { return math.Exp(d.LogCDF(k)) }
 
 // Survival returns P(X > k) = exp(LogSurvival(k)); 1 for k < 0 and 0 for
-// k >= N. It is computed directly, so a survival of 1e-35 is returned as
-// such, not as 1 - CDF = 0.
+// k >= N. It is computed directly, so a survival of 1e-42 is returned as
+// such, not as 1 - CDF = 0. Accuracy and cost as CDF.
 func (d Dist) Survival(k int64) float64 { return math.Exp(d.LogSurvival(k)) }
 
 // logDiff returns ln(e^a - e^b) for a >= b, -Inf when a == b or a is -Inf.
