@@ -25,6 +25,7 @@ type region struct {
 	la     float64
 	n      int64
 	lo, hi int64
+	null   *tailPair // rejection tails at p0, for predicting the next region
 }
 
 const walkLimit = 6
@@ -149,9 +150,75 @@ func (r *region) walkHi(n int64) (int64, bool) {
 
 // certify moves a two-sided point-probability region to n; see
 // certifyInterval.
+//
+// The starting guess is predicted, not decided: with the size S (the null
+// probability outside the candidate region, carried by recurrence), the
+// most likely outcome outside has p-value S and the least likely end
+// inside S + its probability, so the candidate is widened while S >=
+// alpha and narrowed while S + f(end) < alpha. The prediction is right
+// except at ties, and then the certification corrects it; it saves most
+// of the extra decisions a moving boundary would cost.
 func (r *region) certify(n int64) (lo, hi int64, ok bool) {
 	d := binomDist(n, r.t.P0)
-	return certifyInterval(func(k int64) bool { return r.ok(k, n) }, d.LogProb, 0, n, min(r.lo, n), min(r.hi, n))
+	lo, hi = min(r.lo, n), min(r.hi, n)
+	if r.null == nil {
+		r.null = newTailPair(r.t.P0)
+	}
+	if !r.t.Mid && lo <= hi {
+		s := r.null.at(n, lo, hi)
+		lp := func(k int64) float64 {
+			if k < 0 || k > n {
+				return math.Inf(-1)
+			}
+			return d.LogProb(k)
+		}
+		const tol = 1e-7 // onesample's relative tolerance, in log space
+		// pAt predicts the p-value of an outcome with log probability f:
+		// the outside mass plus the ends of the candidate no more likely.
+		pAt := func(f float64) float64 {
+			p := s
+			if el := lp(lo); el <= f+tol {
+				p += math.Exp(el)
+			}
+			if eh := lp(hi); hi != lo && eh <= f+tol {
+				p += math.Exp(eh)
+			}
+			return p
+		}
+		for i := 0; i < 4 && lo <= hi; i++ {
+			fl, fh := lp(lo-1), lp(hi+1)
+			if fo := math.Max(fl, fh); fo > math.Inf(-1) && pAt(fo) >= r.alpha {
+				// The most likely outside outcome (both when tied) is accepted.
+				if fl >= fo-tol {
+					s -= math.Exp(fl)
+					lo--
+				}
+				if fh >= fo-tol {
+					s -= math.Exp(fh)
+					hi++
+				}
+				continue
+			}
+			el, eh := lp(lo), lp(hi)
+			if lo < hi {
+				if fi := math.Min(el, eh); pAt(fi) < r.alpha {
+					// The least likely end (both when tied) is rejected.
+					if el <= fi+tol {
+						s += math.Exp(el)
+						lo++
+					}
+					if eh <= fi+tol {
+						s += math.Exp(eh)
+						hi--
+					}
+					continue
+				}
+			}
+			break
+		}
+		lo, hi = max(lo, 0), min(hi, n)
+	}
+	return certifyInterval(func(k int64) bool { return r.ok(k, n) }, d.LogProb, 0, n, lo, hi)
 }
 
 // certifyInterval returns the acceptance interval of a two-sided
