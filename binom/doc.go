@@ -32,7 +32,7 @@
 //   - hypergeometric PMF by Loader's binomial products
 //     C(K,x) C(N-K,n-x)/C(N,n) = b(x; K, p) b(n-x; N-K, p) / b(n; N, p);
 //     tails and ranges by direct summation outward from the end nearest the
-//     mode with the PMF ratio recurrence, exact re-anchoring every 32 terms
+//     mode with the PMF ratio recurrence, exact re-anchoring every 64 terms
 //     and a geometric bound on the remainder, so the cost is that of the
 //     terms that matter (a few thousand at totals of 1e6, a handful deep in
 //     a tail); the noncentral distribution is normalised the same way, with

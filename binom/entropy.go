@@ -12,7 +12,7 @@ const entropyAsymMin = 1000
 //
 // For a variance V = N P (1-P) below 1000 it sums the terms within about 9
 // standard deviations of the mode (outward by the PMF ratio, re-anchored
-// every 32 terms, until the rest cannot change the sum at 1e-17); from
+// every 64 terms, until the rest cannot change the sum at 1e-17); from
 // V = 1000 on it uses the expansion
 //
 //	H = (1/2) ln(2 pi e V) - sum_{k=1..4} b_k(u) / V^k,  u = P (1-P),

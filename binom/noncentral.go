@@ -223,7 +223,7 @@ func (d NoncentralHyper) LogProbRange(lo, hi int64) float64 {
 		return d.hyper().LogProbRange(lo, hi)
 	}
 	w := d.weights(nil)
-	return w.logRange(lo, hi)
+	return min(0, w.logRange(lo, hi)) // rounding never lifts a probability above 1
 }
 
 // ProbRange returns P(lo <= X <= hi) = exp(LogProbRange(lo, hi)).

@@ -96,3 +96,15 @@ func TestRandGoodnessOfFit(t *testing.T) {
 		}
 	}
 }
+
+func BenchmarkRand(b *testing.B) {
+	for _, n := range []int64{10, 1000, 1e9} {
+		d := Dist{n, 0.3}
+		r := rand.New(rand.NewPCG(1, 2))
+		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
+			for b.Loop() {
+				benchSink = float64(d.Rand(r))
+			}
+		})
+	}
+}

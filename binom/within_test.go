@@ -97,3 +97,25 @@ func TestProportionWithinGolden(t *testing.T) {
 		t.Errorf("only %d rows", rows)
 	}
 }
+
+func BenchmarkProportionWithin(b *testing.B) {
+	for _, n := range []int64{50, 1e6, 1e12} {
+		d := Dist{n, 0.3}
+		b.Run(strconv.FormatInt(n, 10), func(b *testing.B) {
+			for b.Loop() {
+				benchSink = d.ProportionWithin(0.01)
+			}
+		})
+	}
+}
+
+func BenchmarkEntropy(b *testing.B) {
+	for _, n := range []int64{100, 1e9} {
+		d := Dist{n, 0.3}
+		b.Run(strconv.FormatInt(n, 10), func(b *testing.B) {
+			for b.Loop() {
+				benchSink = d.Entropy()
+			}
+		})
+	}
+}
