@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/onesample"
 )
 
 // MaxUnconditionalTables is the size limit of Barnard and Boschloo: the
@@ -195,14 +196,14 @@ func (r *region) logProbLog(w *scratch) float64 {
 			t = w.preM[c] + math.Log(w.preS[c])
 		}
 		if c := r.suf[x1]; c <= r.n2 {
-			t = logAddExp(t, w.sufM[c]+math.Log(w.sufS[c]))
+			t = onesample.LogAddExp(t, w.sufM[c]+math.Log(w.sufS[c]))
 		}
 		w.term[x1] = t
 	}
 	for _, run := range r.inner {
 		t := w.term[run[0]]
 		for x2 := run[1]; x2 <= run[2]; x2++ {
-			t = logAddExp(t, w.l2[x2])
+			t = onesample.LogAddExp(t, w.l2[x2])
 		}
 		w.term[run[0]] = t
 	}
@@ -237,17 +238,6 @@ func logIf(b bool) float64 {
 		return 0
 	}
 	return math.Inf(-1)
-}
-
-// logAddExp returns ln(e^a + e^b).
-func logAddExp(a, b float64) float64 {
-	if a < b {
-		a, b = b, a
-	}
-	if math.IsInf(a, -1) {
-		return a
-	}
-	return a + math.Log1p(math.Exp(b-a))
 }
 
 // supremum returns the largest ln P(region; pi) over pi in [lo, hi] and
