@@ -42,7 +42,7 @@ var eachCmd = &Command{
 			"the first columns. A row that fails does not stop the run, but the command reports failure. " +
 			"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
 			"input: kofn -c 'each - check p=0.3' < visits.csv.",
-		Methods:     "Any method of the verb; the verbs that run on rows are listed by help each.",
+		Methods:     "", // filled with the row verbs once all are registered
 		Assumptions: "Each row is a separate analysis: no correction for testing many rows is applied.",
 		Examples:    []string{"each - check p=0.3", "each - flips method=exact"},
 		Sources:     "RFC 4180 (CSV).",
@@ -249,4 +249,13 @@ func rowCounts(rec []string, idx []int, counts []int64) error {
 		counts[i] = v
 	}
 	return nil
+}
+
+// rowVerbList describes the row verbs and their count columns.
+func rowVerbList() string {
+	var parts []string
+	for _, n := range rowVerbs() {
+		parts = append(parts, n+" ("+strings.Join(registry[n].Row.In, ",")+")")
+	}
+	return strings.Join(parts, ", ")
 }

@@ -64,7 +64,12 @@ func init() { setCmd.Run = runSet }
 // (init order across files is not to be relied on).
 var settingsOnce sync.Once
 
-func prepareSettings() { settingsOnce.Do(func() { setCmd.Options = settingOptions() }) }
+func prepareSettings() {
+	settingsOnce.Do(func() {
+		setCmd.Options = settingOptions()
+		eachCmd.Help.Methods = "Verbs that run on rows, with the columns they read: " + rowVerbList() + ". Any method of the verb."
+	})
+}
 
 // settingsView is the JSON form of the settings.
 type settingsView struct {
