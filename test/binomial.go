@@ -116,7 +116,8 @@ type BinomialOptions struct {
 // one-sided alternative). A test at level alpha = 1 - Level rejects when
 // PValue < alpha, exactly when Interval excludes p0 (for the
 // point-probability and Blaker tests the accepted set of p0 can have
-// gaps; the interval is its hull, see Warnings).
+// gaps; the interval is then its hull, and a warning says so when the
+// 100-point search grid sees a gap).
 //
 // Result: Statistic is k for the exact methods, z for the score methods
 // and G2 for the likelihood ratio; Estimate is k/n; Null is p0.
@@ -180,11 +181,11 @@ func Binomial(k, n int64, p0 float64, opt BinomialOptions) (Result, error) {
 		lp := func(p float64) float64 { return binomialLogP(m, k, n, p, alt) }
 		om, _, ex := m.exact()
 		scan := ex && om != onesample.Central
-		lo, hi, ok := invert(lp, math.Log(1-lvl), r.Estimate, alt, scan)
+		lo, hi, gaps, ok := invert(lp, math.Log(1-lvl), r.Estimate, alt, scan)
 		if !ok {
 			r.Warnings = append(r.Warnings, "no null value is accepted at this level: the interval is empty")
-		} else if scan && alt == TwoSided {
-			r.Warnings = append(r.Warnings, "the set of p0 this test accepts may have gaps; the interval is its hull")
+		} else if gaps {
+			r.Warnings = append(r.Warnings, "the set of p0 this test accepts has gaps; the interval is its hull, and some p0 inside it are rejected")
 		}
 		r.Interval = &Interval{Lower: lo, Upper: hi, Level: lvl}
 	}

@@ -23,9 +23,10 @@ const invertGrid = 100
 // invertGrid points equally spaced in arcsin(sqrt(p)), and the first
 // accepted grid point is refined by bisection against its rejected
 // neighbour; an accepted island narrower than the grid spacing lying
-// outside the first accepted grid point can be missed. ok is false when no
-// null value is accepted (possible only for mid-p tests at large alpha).
-func invert(lp func(float64) float64, la, phat float64, alt Alternative, scan bool) (lo, hi float64, ok bool) {
+// outside the first accepted grid point can be missed; gaps reports a
+// rejected grid point inside [lo, hi]. ok is false when no null value is
+// accepted (possible only for mid-p tests at large alpha).
+func invert(lp func(float64) float64, la, phat float64, alt Alternative, scan bool) (lo, hi float64, gaps, ok bool) {
 	acc := func(p float64) bool { return lp(p) >= la }
 	rej := func(p float64) bool { return lp(p) < la }
 	if !acc(phat) {
@@ -46,15 +47,17 @@ func invert(lp func(float64) float64, la, phat float64, alt Alternative, scan bo
 				if i == invertGrid {
 					g = phat
 				}
-				if acc(g) {
+				if !found && acc(g) {
 					lo = root.Bisect(acc, prev, g, rel, abs)
 					found = true
+				} else if found && !acc(g) {
+					gaps = true
 					break
 				}
 				prev = g
 			}
 			if !found {
-				return math.NaN(), math.NaN(), false
+				return math.NaN(), math.NaN(), false, false
 			}
 		}
 	}
@@ -71,17 +74,19 @@ func invert(lp func(float64) float64, la, phat float64, alt Alternative, scan bo
 				if i == invertGrid {
 					g = phat
 				}
-				if acc(g) {
+				if !found && acc(g) {
 					hi = root.Bisect(rej, g, prev, rel, abs)
 					found = true
+				} else if found && !acc(g) {
+					gaps = true
 					break
 				}
 				prev = g
 			}
 			if !found {
-				return math.NaN(), math.NaN(), false
+				return math.NaN(), math.NaN(), false, false
 			}
 		}
 	}
-	return lo, hi, true
+	return lo, hi, gaps, true
 }

@@ -349,7 +349,7 @@ func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64,
 	if g := opt.BergerBoos; g > 0 {
 		s, n := k1+k2, n1+n2
 		lp := func(p float64) float64 { return binomialLogP(ExactCentral, s, n, p, TwoSided) }
-		lo, hi, _ = invert(lp, math.Log(g), float64(s)/float64(n), TwoSided, false)
+		lo, hi, _, _ = invert(lp, math.Log(g), float64(s)/float64(n), TwoSided, false)
 		method += " (Berger-Boos)"
 	}
 	lp, at, err := reg.supremum(ctx, fn, lo, hi)
