@@ -90,10 +90,17 @@ type WorstPrecision struct {
 // eps)) stay fixed, P(kmin <= X <= kmax) is unimodal in p, so the infimum
 // is a one-sided limit at an end of such an interval: p = j/n - eps
 // approached from below (kmax drops to j - 1) or p = k/n + eps from above
-// (kmin rises to k + 1). By symmetry only p <= 1/2 is examined. Cost:
-// O(n) range probabilities.
-func worstWithin(ctx context.Context, fn string, n int64, eps float64) (WorstPrecision, error) {
+// (kmin rises to k + 1). By symmetry only p <= 1/2 is examined. The
+// candidates are taken outward from p = 1/2 and the scan stops as soon as
+// the infimum is below stopBelow (the value returned is then an upper
+// bound that already misses it). Cost: O(n) range probabilities for an n
+// that passes, usually a few for one that fails.
+func worstWithin(ctx context.Context, fn string, n int64, eps, stopBelow float64) (WorstPrecision, error) {
 	w := WorstPrecision{N: n, Prob: 1, WorstP: 0.5}
+	// p = 1/2 itself first: the worst case is usually next to it.
+	if v := (binom.Dist{N: n, P: 0.5}).ProportionWithin(eps); v < w.Prob {
+		w.Prob = v
+	}
 	fn64 := float64(n)
 	ceilTol := func(x float64) int64 { // ceil with integers within 1e-9 kept
 		r := math.Round(x)
@@ -122,24 +129,31 @@ func worstWithin(ctx context.Context, fn string, n int64, eps float64) (WorstPre
 			w.Prob, w.WorstP = v, p
 		}
 	}
-	for j := int64(0); j <= n+1; j++ {
-		if j&1023 == 0 {
+	// Candidates in order of distance from p = 1/2, so that an n that
+	// misses stopBelow is usually rejected after a few of them.
+	ja := int64(math.Round(fn64 * (0.5 + eps))) // p = ja/n - eps near 1/2
+	jb := int64(math.Round(fn64 * (0.5 - eps))) // p = jb/n + eps near 1/2
+	for t := int64(0); t <= n+2; t++ {
+		if t&255 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return w, err
 			}
 		}
-		// p = j/n - eps from below: kmax = j - 1.
-		p := float64(j)/fn64 - eps
-		try(p, ceilTol(fn64*(p-eps)), j-1)
-		// p = j/n + eps from above: kmin = j + 1.
-		p = float64(j)/fn64 + eps
-		try(p, j+1, floorTol(fn64*(p+eps)))
-	}
-	// The interior maximum region cannot hold the infimum; p = 1/2 itself
-	// is included as a candidate for completeness.
-	d := binom.Dist{N: n, P: 0.5}
-	if v := d.ProportionWithin(eps); v < w.Prob {
-		w.Prob, w.WorstP = v, 0.5
+		for _, j := range [2]int64{ja - t, ja + t + 1} {
+			if j >= 0 && j <= n+1 { // p = j/n - eps from below: kmax = j - 1
+				p := float64(j)/fn64 - eps
+				try(p, ceilTol(fn64*(p-eps)), j-1)
+			}
+		}
+		for _, j := range [2]int64{jb - t, jb + t + 1} {
+			if j >= 0 && j <= n+1 { // p = j/n + eps from above: kmin = j + 1
+				p := float64(j)/fn64 + eps
+				try(p, j+1, floorTol(fn64*(p+eps)))
+			}
+		}
+		if w.Prob < stopBelow {
+			break
+		}
 	}
 	return w, nil
 }
@@ -149,8 +163,10 @@ func worstWithin(ctx context.Context, fn string, n int64, eps float64) (WorstPre
 // the proportion (the infimum over p described on WorstPrecision). The
 // worst case is a sawtooth in n as well; the result gives the first and
 // the stable n as OneSampleN does, with Curve holding the worst-case
-// probability per n. Each n costs O(n) range probabilities, so the scan
-// starts at n = max(1, floor(N/2)), N the common-practice worst-case
+// probability per n (for an n that misses the target, the first
+// candidate value found below it). An n that reaches the target costs O(n)
+// range probabilities, so the scan starts at n = max(1, floor(N/2)), N the
+// common-practice worst-case
 // margin-of-error size at p = 1/2 (smaller n are not examined), and the
 // limit is o.MaxN (default DefaultMaxWorstN, at most MaxWorstN).
 // Example (invented planning question): eps = 0.1 at 95% needs the
@@ -170,7 +186,7 @@ func WorstPrecisionN(ctx context.Context, eps float64, o PrecisionOptions) (Exac
 		return ExactSize{}, argerr.NoSolution(fn, "the margin-of-error size "+argerr.Format(n0)+" is beyond twice MaxN = "+argerr.Format(limit))
 	}
 	worst := func(n int64) (float64, error) {
-		w, err := worstWithin(ctx, fn, n, eps)
+		w, err := worstWithin(ctx, fn, n, eps, target)
 		return w.Prob, err
 	}
 	res, err := scanStable(ctx, fn, scan{start: start, maxN: limit, target: target,

@@ -25,7 +25,7 @@ func TestPrecisionGolden(t *testing.T) {
 			curves[r[1]] = append(curves[r[1]], atof(t, r[3]))
 		case "worst":
 			eps, n := atof(t, r[1]), atoi(t, r[2])
-			w, err := worstWithin(ctx, "test", n, eps)
+			w, err := worstWithin(ctx, "test", n, eps, -1)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -79,7 +79,7 @@ func TestWorstPrecisionN(t *testing.T) {
 	if r.Stable < r.First || r.Stable > r.Horizon {
 		t.Errorf("stable %d outside [%d, %d]", r.Stable, r.First, r.Horizon)
 	}
-	w, err := worstWithin(context.Background(), "test", r.First-1, 0.1)
+	w, err := worstWithin(context.Background(), "test", r.First-1, 0.1, -1)
 	if err != nil {
 		t.Fatal(err)
 	}
