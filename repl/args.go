@@ -226,3 +226,19 @@ func (a *Args) Need(names ...string) error {
 	}
 	return nil
 }
+
+// Counts reads the named options, all required, as whole numbers >= 0.
+func (a *Args) Counts(names ...string) ([]int64, error) {
+	if err := a.Need(names...); err != nil {
+		return nil, err
+	}
+	out := make([]int64, len(names))
+	for i, name := range names {
+		v, err := a.Count(name, 0)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = v
+	}
+	return out, nil
+}

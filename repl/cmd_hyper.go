@@ -65,31 +65,30 @@ type urnDist interface {
 	ProbRange(a, b int64) float64
 }
 
+// urnArgs reads total=, marked= and draws=, checking that neither count
+// exceeds the total.
+func urnArgs(a *Args) (total, marked, draws int64, err error) {
+	v, err := a.Counts("total", "marked", "draws")
+	if err != nil {
+		return 0, 0, 0, err
+	}
+	total, marked, draws = v[0], v[1], v[2]
+	for i, name := range []string{"marked", "draws"} {
+		if v[i+1] > total {
+			return 0, 0, 0, inputErr(name+"="+a.Str(name, ""), "exceeds total = "+count(total))
+		}
+	}
+	return total, marked, draws, nil
+}
+
 func runUrn(c *Call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err
 	}
-	if err := a.Need("total", "marked", "draws"); err != nil {
-		return err
-	}
-	total, err := a.Count("total", 0)
+	total, marked, draws, err := urnArgs(a)
 	if err != nil {
 		return err
-	}
-	marked, err := a.Count("marked", 0)
-	if err != nil {
-		return err
-	}
-	draws, err := a.Count("draws", 0)
-	if err != nil {
-		return err
-	}
-	if marked > total {
-		return inputErr("marked="+a.Str("marked", ""), "exceeds total = "+count(total))
-	}
-	if draws > total {
-		return inputErr("draws="+a.Str("draws", ""), "exceeds total = "+count(total))
 	}
 	var h urnDist
 	var odds *float64

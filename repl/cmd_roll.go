@@ -70,18 +70,7 @@ func runRoll(c *Call) error {
 	var mean, sd float64
 	var title string
 	if a.Has("total") || a.Has("marked") || a.Has("draws") {
-		if err := a.Need("total", "marked", "draws"); err != nil {
-			return err
-		}
-		total, err := a.Count("total", 0)
-		if err != nil {
-			return err
-		}
-		marked, err := a.Count("marked", 0)
-		if err != nil {
-			return err
-		}
-		draws, err := a.Count("draws", 0)
+		total, marked, draws, err := urnArgs(a)
 		if err != nil {
 			return err
 		}
