@@ -1,10 +1,8 @@
 package binom
 
 import (
-	"bufio"
 	"errors"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -88,19 +86,9 @@ func TestMoments(t *testing.T) {
 // testdata/gen/binom_extra_entropy.py).
 func TestEntropyGolden(t *testing.T) {
 	t.Parallel()
-	f, err := os.Open("../testdata/binom_extra_entropy.tsv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
 	rows := 0
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || line == "" {
-			continue
-		}
-		fs := strings.Split(line, "\t")
+	for _, fs := range goldenRows(t, "binom_extra_entropy.tsv") {
+		line := strings.Join(fs, "\t")
 		want, err := strconv.ParseFloat(fs[4], 64)
 		if err != nil {
 			t.Fatal(err)

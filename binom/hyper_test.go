@@ -59,41 +59,50 @@ type hyperRow struct {
 	lp, lcdf, lsur float64
 }
 
-func readHyperGolden(t *testing.T) []hyperRow {
+// goldenRows returns the tab-separated fields of each data line of the
+// golden file testdata/<name> (comment lines start with #).
+func goldenRows(t *testing.T, name string) [][]string {
 	t.Helper()
-	f, err := os.Open("../testdata/hyper_golden.tsv")
+	f, err := os.Open("../testdata/" + name)
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer f.Close()
-	var rows []hyperRow
+	var rows [][]string
 	sc := bufio.NewScanner(f)
 	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || line == "" {
-			continue
+		if line := sc.Text(); line != "" && !strings.HasPrefix(line, "#") {
+			rows = append(rows, strings.Split(line, "\t"))
 		}
-		fs := strings.Split(line, "\t")
-		if len(fs) != 7 {
-			t.Fatalf("bad golden line %q", line)
-		}
-		var r hyperRow
-		ints := []*int64{&r.N, &r.K, &r.n, &r.x}
-		for i, p := range ints {
-			if *p, err = strconv.ParseInt(fs[i], 10, 64); err != nil {
-				t.Fatal(err)
-			}
-		}
-		fl := []*float64{&r.lp, &r.lcdf, &r.lsur}
-		for i, p := range fl {
-			if *p, err = strconv.ParseFloat(fs[4+i], 64); err != nil {
-				t.Fatal(err)
-			}
-		}
-		rows = append(rows, r)
 	}
 	if err := sc.Err(); err != nil {
 		t.Fatal(err)
+	}
+	return rows
+}
+
+// parseFloats parses every field as a float64 (integers included).
+func parseFloats(t *testing.T, fs []string) []float64 {
+	t.Helper()
+	v := make([]float64, len(fs))
+	for i, s := range fs {
+		var err error
+		if v[i], err = strconv.ParseFloat(s, 64); err != nil {
+			t.Fatalf("field %q: %v", s, err)
+		}
+	}
+	return v
+}
+
+func readHyperGolden(t *testing.T) []hyperRow {
+	t.Helper()
+	var rows []hyperRow
+	for _, fs := range goldenRows(t, "hyper_golden.tsv") {
+		if len(fs) != 7 {
+			t.Fatalf("bad golden line %q", fs)
+		}
+		v := parseFloats(t, fs)
+		rows = append(rows, hyperRow{int64(v[0]), int64(v[1]), int64(v[2]), int64(v[3]), v[4], v[5], v[6]})
 	}
 	return rows
 }

@@ -1,12 +1,8 @@
 package binom
 
 import (
-	"bufio"
 	"errors"
 	"math"
-	"os"
-	"strconv"
-	"strings"
 	"testing"
 )
 
@@ -40,25 +36,9 @@ func TestNewNoncentralHyperRejects(t *testing.T) {
 func TestNoncentralGolden(t *testing.T) {
 	t.Parallel()
 	const tol = 2e-14
-	f, err := os.Open("../testdata/binom_extra_noncentral.tsv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
 	rows := 0
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || line == "" {
-			continue
-		}
-		fs := strings.Split(line, "\t")
-		num := make([]float64, len(fs)-1)
-		for i, s := range fs[1:] {
-			if num[i], err = strconv.ParseFloat(s, 64); err != nil {
-				t.Fatalf("%q: %v", line, err)
-			}
-		}
+	for _, fs := range goldenRows(t, "binom_extra_noncentral.tsv") {
+		num := parseFloats(t, fs[1:])
 		d, err := NewNoncentralHyper(int64(num[0]), int64(num[1]), int64(num[2]), num[3])
 		if err != nil {
 			t.Fatal(err)

@@ -1,11 +1,8 @@
 package binom
 
 import (
-	"bufio"
 	"math"
-	"os"
 	"strconv"
-	"strings"
 	"testing"
 )
 
@@ -60,25 +57,9 @@ func TestProportionWithinSpecial(t *testing.T) {
 // testdata/gen/binom_extra_within.py).
 func TestProportionWithinGolden(t *testing.T) {
 	t.Parallel()
-	f, err := os.Open("../testdata/binom_extra_within.tsv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
 	rows := 0
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || line == "" {
-			continue
-		}
-		fs := strings.Split(line, "\t")
-		v := make([]float64, len(fs))
-		for i, s := range fs {
-			if v[i], err = strconv.ParseFloat(s, 64); err != nil {
-				t.Fatalf("%q: %v", line, err)
-			}
-		}
+	for _, fs := range goldenRows(t, "binom_extra_within.tsv") {
+		v := parseFloats(t, fs)
 		rows++
 		n := int64(v[0])
 		d, err := New(n, v[1])
