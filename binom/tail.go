@@ -27,7 +27,7 @@ func (d Dist) logLower(k int64) float64 {
 	}
 	n := float64(d.N)
 	qp := (1 - d.P) / d.P
-	return d.LogProb(k) + math.Log(termSum(float64(k), n+1, qp, -1))
+	return d.LogProb(k) + math.Log(termSum(float64(k), n+1, qp))
 }
 
 // logUpper returns ln P(X > k) for 0 <= k < N and 0 < P < 1 on the side
@@ -43,15 +43,15 @@ func (d Dist) logUpper(k int64) float64 {
 	}
 	n := float64(d.N)
 	pq := d.P / (1 - d.P)
-	return d.LogProb(k+1) + math.Log(termSum(n-float64(k+1), n+1, pq, -1))
+	return d.LogProb(k+1) + math.Log(termSum(n-float64(k+1), n+1, pq))
 }
 
 // termSum returns 1 + r_j + r_j r_{j-1} + ... with r_i = i c / (m - i),
 // for i = j, j-1, ..., 1, stopped when a term no longer changes the sum
 // (the ratios fall, so the rest is smaller still). The lower tail sum is
 // termSum(k, N+1, (1-P)/P); the upper one, by the symmetry k -> N-k, is
-// termSum(N-k-1, N+1, P/(1-P)). The last argument is unused.
-func termSum(j, m, c float64, _ int) float64 {
+// termSum(N-k-1, N+1, P/(1-P)).
+func termSum(j, m, c float64) float64 {
 	sum, t := 1.0, 1.0
 	for i := j; i >= 1; i-- {
 		t *= i * c / (m - i)

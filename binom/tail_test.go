@@ -195,3 +195,56 @@ func TestFarTails(t *testing.T) {
 		}
 	}
 }
+
+// TestProbRange compares ranges with sums of independently computed PMF
+// values (each LogProb on its own, no recurrence): narrow and wide ranges
+// in the bulk of wide distributions, where a difference of tails would
+// cancel, ranges in the tails and across the mean, and the edge cases.
+func TestProbRange(t *testing.T) {
+	t.Parallel()
+	for _, d := range []Dist{{1e12, 0.3}, {1e9, 0.5}, {123457, 0.02}, {60, 0.5}, {1e12, 1e-9}} {
+		mean, sd := d.Mean(), d.StdDev()
+		c := int64(mean)
+		for _, r := range [][2]int64{
+			{c, c + 1}, {c - 3, c + 3}, {c - 300, c + 700}, {c + int64(3*sd), c + int64(3*sd) + 40},
+			{c - int64(5*sd) - 10, c - int64(5*sd)}, {c - int64(sd), c + int64(sd)},
+		} {
+			lo, hi := max(r[0], 0), min(r[1], d.N)
+			if hi-lo > 5000 {
+				continue
+			}
+			want := math.Inf(-1)
+			for j := lo; j <= hi; j++ {
+				want = logAddExp2(want, d.LogProb(j))
+			}
+			got := d.LogProbRange(lo, hi)
+			if e := logErr(got, want); e > 1e-14 {
+				t.Errorf("%v.LogProbRange(%d, %d) = %v, sum of PMF %v (error %.3g)", d, lo, hi, got, want, e)
+			}
+			if p, w := d.ProbRange(lo, hi), math.Exp(want); math.Abs(p-w) > 1e-14*w {
+				t.Errorf("%v.ProbRange(%d, %d) = %v, sum of PMF exp(%v)", d, lo, hi, p, want)
+			}
+		}
+	}
+	d := Dist{100, 0.3}
+	tests := []struct {
+		name string
+		got  float64
+		want float64
+	}{
+		{"whole support", d.LogProbRange(0, 100), 0},
+		{"clamped whole", d.LogProbRange(-5, 500), 0},
+		{"empty", d.LogProbRange(10, 9), math.Inf(-1)},
+		{"outside", d.LogProbRange(101, 200), math.Inf(-1)},
+		{"lower tail", d.LogProbRange(-3, 20), d.LogCDF(20)},
+		{"upper tail", d.LogProbRange(41, 100), d.LogSurvival(40)},
+		{"single", d.LogProbRange(30, 30), d.LogProb(30)},
+		{"P = 0 inside", Dist{10, 0}.LogProbRange(1, 5), math.Inf(-1)},
+		{"P = 1 at N", Dist{10, 1}.LogProbRange(5, 10), 0},
+	}
+	for _, tc := range tests {
+		if tc.got != tc.want && logErr(tc.got, tc.want) > 1e-15 {
+			t.Errorf("%s: %v, want %v", tc.name, tc.got, tc.want)
+		}
+	}
+}
