@@ -57,3 +57,15 @@ func ExampleAssuranceN() {
 	// Output:
 	// n 353, P(half-width <= 0.05) = 0.812
 }
+
+// Invented scenario: how badly can 385 trials miss by more than 5 points?
+func ExampleWorstPrecisionAt() {
+	w, err := power.WorstPrecisionAt(context.Background(), 385, 0.05)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("worst P(|k/n - p| <= 0.05) = %.4f near p = %.3f\n", w.Prob, w.WorstP)
+	// Output:
+	// worst P(|k/n - p| <= 0.05) = 0.9473 near p = 0.499
+}

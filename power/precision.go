@@ -6,6 +6,7 @@ import (
 
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/jsonfloat"
 )
 
 // PrecisionOptions configures PrecisionN and WorstPrecisionN. The zero
@@ -83,6 +84,12 @@ type WorstPrecision struct {
 	// WorstP is the p (at most 1/2; 1 - WorstP is as bad) where it is
 	// approached.
 	WorstP float64 `json:"worst_p"`
+}
+
+// MarshalJSON encodes the result with non-finite floats as strings.
+func (w WorstPrecision) MarshalJSON() ([]byte, error) {
+	type plain WorstPrecision
+	return jsonfloat.Marshal(plain(w))
 }
 
 // worstWithin returns the infimum over p of P(|X/n - p| <= eps). For p in
@@ -197,4 +204,23 @@ func WorstPrecisionN(ctx context.Context, eps float64, o PrecisionOptions) (Exac
 	res.Test = "exact worst-case P(|k/n - p| <= eps)"
 	res.Normal = NormalSize{Method: "margin of error at p = 1/2 (common practice)", N: n0, Real: float64(n0), Uncorrected: float64(n0), Power: math.NaN()}
 	return res, nil
+}
+
+// WorstPrecisionAt returns, for n trials, the infimum over the true
+// proportion p of P(|X/n - p| <= eps) and the p where it is approached
+// (see WorstPrecision for the method). Domain: n >= 1, at most MaxWorstN
+// (each call costs O(n) range probabilities); 0 < eps < 0.5. ctx is
+// checked during the scan.
+func WorstPrecisionAt(ctx context.Context, n int64, eps float64) (WorstPrecision, error) {
+	const fn = "power.WorstPrecisionAt"
+	if n < 1 {
+		return WorstPrecision{}, argerr.Invalid(fn, "n", n, "must be at least 1")
+	}
+	if n > MaxWorstN {
+		return WorstPrecision{}, argerr.TooLarge(fn, "n", n, "exceeds MaxWorstN = "+argerr.Format(MaxWorstN))
+	}
+	if !(eps > 0 && eps < 0.5) {
+		return WorstPrecision{}, argerr.Invalid(fn, "eps", eps, "must lie in (0, 0.5)")
+	}
+	return worstWithin(ctx, fn, n, eps, -1)
 }
