@@ -176,3 +176,23 @@ func TestUnconditionalLimits(t *testing.T) {
 		t.Errorf("BergerBoos 0.6: %v", err)
 	}
 }
+
+// TestBergerBoosBounds: the Berger-Boos p-value lies between gamma and the
+// unrestricted p-value plus gamma (Berger and Boos 1994), and its
+// supremum is attained inside the Clopper-Pearson interval.
+func TestBergerBoosBounds(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	for _, c := range [][4]int64{{7, 15, 12, 15}, {0, 30, 15, 25}, {40, 100, 55, 100}, {3, 10, 3, 10}} {
+		for _, a := range []Alternative{TwoSided, Less, Greater} {
+			full, _ := Barnard(ctx, c[0], c[1], c[2], c[3], UnconditionalOptions{Alternative: a})
+			bb, err := Barnard(ctx, c[0], c[1], c[2], c[3], UnconditionalOptions{Alternative: a, BergerBoos: 0.001})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if bb.PValue < 0.001 || bb.PValue > math.Min(1, full.PValue+0.001)*(1+1e-12) {
+				t.Errorf("%v %v: Berger-Boos p = %v, unrestricted %v", c, a, bb.PValue, full.PValue)
+			}
+		}
+	}
+}
