@@ -104,3 +104,20 @@ func FuzzPlans(f *testing.F) {
 		checkFuzz(t, "DemonstratedReliability", err, rl)
 	})
 }
+
+func FuzzPrecision(f *testing.F) {
+	f.Add(0.3, 0.1, 0.95, int64(50))
+	f.Add(0.999, 0.001, 0.5, int64(1))
+	f.Fuzz(func(t *testing.T, p, eps, target float64, n int64) {
+		ctx := context.Background()
+		r, err := PrecisionN(ctx, p, eps, PrecisionOptions{Target: target, MaxN: 2000})
+		checkFuzz(t, "PrecisionN", err, r.FirstPower)
+		w, err := WorstPrecisionAt(ctx, n%3000, eps)
+		checkFuzz(t, "WorstPrecisionAt", err, w.Prob)
+		if err == nil && w.Prob > 1 {
+			t.Fatalf("probability %v", w.Prob)
+		}
+		mo, err := MarginOfErrorN(p, eps, target)
+		checkFuzz(t, "MarginOfErrorN", err, float64(mo))
+	})
+}
