@@ -174,7 +174,8 @@ type ExactSize struct {
 	// 100) (capped at MaxN), extended by doubling while the last n below
 	// Target lies in the upper half of [First, Horizon].
 	Horizon int64 `json:"horizon"`
-	// Size is the attained size at Stable (at First when Stable is 0).
+	// Size is the attained size at Stable (at First when Stable is 0); 0
+	// for the precision planners, which involve no test.
 	Size float64 `json:"size"`
 	// Normal is the normal-approximation size for comparison.
 	Normal NormalSize `json:"normal"`
