@@ -66,10 +66,20 @@ func Main(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 	if term {
 		stop() // the interactive loop handles Ctrl-C itself
-		off := *noHist || os.Getenv("KOFN_NO_HISTORY") != ""
-		return interactive(s, stdin, !off)
+		return interactive(s, stdin, historyOn(*noHist))
 	}
 	return status(s.RunLines(ctx, stdin, true))
+}
+
+// historyOn reports whether the interactive shell keeps a history file:
+// not with -no-history, nor when KOFN_NO_HISTORY is set to anything but
+// "" or "0".
+func historyOn(noHistoryFlag bool) bool {
+	if noHistoryFlag {
+		return false
+	}
+	v := os.Getenv("KOFN_NO_HISTORY")
+	return v == "" || v == "0"
 }
 
 func status(failed int) int {

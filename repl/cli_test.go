@@ -94,3 +94,16 @@ func TestHistoryFileMode(t *testing.T) {
 		t.Errorf("historyPath() = %q, want %q", got, want)
 	}
 }
+
+func TestHistoryCanBeTurnedOff(t *testing.T) {
+	t.Setenv("KOFN_NO_HISTORY", "")
+	if !historyOn(false) || historyOn(true) {
+		t.Errorf("flag: historyOn(false) = %v, historyOn(true) = %v", historyOn(false), historyOn(true))
+	}
+	for v, want := range map[string]bool{"1": false, "yes": false, "0": true} {
+		t.Setenv("KOFN_NO_HISTORY", v)
+		if got := historyOn(false); got != want {
+			t.Errorf("KOFN_NO_HISTORY=%q: history on = %v, want %v", v, got, want)
+		}
+	}
+}
