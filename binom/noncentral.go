@@ -158,7 +158,9 @@ func (d NoncentralHyper) weights(visit func(j int64, t float64)) hyperWeights {
 		p2 = (float64(n-m) + 0.5) / (float64(N-K) + 1)
 		p1 = psi * p2 / (psi*p2 + (1 - p2))
 	}
-	if p1 > 0 && p1 < 1 && p2 > 0 && p2 < 1 {
+	// Far from the normal range (psi beyond about 1e+-290) the plain form
+	// below serves: the distribution is then a near point mass.
+	if p1 >= 1e-290 && p1 < 1 && p2 >= 1e-290 && p2 < 1 {
 		w.tilt, w.p1, w.p2, w.delta = true, p1, p2, logOddsResidual(psi, p1, p2)
 	}
 	lo, hi := h.Support()

@@ -94,10 +94,15 @@ func TestNoncentralLimits(t *testing.T) {
 	}
 	// Mean increases with psi (monotonicity the conditional MLE relies on).
 	prev := math.Inf(-1)
-	for _, psi := range []float64{1e-300, 1e-10, 0.01, 0.5, 0.99, 1, 1.01, 3, 1e5, 1e300} {
+	for _, psi := range []float64{5e-324, 1e-310, 1e-300, 1e-10, 0.01, 0.5, 0.99, 1, 1.01, 3, 1e5, 1e300, math.MaxFloat64} {
 		d.OddsRatio = psi
 		m := d.Mean()
-		if !(m > prev) || m < 4 || m > 15 {
+		for _, v := range []float64{d.LogProb(10), d.LogCDF(10), d.LogSurvival(10), d.Variance()} {
+			if math.IsNaN(v) {
+				t.Errorf("psi = %g: NaN", psi)
+			}
+		}
+		if !(m >= prev) || m < 4 || m > 15 { // increasing; ties where m rounds to an end
 			t.Errorf("Mean(psi = %g) = %g after %g", psi, m, prev)
 		}
 		prev = m
