@@ -34,6 +34,15 @@ var stirlerrTable = [16]float64{
 // 1/(12n) - 1/(360n^3) + 1/(1260n^5) - 1/(1680n^7) + 1/(1188n^9), truncated
 // where the next term is below 1e-17 relative (Loader 2000, section 2).
 func stirlerr(n float64) float64 {
+	if n <= 15 {
+		return stirlerrTable[int(n)]
+	}
+	return stirlerrSeries(n, 1/n)
+}
+
+// stirlerrSeries is stirlerr for n > 15 given r = 1/n, so that callers can
+// share one division among several arguments.
+func stirlerrSeries(n, r float64) float64 {
 	const (
 		s0 = 1.0 / 12
 		s1 = 1.0 / 360
@@ -41,10 +50,6 @@ func stirlerr(n float64) float64 {
 		s3 = 1.0 / 1680
 		s4 = 1.0 / 1188
 	)
-	if n <= 15 {
-		return stirlerrTable[int(n)]
-	}
-	r := 1 / n
 	rr := r * r
 	switch {
 	case n > 500:
@@ -90,14 +95,8 @@ func bd0(x, mHi, mLo float64) float64 {
 		}
 		return s
 	}
-	return x*math.Log(x/mHi) + mHi - x + mLo*(1-x/mHi)
-}
-
-// means returns N P and N (1-P) as compensated sums hi + lo, so the
-// rounding of the products does not reach the far tails (at N = 1e9 a
-// plain N*P already costs 1e-10 relative there).
-func (d Dist) means() (npHi, npLo, nqHi, nqLo float64) {
-	return compMeans(float64(d.N), d.P)
+	r := x / mHi
+	return x*math.Log(r) + mHi - x + mLo*(1-r)
 }
 
 // compMeans returns m p and m (1-p) as unevaluated sums hi + lo, accurate
@@ -156,13 +155,23 @@ func (d Dist) LogProb(k int64) float64 {
 	case k == n:
 		return float64(n) * math.Log(p)
 	}
-	npHi, npLo, nqHi, nqLo := d.means()
 	fk, fn := float64(k), float64(n)
 	fnk := float64(n - k)
-	lc := stirlerr(fn) - stirlerr(fk) - stirlerr(fnk) - bd0(fk, npHi, npLo) - bd0(fnk, nqHi, nqLo)
+	npHi, npLo, nqHi, nqLo := compMeans(fn, p)
+	var lc, rn float64 // rn = 1/N
+	if fk > 15 && fnk > 15 {
+		// One division for the three reciprocals the Stirling terms need.
+		r := 1 / (fk * fnk * fn)
+		rn = r * fk * fnk
+		lc = stirlerrSeries(fn, rn) - stirlerrSeries(fk, r*fnk*fn) - stirlerrSeries(fnk, r*fk*fn)
+	} else {
+		rn = 1 / fn
+		lc = stirlerr(fn) - stirlerr(fk) - stirlerr(fnk)
+	}
+	lc -= bd0(fk, npHi, npLo) + bd0(fnk, nqHi, nqLo)
 	// ln(2 pi k (N-k)/N) as one logarithm; (N-k)/N is formed from the
 	// exact N-k, so nothing cancels at k near N.
-	return lc - 0.5*math.Log(2*math.Pi*fk*(fnk/fn))
+	return lc - 0.5*math.Log(2*math.Pi*fk*(fnk*rn))
 }
 
 // Prob returns P(X = k) = exp(LogProb(k)): 0 outside 0..N.

@@ -143,9 +143,11 @@ func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
 	// A lower bound on Mills' ratio Phi(-|z|)/phi(z) (Birnbaum 1942) sets
 	// the truncation: terms below 1e-17 of it no longer count.
 	tol := 2e-17 / (az + math.Sqrt(az*az+4))
-	w := (fb - fa) / math.Sqrt(fa*fb*mu) // omega mu^(-1/2)
+	// One division for every reciprocal below (a, b, mu >= 25).
+	rab := 1 / (fa * fb * mu)
+	e := rab * fa * fb              // mu^(-1)
+	w := (fb - fa) * math.Sqrt(rab) // omega mu^(-1/2) = (b-a)/sqrt(a b mu)
 	w2 := w * w
-	e := 1 / mu // mu^(-1)
 	var epow [temmeOrder/2 + 1]float64
 	epow[0] = 1
 	// S = sum_j G_j P_j(z), G_j = g_j(omega) mu^(-j/2)
@@ -185,7 +187,7 @@ func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
 	}
 	// D = Gamma*(a) Gamma*(b) / Gamma*(mu) = e^x with |x| < 0.007 (a, b >=
 	// 25): Taylor to x^6 is exact to 1e-19.
-	x := stirlerr(fa) + stirlerr(fb) - stirlerr(mu)
+	x := stirlerrSeries(fa, rab*fb*mu) + stirlerrSeries(fb, rab*fa*mu) - stirlerrSeries(mu, e)
 	dd := 1 + x*(1+x/2*(1+x/3*(1+x/4*(1+x/5*(1+x/6)))))
 	corr := s / dd
 	if lower {
