@@ -40,6 +40,7 @@ var eachCmd = &Command{
 			"it is not all numbers; the count columns are then found by name (k,n for one group; k1,n1,k2,n2 " +
 			"for two; a,b,c,d for pairs), and other columns pass through; without a header the counts are " +
 			"the first columns. A row that fails does not stop the run, but the command reports failure. " +
+			"The output is CSV whatever the json setting; numbers are written in full precision. " +
 			"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
 			"input: kofn -c 'each - check p=0.3' < visits.csv.",
 		Methods:     "", // filled with the row verbs once all are registered

@@ -407,24 +407,31 @@ func runDetect(c *Call) error {
 	return nil
 }
 
-// powerPlot draws power against n as bars, one column per n (every k-th n
-// when the range is wider than the plot), with a reference line at target.
+// powerPlot draws power against n as bars, one column per n; when the
+// range is wider than the plot, each column shows the lowest power of the
+// sizes it covers (so the dips of the sawtooth stay visible), with a
+// reference line at target and optional marks under the axis.
 func powerPlot(s *Session, curve []power.NPower, target float64, what string, marks ...int64) string {
 	cols := s.plotColumns(6)
 	step := max(1, (len(curve)+cols-1)/cols)
 	var xs, ys []float64
 	lo, hi := 1.0, 0.0
 	for i := 0; i < len(curve); i += step {
+		m := math.Inf(1)
+		for _, pt := range curve[i:min(i+step, len(curve))] {
+			m = math.Min(m, pt.Power)
+			hi = math.Max(hi, pt.Power)
+		}
 		xs = append(xs, float64(curve[i].N))
-		ys = append(ys, curve[i].Power)
-		lo, hi = math.Min(lo, curve[i].Power), math.Max(hi, curve[i].Power)
+		ys = append(ys, m)
+		lo = math.Min(lo, m)
 	}
 	yLo, yHi := niceRange(math.Min(lo, target), math.Max(hi, target), 0.1, 0, 1)
 	label := "n"
 	if step > 1 {
-		label = "n (one column per " + count(int64(step)) + " sizes; narrow the range to see each)"
+		label = "n (" + count(int64(step)) + " sizes per column, the lowest shown)"
 	}
-	ch := chart{xs: xs, series: []series{{"power", ys}}, yLo: yLo, yHi: yHi, ref: target, height: 10,
+	ch := chart{xs: xs, series: []series{{what, ys}}, yLo: yLo, yHi: yHi, ref: target, height: 10,
 		ascii: s.Set.ASCII, width: s.Set.Width, digits: 2, xLabel: label}
 	if len(marks) == 2 {
 		ch.marks = []float64{float64(marks[0]), float64(marks[1])}
