@@ -1,6 +1,7 @@
 package power
 
 import (
+	"context"
 	"errors"
 	"math"
 	"testing"
@@ -76,5 +77,37 @@ func TestAcceptanceErrors(t *testing.T) {
 	}
 	if _, err := Rectify(Plan{10, 1}, 5, 0.1); !errors.Is(err, ErrInvalidArgument) {
 		t.Errorf("lot below n accepted")
+	}
+}
+
+// Finite-lot design: the plan meets both risks under the hypergeometric
+// OC and no smaller plan does (brute force); for a huge lot it equals the
+// binomial design.
+func TestDesignPlanLot(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	const lot = 500
+	d, err := DesignPlan(ctx, 0.01, 0.06, DesignOptions{Lot: lot})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pa := func(pl Plan, D int64) float64 { v, _ := AcceptProbLot(pl, lot, D); return v }
+	if 1-pa(d.Plan, 5) > 0.05+1e-12 || pa(d.Plan, 30) > 0.10 {
+		t.Errorf("plan %+v misses a risk: %v %v", d.Plan, 1-pa(d.Plan, 5), pa(d.Plan, 30))
+	}
+	for n := int64(1); n < d.Plan.SampleSize; n++ {
+		for c := int64(0); c < n; c++ {
+			q := Plan{SampleSize: n, AcceptNumber: c}
+			if pa(q, 30) <= 0.10 && 1-pa(q, 5) <= 0.05 {
+				t.Fatalf("smaller plan %+v meets both risks; design gave %+v", q, d.Plan)
+			}
+		}
+	}
+	big, err := DesignPlan(ctx, 0.01, 0.06, DesignOptions{Lot: 100_000_000})
+	if err != nil || big.Plan != (Plan{SampleSize: 110, AcceptNumber: 3}) {
+		t.Errorf("huge lot: %+v %v", big.Plan, err)
+	}
+	if _, err := DesignPlan(ctx, 0.01, 0.012, DesignOptions{Lot: 100}); !errors.Is(err, ErrInvalidArgument) {
+		t.Errorf("indistinguishable levels: %v", err)
 	}
 }

@@ -28,6 +28,12 @@ type DesignOptions struct {
 	ConsumerRisk float64
 	// MaxN bounds the sample size searched; 0 means DefaultMaxPlanN.
 	MaxN int64
+	// Lot, when positive, designs for isolated lots of that size with
+	// hypergeometric acceptance probabilities (type A OC): a lot at the
+	// AQL holds round(AQL Lot) defectives and one at the RQL round(RQL
+	// Lot), which must differ; the sample size is then at most Lot. 0
+	// means large lots or a process (binomial, type B OC).
+	Lot int64
 }
 
 // Candidate is the smallest sample size that meets the consumer's risk for
@@ -86,6 +92,9 @@ func (r PlanDesign) MarshalJSON() ([]byte, error) {
 // (failing the consumer's risk) or a smaller c whose producer's risk
 // already failed at n_c. Cost: O(c log n) tail evaluations.
 //
+// With o.Lot > 0 the same search runs on hypergeometric probabilities for
+// a lot of that size (Pa also falls as n grows there), capped at n = Lot.
+//
 // Domain: 0 < aql < rql < 1, risks in (0, 1). ErrNoSolution when no plan
 // with n <= MaxN meets both risks (the reason gives the closest
 // candidate); ErrTooLarge for MaxN above MaxPlanN. ctx is checked for
@@ -121,6 +130,32 @@ func DesignPlan(ctx context.Context, aql, rql float64, o DesignOptions) (PlanDes
 	if maxN > MaxPlanN {
 		return PlanDesign{}, argerr.TooLarge(fn, "MaxN", maxN, "exceeds 2^40")
 	}
+	// logAccept(p, n, c) is ln Pa and logReject ln(1 - Pa), binomial or,
+	// for a finite lot, hypergeometric.
+	logAccept := func(p float64, n, c int64) float64 { return binom.Dist{N: n, P: p}.LogCDF(c) }
+	logReject := func(p float64, n, c int64) float64 { return binom.Dist{N: n, P: p}.LogSurvival(c) }
+	if o.Lot != 0 {
+		if o.Lot < 0 || o.Lot > binom.MaxN {
+			return PlanDesign{}, argerr.Invalid(fn, "Lot", o.Lot, "must be a lot size in [1, 2^53] (0 means large lots)")
+		}
+		dq, dr := int64(math.Round(aql*float64(o.Lot))), int64(math.Round(rql*float64(o.Lot)))
+		if dr <= dq {
+			return PlanDesign{}, argerr.Invalid(fn, "Lot", o.Lot, "is too small to tell aql from rql: both round to "+argerr.Format(dq)+" defectives")
+		}
+		defectives := func(p float64) int64 {
+			if p == aql {
+				return dq
+			}
+			return dr
+		}
+		logAccept = func(p float64, n, c int64) float64 {
+			return binom.Hyper{Total: o.Lot, Successes: defectives(p), Draws: n}.LogCDF(c)
+		}
+		logReject = func(p float64, n, c int64) float64 {
+			return binom.Hyper{Total: o.Lot, Successes: defectives(p), Draws: n}.LogSurvival(c)
+		}
+		maxN = min(maxN, o.Lot)
+	}
 	lb, la := math.Log(beta), math.Log(alpha)
 	res := PlanDesign{AQL: aql, RQL: rql, ProducerRisk: alpha, ConsumerRisk: beta}
 	lo := int64(0) // n_c > lo for every c still to come
@@ -128,9 +163,12 @@ func DesignPlan(ctx context.Context, aql, rql float64, o DesignOptions) (PlanDes
 		if err := argerr.Canceled(fn, ctx); err != nil {
 			return PlanDesign{}, err
 		}
-		meetsRQL := func(n int64) bool { return binom.Dist{N: n, P: rql}.LogCDF(c) <= lb }
+		meetsRQL := func(n int64) bool { return logAccept(rql, n, c) <= lb }
 		if lo < c {
 			lo = c // n must exceed c
+		}
+		if lo >= maxN {
+			return PlanDesign{}, noPlan(fn, res, maxN)
 		}
 		hi := lo + 1
 		for !meetsRQL(hi) {
@@ -145,11 +183,11 @@ func DesignPlan(ctx context.Context, aql, rql float64, o DesignOptions) (PlanDes
 		pl := Plan{SampleSize: n, AcceptNumber: c}
 		cand := Candidate{
 			Plan:         pl,
-			ProducerRisk: binom.Dist{N: n, P: aql}.Survival(c),
-			ConsumerRisk: binom.Dist{N: n, P: rql}.CDF(c),
+			ProducerRisk: math.Exp(logReject(aql, n, c)),
+			ConsumerRisk: math.Exp(logAccept(rql, n, c)),
 		}
 		res.Candidates = append(res.Candidates, cand)
-		if (binom.Dist{N: n, P: aql}).LogSurvival(c) <= la {
+		if logReject(aql, n, c) <= la {
 			res.Plan = pl
 			res.AchievedProducerRisk, res.AchievedConsumerRisk = cand.ProducerRisk, cand.ConsumerRisk
 			return res, nil

@@ -93,7 +93,7 @@ func FuzzPlans(f *testing.F) {
 			l, err := AOQL(pl, lot)
 			checkFuzz(t, "AOQL", err, l.AOQL, l.P)
 		}
-		d, err := DesignPlan(context.Background(), p, q, DesignOptions{ProducerRisk: a, ConsumerRisk: b, MaxN: 5000})
+		d, err := DesignPlan(context.Background(), p, q, DesignOptions{ProducerRisk: a, ConsumerRisk: b, MaxN: 5000, Lot: lot % 3000})
 		checkFuzz(t, "DesignPlan", err, d.AchievedProducerRisk, d.AchievedConsumerRisk)
 		if err == nil && (d.AchievedProducerRisk > d.ProducerRisk || d.AchievedConsumerRisk > d.ConsumerRisk) {
 			t.Fatalf("plan misses a risk: %+v", d)
