@@ -107,15 +107,24 @@ func runSpread(c *Call) error {
 	r.Mass, plot = massPlot(c.S, plo, phi, d.ProbRange)
 	s := c.S
 	nf := float64(d.N)
+	perN := func(x float64) string { // the same on the k/n scale
+		if d.N == 0 {
+			return ""
+		}
+		return "k/n: " + s.num(x/nf)
+	}
 	b := c.Block("binomial distribution of k successes in n = " + count(d.N) + " trials, p = " + in(d.P))
-	b.Row("mean", s.num(r.Mean), "k/n: "+s.num(r.Mean/nf))
-	b.Row("std deviation", s.num(r.StdDev), "k/n: "+s.num(r.StdDev/nf))
+	b.Row("mean", s.num(r.Mean), perN(r.Mean))
+	b.Row("std deviation", s.num(r.StdDev), perN(r.StdDev))
 	b.Row("most likely k", count(r.Mode))
 	b.Row("skewness", s.num(r.Skewness))
 	b.Row("excess kurtosis", s.num(r.ExcessKurtosis))
 	b.Row("entropy", s.num(r.Entropy), "nats")
-	b.Row("central "+pct(level), count(lo)+" to "+count(hi),
-		"k/n: "+s.num(float64(lo)/nf)+" to "+s.num(float64(hi)/nf)+"; holds "+s.num(r.CentralProb))
+	central := "holds " + s.num(r.CentralProb)
+	if d.N > 0 {
+		central = "k/n: " + s.num(float64(lo)/nf) + " to " + s.num(float64(hi)/nf) + "; " + central
+	}
+	b.Row("central "+pct(level), count(lo)+" to "+count(hi), central)
 	if a.Has("within") {
 		eps, err := a.Prob("within", 0)
 		if err != nil {
@@ -244,7 +253,7 @@ func runTail(c *Call) error {
 	ks := count(k)
 	b := c.Block("binomial, n = " + count(n) + " trials, p = " + in(p) + "; k = " + ks + " (k/n = " + s.num(float64(k)/float64(n)) + ")")
 	if n == 0 {
-		b.Title = "binomial, n = 0 trials, p = " + s.num(p) + "; k = 0"
+		b.Title = "binomial, n = 0 trials, p = " + in(p) + "; k = 0"
 	}
 	b.Row("P(X = "+ks+")", s.logNum(r.LogEqual))
 	b.Row("P(X "+s.le()+" "+ks+")", s.logNum(r.LogAtMost), "lower tail")

@@ -26,7 +26,7 @@ func numberProblem(tok string) string {
 		return "is infinite; write a finite number"
 	case strings.HasPrefix(low, "0x") || strings.HasPrefix(low, "0b") || strings.HasPrefix(low, "0o"):
 		return "is not decimal; hexadecimal, binary and octal numbers are not accepted"
-	case strings.ContainsAny(tok, "_,'"):
+	case strings.ContainsAny(tok, "_,'") && decimalRE.MatchString(strings.NewReplacer("_", "", ",", "", "'", "").Replace(tok)):
 		return "contains a digit separator; write the digits without _ , or '"
 	}
 	return "is not a number; write a plain decimal like 0.3 or 1e-6"
