@@ -156,14 +156,15 @@ func DesignPlan(ctx context.Context, aql, rql float64, o DesignOptions) (PlanDes
 		}
 		maxN = min(maxN, o.Lot)
 	}
-	lb, la := math.Log(beta), math.Log(alpha)
 	res := PlanDesign{AQL: aql, RQL: rql, ProducerRisk: alpha, ConsumerRisk: beta}
 	lo := int64(0) // n_c > lo for every c still to come
 	for c := int64(0); ; c++ {
 		if err := argerr.Canceled(fn, ctx); err != nil {
 			return PlanDesign{}, err
 		}
-		meetsRQL := func(n int64) bool { return logAccept(rql, n, c) <= lb }
+		// Decided on the reported probabilities themselves, so a plan never
+		// shows a risk above its limit by a rounding.
+		meetsRQL := func(n int64) bool { return math.Exp(logAccept(rql, n, c)) <= beta }
 		if lo < c {
 			lo = c // n must exceed c
 		}
@@ -187,7 +188,7 @@ func DesignPlan(ctx context.Context, aql, rql float64, o DesignOptions) (PlanDes
 			ConsumerRisk: math.Exp(logAccept(rql, n, c)),
 		}
 		res.Candidates = append(res.Candidates, cand)
-		if logReject(aql, n, c) <= la {
+		if cand.ProducerRisk <= alpha {
 			res.Plan = pl
 			res.AchievedProducerRisk, res.AchievedConsumerRisk = cand.ProducerRisk, cand.ConsumerRisk
 			return res, nil
