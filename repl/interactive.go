@@ -15,7 +15,7 @@ import (
 // greeting is the first line on a terminal; hint the second.
 const (
 	greeting = "kofn: binomial inference from k successes in n trials."
-	hint     = "Type tour for a walk-through, help for the commands, help NAME for one; Ctrl-D leaves."
+	hint     = "Type tour for a walk-through, help for the commands; Ctrl-D leaves."
 )
 
 // isTerminal reports whether f is an *os.File on a terminal.
