@@ -100,6 +100,9 @@ func FuzzPlans(f *testing.F) {
 		}
 		dm, err := DemonstrationTrials(p, q, c%5)
 		checkFuzz(t, "DemonstrationTrials", err, dm.AchievedConfidence)
+		if err == nil && (dm.AchievedConfidence < dm.Confidence || dm.PreviousConfidence >= dm.Confidence) {
+			t.Fatalf("demonstration %+v", dm)
+		}
 		rl, err := DemonstratedReliability(n, c, q)
 		checkFuzz(t, "DemonstratedReliability", err, rl)
 	})

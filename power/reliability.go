@@ -63,9 +63,10 @@ func DemonstrationTrials(r, c float64, failures int64) (Demonstration, error) {
 	}
 	q := 1 - r
 	lt := math.Log1p(-c) // ln(1 - c)
+	// Decided on the reported confidence itself, so the plan never shows a
+	// confidence a rounding below c.
 	ok := func(n int64) bool {
-		d := binom.Dist{N: n, P: q}
-		return d.LogCDF(failures) <= lt
+		return -math.Expm1(binom.Dist{N: n, P: q}.LogCDF(failures)) >= c
 	}
 	// The zero-failure formula gives a lower bound for any failures.
 	guess := ceilN(lt / math.Log(r))
