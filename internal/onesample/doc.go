@@ -30,8 +30,9 @@
 // the central test this is twice the smaller mid-p tail
 // P(X < k) + f(k)/2. The mid-p value goes back to Lancaster HO (1961),
 // Significance tests in discrete distributions, JASA 56:223-234; see also
-// Agresti A (2002), Categorical Data Analysis, 2nd ed., section 1.1.6
-// (recalled). It is not guaranteed to keep the size at or below alpha.
+// Agresti A (2002), Categorical Data Analysis, 2nd ed., chapter 1, on the
+// mid-P value (recalled). It is not guaranteed to keep the size at or
+// below alpha.
 // One-sided p-values do not depend on the two-sided definition.
 //
 // Every p-value is returned as its natural logarithm, finite and accurate
