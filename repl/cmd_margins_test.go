@@ -1,9 +1,12 @@
 package repl
 
 import (
+	"context"
 	"math"
 	"testing"
 
+	"github.com/kofnlab/kofn/interval"
+	"github.com/kofnlab/kofn/power"
 	"github.com/kofnlab/kofn/test"
 )
 
@@ -31,5 +34,27 @@ func TestMarginCommandsMatchPackage(t *testing.T) {
 	x2 := num(t, runJSON(t, "versus 17/40 9/38 method=pearson-chi-square"), "Statistic")
 	if math.Abs(z*z-x2) > 1e-12*x2 {
 		t.Errorf("z^2 = %v, chi-square %v", z*z, x2)
+	}
+}
+
+func TestOddsAndDesignMatchPackage(t *testing.T) {
+	t.Parallel()
+	iv, err := interval.OddsRatio(3, 4, 1, 4, interval.OddsOptions{Method: interval.OddsCornfield})
+	if err != nil {
+		t.Fatal(err)
+	}
+	obj := runJSON(t, "odds 3/4 1/4 method=cornfield")
+	for path, want := range map[string]float64{"lower": iv.Lower, "upper": iv.Upper, "estimate": iv.Estimate} {
+		if got := num(t, obj, path); got != want {
+			t.Errorf("Cornfield %s %v, package %v", path, got, want)
+		}
+	}
+	d, err := power.DesignPlan(context.Background(), 0.01, 0.05, power.DesignOptions{Lot: 400})
+	if err != nil {
+		t.Fatal(err)
+	}
+	obj = runJSON(t, "accept aql=0.01 rql=0.05 lot=400")
+	if got := num(t, obj, "plan.n"); got != float64(d.Plan.SampleSize) {
+		t.Errorf("finite-lot design n %v, package %d", got, d.Plan.SampleSize)
 	}
 }

@@ -186,7 +186,8 @@ var acceptCmd = &Command{
 			"inspection: average outgoing quality (AOQ) and average total inspection (ATI) at the rate, and the " +
 			"average outgoing quality limit (AOQL); lot= with defectives= gives the exact acceptance chance for " +
 			"that finite lot (hypergeometric, type A). With aql= and rql=: the plan with the smallest n that " +
-			"meets both risks, found by an exact search.",
+			"meets both risks, found by an exact search; adding lot= designs for isolated lots of that size " +
+			"(hypergeometric, type A) instead of a process.",
 		Assumptions: "Lots much larger than the sample (binomial model); items defective independently.",
 		Examples:    []string{"accept n=89 c=2", "accept n=89 c=2 at=0.01 lot=10000", "accept aql=0.01 rql=0.05"},
 		Sources: "Montgomery DC, Introduction to Statistical Quality Control, chapter on single sampling " +
@@ -241,12 +242,18 @@ func runAccept(c *Call) error {
 		if o.MaxN, err = a.Count("upto", 0); err != nil {
 			return err
 		}
+		if o.Lot, err = a.Count("lot", 0); err != nil {
+			return err
+		}
 		d, err := power.DesignPlan(c.Ctx, aql, rql, o)
 		if err != nil {
 			return err
 		}
 		r.Design, r.Plan = &d, d.Plan
 		b = c.Block("sampling plan for AQL " + fmtIn(aql) + " (producer's risk " + fmtIn(o.ProducerRisk) + ") and RQL " + fmtIn(rql) + " (consumer's risk " + fmtIn(o.ConsumerRisk) + ")")
+		if o.Lot > 0 {
+			b.Title += ", isolated lots of " + count(o.Lot)
+		}
 		b.Row("plan", "inspect n = "+count(d.Plan.SampleSize)+", accept with at most c = "+count(d.Plan.AcceptNumber)+" defective")
 		b.Row("producer's risk", s.num(d.AchievedProducerRisk), "chance of rejecting a lot at the AQL")
 		b.Row("consumer's risk", s.num(d.AchievedConsumerRisk), "chance of accepting a lot at the RQL")

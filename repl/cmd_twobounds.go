@@ -126,7 +126,7 @@ func init() {
 				"zero cells), cornfield (exact conditional, Cornfield 1956: coverage never below the level), " +
 				"cornfield-mid-p.",
 			Assumptions: twoAssumptions,
-			Examples:    []string{"odds 189/11034 104/11037", "odds 7/15 12/15", "odds 17/40 9/38 method=woolf"},
+			Examples:    []string{"odds 189/11034 104/11037", "odds 3/4 1/4 method=cornfield", "odds 17/40 9/38 method=woolf"},
 			Sources: "Woolf B (1955), Annals of Human Genetics 19:251-253; Cornfield J (1956), Proc. Third " +
 				"Berkeley Symposium 4:135-148; Miettinen and Nurminen (1985); Agresti A (2019), section 2.2.",
 		}, func(k1, n1, k2, n2 int64, m int, level float64, side interval.Side) (interval.Interval, error) {
