@@ -339,7 +339,7 @@ func runAccept(c *Call) error {
 	}
 	ch := chart{xs: xs, series: []series{{"P(accept)", ys}}, yLo: 0, yHi: 1, ref: math.NaN(), height: 10,
 		ascii: s.Set.ASCII, width: s.Set.Width, digits: 3, xLabel: "defect rate"}
-	c.Plot("operating characteristic: P(accept) against the defect rate\n" + ch.render())
+	c.Plot("operating characteristic: P(accept) against the defect rate (binomial: large lots or a process)\n" + ch.render())
 	return nil
 }
 
