@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"math"
 	"math/big"
+	"os"
 	"regexp"
 	"strconv"
 	"strings"
@@ -12,7 +13,6 @@ import (
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
 
-	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/test"
 )
 
@@ -24,9 +24,9 @@ const z975 = 1.959963984540054
 var printed = cmpopts.EquateApprox(0, 5.01e-5)
 
 // TestRun runs the program and checks its key numbers against independent
-// computations: the Wilson and Newcombe closed forms and McNemar's exact and
-// mid-p values as exact rational binomial sums; Tango's interval, which has no
-// closed form, against the public API.
+// computations: the Wilson and Newcombe closed forms, McNemar's exact and
+// mid-p values as exact rational binomial sums, and Tango's interval from an
+// mpmath inversion of his score statistic (../testdata/reference.tsv).
 func TestRun(t *testing.T) {
 	t.Parallel()
 	var buf bytes.Buffer
@@ -52,11 +52,7 @@ func TestRun(t *testing.T) {
 		d - math.Sqrt(dl1*dl1-2*phi*dl1*du2+du2*du2),
 		d + math.Sqrt(du1*du1-2*phi*du1*dl2+dl2*dl2), 0}
 	unpaired := []float64{d, d - math.Hypot(dl1, du2), d + math.Hypot(du1, dl2), 0}
-	tango, err := interval.PairedDifference(bothRight, onlyA, onlyB, bothWrong,
-		interval.PairedOptions{Method: interval.PairedTango})
-	if err != nil {
-		t.Fatal(err)
-	}
+	ref := reference(t)
 	exact, mid := mcnemar(onlyA, onlyB)
 	for _, c := range []struct {
 		label string
@@ -67,7 +63,7 @@ func TestRun(t *testing.T) {
 		{"McNemar exact", []float64{exact, 0.05}},
 		{"McNemar mid-p", []float64{mid, 0.05}},
 		{"Newcombe paired hybrid score", paired},
-		{"Tango score", []float64{tango.Estimate, tango.Lower, tango.Upper, 0}},
+		{"Tango score", []float64{d, ref["classifiers.tango.lower"], ref["classifiers.tango.upper"], 0}},
 		{"unpaired Newcombe hybrid score", unpaired},
 	} {
 		if diff := cmp.Diff(c.want, values(t, out, c.label), printed); diff != "" {
@@ -129,6 +125,29 @@ func wilson(p, n float64) (lo, hi float64) {
 	mid := (p + z2/(2*n)) / (1 + z2/n)
 	half := z975 / (1 + z2/n) * math.Sqrt(p*(1-p)/n+z2/(4*n*n))
 	return mid - half, mid + half
+}
+
+// reference reads the golden values of ../testdata/reference.tsv, written by
+// ../testdata/gen/reference.py (SciPy 1.10 and mpmath; see its header).
+func reference(t *testing.T) map[string]float64 {
+	t.Helper()
+	data, err := os.ReadFile("../testdata/reference.tsv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	ref := map[string]float64{}
+	for _, line := range strings.Split(string(data), "\n") {
+		key, val, ok := strings.Cut(line, "\t")
+		if !ok || strings.HasPrefix(line, "#") {
+			continue
+		}
+		x, err := strconv.ParseFloat(val, 64)
+		if err != nil {
+			t.Fatalf("reference.tsv: %q: %v", line, err)
+		}
+		ref[key] = x
+	}
+	return ref
 }
 
 var number = regexp.MustCompile(`[-+]?\d+(\.\d+)?(e[-+]?\d+)?`)

@@ -5,6 +5,7 @@ import (
 	"context"
 	"math"
 	"math/big"
+	"os"
 	"regexp"
 	"strconv"
 	"strings"
@@ -14,7 +15,6 @@ import (
 	"github.com/google/go-cmp/cmp/cmpopts"
 	"gonum.org/v1/gonum/stat/distuv"
 
-	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/power"
 	"github.com/kofnlab/kofn/test"
 )
@@ -27,9 +27,13 @@ const z975 = 1.959963984540054
 var printed = cmpopts.EquateApprox(0, 5.01e-5)
 
 // TestRun runs the program and checks its key numbers against independent
-// computations: closed forms for Wilson and Newcombe, exact rational sums for
-// Fisher, the Fleiss formula; the unconditional tests and score intervals,
-// which have no closed form, against the public API.
+// computations: closed forms for Wilson and Newcombe, gonum's beta quantiles
+// for Clopper-Pearson, exact rational sums for Fisher, the Fleiss formula;
+// SciPy 1.10 (barnard_exact, fisher_exact and an enumeration of Fisher's exact
+// power) and an mpmath inversion of the Miettinen-Nurminen score from
+// ../testdata/reference.tsv; Boschloo's two-sided p-value, for which SciPy
+// uses another definition, against the public API (and its one-sided value
+// against SciPy in TestBoschlooReference).
 func TestRun(t *testing.T) {
 	t.Parallel()
 	var buf bytes.Buffer
@@ -46,17 +50,9 @@ func TestRun(t *testing.T) {
 	pA, pB := float64(signupsA)/visitorsA, float64(signupsB)/visitorsB
 	d := pB - pA
 	newcombe := []float64{d, d - math.Hypot(pB-lB, uA-pA), d + math.Hypot(uB-pB, pA-lA)}
-	mn, err := interval.Difference(signupsB, visitorsB, signupsA, visitorsA,
-		interval.DiffOptions{Method: interval.DiffMiettinenNurminen})
-	if err != nil {
-		t.Fatal(err)
-	}
+	ref := reference(t)
 	ctx := context.Background()
 	bos, err := test.Boschloo(ctx, signupsB, visitorsB, signupsA, visitorsA, test.UnconditionalOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	bar, err := test.Barnard(ctx, signupsB, visitorsB, signupsA, visitorsA, test.UnconditionalOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -69,10 +65,10 @@ func TestRun(t *testing.T) {
 		{"A, Clopper-Pearson", append([]float64{pA}, clopperPearson(signupsA, visitorsA)...)},
 		{"B, Clopper-Pearson", append([]float64{pB}, clopperPearson(signupsB, visitorsB)...)},
 		{"Newcombe hybrid score", append(newcombe, 0)},
-		{"Miettinen-Nurminen", []float64{mn.Estimate, mn.Lower, mn.Upper, 0}},
+		{"Miettinen-Nurminen", []float64{d, ref["signup.mn.lower"], ref["signup.mn.upper"], 0}},
 		{"Fisher point-probability", []float64{fisherTwoSided(signupsB, visitorsB, signupsA, visitorsA), 0.05}},
 		{"Boschloo", []float64{bos.PValue, 0.05}},
-		{"Barnard", []float64{bar.PValue, 0.05}},
+		{"Barnard", []float64{ref["signup.barnard.two-sided"], 0.05}},
 		{"normal approximation", []float64{fleissCPS(planA, planB)}},
 	} {
 		if diff := cmp.Diff(c.want, values(t, out, c.label), printed); diff != "" {
@@ -85,22 +81,38 @@ func TestRun(t *testing.T) {
 		t.Errorf("Boschloo p = %g exceeds Fisher's", bos.PValue)
 	}
 
-	// Exact power rows, against the public API.
+	if diff := cmp.Diff(ref["signup.fisher.two-sided"], fisherTwoSided(signupsB, visitorsB, signupsA, visitorsA),
+		cmpopts.EquateApprox(1e-12, 0)); diff != "" {
+		t.Errorf("exact rational Fisher against SciPy (-want +got):\n%s", diff)
+	}
+
+	// Exact power rows: Fisher's against SciPy's enumeration, Barnard's
+	// (too slow to enumerate in SciPy) against the public API.
 	for _, n := range []int64{220, 240, 260} {
-		opt := power.TwoSampleOptions{Alpha: planAlpha, Power: planPower}
-		f, err := power.TwoSamplePower(ctx, n, n, planA, planB, opt)
-		if err != nil {
-			t.Fatal(err)
-		}
-		opt.Test = power.Barnard
+		opt := power.TwoSampleOptions{Alpha: planAlpha, Power: planPower, Test: power.Barnard}
 		b, err := power.TwoSamplePower(ctx, n, n, planA, planB, opt)
 		if err != nil {
 			t.Fatal(err)
 		}
 		label := "n = " + strconv.FormatInt(n, 10)
-		if diff := cmp.Diff([]float64{f.Power, b.Power}, values(t, out, label), printed); diff != "" {
+		want := []float64{ref["signup.fisher.power."+strconv.FormatInt(n, 10)], b.Power}
+		if diff := cmp.Diff(want, values(t, out, label), printed); diff != "" {
 			t.Errorf("%s (-want +got):\n%s", label, diff)
 		}
+	}
+}
+
+// TestBoschlooReference checks the one-sided version of the Boschloo test the
+// program uses against SciPy 1.10's boschloo_exact (../testdata/reference.tsv).
+func TestBoschlooReference(t *testing.T) {
+	t.Parallel()
+	got, err := test.Boschloo(context.Background(), signupsB, visitorsB, signupsA, visitorsA,
+		test.UnconditionalOptions{Alternative: test.Greater})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if diff := cmp.Diff(reference(t)["signup.boschloo.greater"], got.PValue, cmpopts.EquateApprox(1e-6, 0)); diff != "" {
+		t.Errorf("one-sided Boschloo p (-want +got):\n%s", diff)
 	}
 }
 
@@ -150,6 +162,29 @@ func fleissCPS(p1, p2 float64) float64 {
 	d := math.Abs(p1 - p2)
 	n := math.Pow(z975*math.Sqrt(2*pbar*(1-pbar))+zb*math.Sqrt(p1*(1-p1)+p2*(1-p2)), 2) / (d * d)
 	return math.Ceil(n / 4 * math.Pow(1+math.Sqrt(1+4/(n*d)), 2))
+}
+
+// reference reads the golden values of ../testdata/reference.tsv, written by
+// ../testdata/gen/reference.py (SciPy 1.10 and mpmath; see its header).
+func reference(t *testing.T) map[string]float64 {
+	t.Helper()
+	data, err := os.ReadFile("../testdata/reference.tsv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	ref := map[string]float64{}
+	for _, line := range strings.Split(string(data), "\n") {
+		key, val, ok := strings.Cut(line, "\t")
+		if !ok || strings.HasPrefix(line, "#") {
+			continue
+		}
+		x, err := strconv.ParseFloat(val, 64)
+		if err != nil {
+			t.Fatalf("reference.tsv: %q: %v", line, err)
+		}
+		ref[key] = x
+	}
+	return ref
 }
 
 var number = regexp.MustCompile(`[-+]?\d+(\.\d+)?(e[-+]?\d+)?`)
