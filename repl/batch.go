@@ -99,6 +99,9 @@ func runEach(c *Call) error {
 	}
 	var in io.Reader
 	if file == "-" {
+		if c.S.interactive {
+			return inputErr(file, "is the terminal here; give a file name, or pipe the CSV in: kofn -c 'each - ...' < file.csv")
+		}
 		in = c.S.In
 	} else {
 		f, err := os.Open(file)
