@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"math"
 	"math/big"
@@ -186,4 +187,17 @@ func rows(t *testing.T, out, label string) [][]float64 {
 func values(t *testing.T, out, label string) []float64 {
 	t.Helper()
 	return rows(t, out, label)[0]
+}
+
+// failWriter fails every write, as a closed pipe would.
+type failWriter struct{}
+
+func (failWriter) Write([]byte) (int, error) { return 0, errors.New("write failed") }
+
+// TestRunWriteError checks that a failing output is reported, not ignored.
+func TestRunWriteError(t *testing.T) {
+	t.Parallel()
+	if err := run(failWriter{}); err == nil {
+		t.Error("run ignored a failing writer")
+	}
 }

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"math"
 	"math/big"
@@ -248,4 +249,17 @@ func values(t *testing.T, out, label string) []float64 {
 	}
 	t.Fatalf("no line starting with %q in the output:\n%s", label, out)
 	return nil
+}
+
+// failWriter fails every write, as a closed pipe would.
+type failWriter struct{}
+
+func (failWriter) Write([]byte) (int, error) { return 0, errors.New("write failed") }
+
+// TestRunWriteError checks that a failing output is reported, not ignored.
+func TestRunWriteError(t *testing.T) {
+	t.Parallel()
+	if err := run(failWriter{}); err == nil {
+		t.Error("run ignored a failing writer")
+	}
 }
