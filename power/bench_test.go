@@ -76,3 +76,43 @@ func BenchmarkTwoSamplePowerBarnard200(b *testing.B) {
 		}
 	}
 }
+
+func BenchmarkOneSampleNTwoSided(b *testing.B) {
+	for b.Loop() {
+		if _, err := OneSampleN(context.Background(), 0.3, 0.35, OneSampleOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkPairedN(b *testing.B) {
+	for b.Loop() {
+		if _, err := PairedN(context.Background(), 0.20, 0.08, PairedOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkPrecisionN(b *testing.B) {
+	for b.Loop() {
+		if _, err := PrecisionN(context.Background(), 0.3, 0.03, PrecisionOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkWorstPrecisionN05(b *testing.B) {
+	for b.Loop() {
+		if _, err := WorstPrecisionN(context.Background(), 0.05, PrecisionOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkTwoSampleNFisher(b *testing.B) {
+	for b.Loop() {
+		if _, err := TwoSampleN(context.Background(), 0.30, 0.55, TwoSampleOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
