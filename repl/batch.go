@@ -102,6 +102,9 @@ func runEach(c *Call) error {
 		if c.S.interactive {
 			return inputErr(file, "is the terminal here; give a file name, or pipe the CSV in: kofn -c 'each - ...' < file.csv")
 		}
+		if c.S.In == nil {
+			return inputErr(file, "cannot be read: standard input holds the commands; give a file name, or use kofn -c 'each - ...' < file.csv")
+		}
 		in = c.S.In
 	} else {
 		f, err := os.Open(file)

@@ -68,6 +68,7 @@ func Main(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		stop() // the interactive loop handles Ctrl-C itself
 		return interactive(s, stdin, historyOn(*noHist))
 	}
+	s.In = nil // standard input holds the commands, not data
 	return status(s.RunLines(ctx, stdin, true))
 }
 

@@ -25,6 +25,8 @@ func TestMainExitStatus(t *testing.T) {
 		{nil, "quit\nbogus\n", ExitOK, "", ""},
 		{[]string{"-json", "-c", "tail 2/89 p=0.01"}, "", ExitOK, `"p_at_most":0.9396899183135595`, ""},
 		{[]string{"-width", "5"}, "", ExitUsage, "", "outside 20 to 400"},
+		{[]string{"-c", "each - bounds"}, "k,n\n17,40\n", ExitOK, "17,40,0.425,", ""},
+		{nil, "each - bounds\n17,40\n", ExitFailed, "", "standard input holds the commands"},
 		{[]string{"stray"}, "", ExitUsage, "", "unexpected argument"},
 		{[]string{"-nosuchflag"}, "", ExitUsage, "", "flag provided but not defined"},
 	}
