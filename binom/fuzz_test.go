@@ -125,7 +125,7 @@ func FuzzAgainstExact(f *testing.F) {
 			lo := max(0, k-3)
 			w := math.Inf(-1)
 			for j := lo; j <= k; j++ {
-				w = logAddExp2(w, pmf[j])
+				w = logAddExp(w, pmf[j])
 			}
 			if e := logErr(d.LogProbRange(lo, k), w); e > 1e-13 {
 				t.Errorf("Dist{%d, %v}.LogProbRange(%d, %d) = %v, exact %v", n, p, lo, k, d.LogProbRange(lo, k), w)

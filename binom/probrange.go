@@ -65,7 +65,7 @@ func (d Dist) LogProbRange(lo, hi int64) float64 {
 	}
 	try(logDiff(th, tl), th)
 	try(logDiff(sl, sh), sl)
-	try(log1mexp(math.Min(logAddExp2(tl, sh), 0)), 0)
+	try(log1mexp(math.Min(logAddExp(tl, sh), 0)), 0)
 	if bestCancel <= math.Log(rangeCancel) || hi-lo+1 > rangeSumMax {
 		return best
 	}
@@ -81,17 +81,6 @@ func (d Dist) bothTails(k int64) (lower, upper float64) {
 		return ls, ll
 	}
 	return ll, ls
-}
-
-// logAddExp2 returns ln(e^a + e^b).
-func logAddExp2(a, b float64) float64 {
-	if a < b {
-		a, b = b, a
-	}
-	if math.IsInf(b, -1) {
-		return a
-	}
-	return a + math.Log1p(math.Exp(b-a))
 }
 
 // logSumTerms returns ln sum_{j=lo..hi} b(j) for 0 <= lo < hi <= N and
