@@ -127,7 +127,8 @@ func probClose(lwant, got, tol float64) bool {
 	return math.Abs(got-w) <= tol*math.Max(1, math.Abs(lwant))*w
 }
 
-// TestHyperGolden checks against testdata/hyper_golden.tsv (mpmath 1.2.1,
+// TestHyperGolden checks against testdata/hyper_golden.tsv (totals up to
+// 2^53; mpmath 1.2.1,
 // exact rational sums for N <= 400 and 50-digit sums beyond; generator
 // testdata/gen/hyper_golden.py).
 func TestHyperGolden(t *testing.T) {

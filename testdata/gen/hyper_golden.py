@@ -10,13 +10,13 @@ and a value x, the natural logs of P(X = x), P(X <= x) and P(X > x).
 Method (independent of the Go code): for N <= 400 every probability is an
 exact rational number (Python integers, math.comb) summed exactly and
 converted to a logarithm with mpmath at 50 digits. For larger N the PMF is
-exp(lgamma differences) in mpmath at 50 digits (50 digits leave about 35
-after the cancellation of lgamma at N = 1e6), and a tail is the sum of the
+exp(lgamma differences) in mpmath at 50 digits (50 digits leave about 32
+after the cancellation of lgamma at N = 2^53), and a tail is the sum of the
 terms outward from the point of the range nearest the mode, by the exact
 ratio recurrence in 50-digit arithmetic, stopped when the geometric bound on
 the remainder falls below 1e-45 of the partial sum.
 
-Run from the repository root:  /usr/bin/python3 testdata/gen/hyper_golden.py
+Run from the repository root:  /usr/bin/python3 testdata/gen/hyper_golden.py [central|noncentral]
 """
 import datetime
 import math
@@ -117,6 +117,9 @@ def params():
     # Asymmetric and tea-tasting style tables.
     out.update({(8, 4, 4), (30, 19, 15), (1000000, 3, 500000), (1000000, 999990, 17),
                 (1000000, 250000, 10000), (123457, 61728, 40000)})
+    # Beyond 1e6: huge populations with modest spreads.
+    out.update({(10**9, 3 * 10**8, 10**4), (10**12, 3 * 10**11, 10**6), (10**12, 10**6, 5 * 10**11),
+                (2**53, 2**52, 1000), (10**12, 7, 10**11)})
     return sorted(out)
 
 
@@ -236,5 +239,9 @@ def main_noncentral():
 
 
 if __name__ == "__main__":
-    main()
-    main_noncentral()
+    import sys
+    # "central" or "noncentral" regenerates one file only; default both.
+    if sys.argv[1:] != ["noncentral"]:
+        main()
+    if sys.argv[1:] != ["central"]:
+        main_noncentral()
