@@ -116,3 +116,12 @@ func BenchmarkTwoSampleNFisher(b *testing.B) {
 		}
 	}
 }
+
+func BenchmarkOneSampleCurve2000Blaker(b *testing.B) {
+	o := OneSampleOptions{Method: Blaker}
+	for b.Loop() {
+		if _, err := OneSampleCurve(context.Background(), 0.3, 0.35, 2000, o); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

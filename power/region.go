@@ -89,6 +89,19 @@ func (r *region) at(n int64) (lo, hi int64) {
 			r.full(n)
 			break
 		}
+		if r.t.Method == onesample.Blaker {
+			// Blaker's p-value is P(e(X) <= e(k)) for the smaller tail
+			// e(k) = min(P(X <= k), P(X >= k)), also unimodal in k, so the
+			// same two-decision certificate applies with e for f.
+			d := binomDist(n, r.t.P0)
+			e := func(k int64) float64 { return math.Min(d.LogCDF(k), d.LogSurvival(k-1)) }
+			if lo, hi, ok := certifyInterval(func(k int64) bool { return r.ok(k, n) }, e, 0, n, min(r.lo, n), min(r.hi, n)); ok {
+				r.lo, r.hi = lo, hi
+				break
+			}
+			r.full(n)
+			break
+		}
 		lo, okLo := r.walkLo(n)
 		hi, okHi := r.walkHi(n)
 		if !okLo || !okHi || lo > hi {
