@@ -2,24 +2,16 @@ package main
 
 import (
 	"bytes"
-	"errors"
 	"math"
 	"math/big"
-	"os"
-	"regexp"
-	"strconv"
-	"strings"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
 
+	"github.com/kofnlab/kofn/examples/internal/check"
 	"github.com/kofnlab/kofn/test"
 )
-
-// z975 is the 0.975 quantile of the standard normal (Abramowitz and Stegun
-// 1964, Table 26.5: 1.959964).
-const z975 = 1.959963984540054
 
 // printed is the absolute tolerance of a value printed with 4 decimals.
 var printed = cmpopts.EquateApprox(0, 5.01e-5)
@@ -35,14 +27,12 @@ func TestRun(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := buf.String()
-	if first, _, _ := strings.Cut(out, "\n"); !strings.HasPrefix(first, "Invented data:") {
-		t.Errorf("first line %q does not label the data as invented", first)
-	}
+	check.Invented(t, out)
 
 	n := float64(messages)
 	pA, pB := (bothRight+onlyA)/n, (bothRight+onlyB)/n
-	lA, uA := wilson(pA, n)
-	lB, uB := wilson(pB, n)
+	lA, uA := check.Wilson(bothRight+onlyA, n)
+	lB, uB := check.Wilson(bothRight+onlyB, n)
 	d := pA - pB
 	// Newcombe (1998, paired data, method 10): the Wilson limits combined
 	// with the phi coefficient of the paired table.
@@ -53,7 +43,7 @@ func TestRun(t *testing.T) {
 		d - math.Sqrt(dl1*dl1-2*phi*dl1*du2+du2*du2),
 		d + math.Sqrt(du1*du1-2*phi*du1*dl2+dl2*dl2), 0}
 	unpaired := []float64{d, d - math.Hypot(dl1, du2), d + math.Hypot(du1, dl2), 0}
-	ref := reference(t)
+	ref := check.Reference(t)
 	exact, mid := mcnemar(onlyA, onlyB)
 	for _, c := range []struct {
 		label string
@@ -67,7 +57,7 @@ func TestRun(t *testing.T) {
 		{"Tango score", []float64{d, ref["classifiers.tango.lower"], ref["classifiers.tango.upper"], 0}},
 		{"unpaired Newcombe hybrid score", unpaired},
 	} {
-		if diff := cmp.Diff(c.want, values(t, out, c.label), printed); diff != "" {
+		if diff := cmp.Diff(c.want, check.Values(t, out, c.label), printed); diff != "" {
 			t.Errorf("%s (-want +got):\n%s", c.label, diff)
 		}
 	}
@@ -118,73 +108,4 @@ func mcnemar(n12, n21 int64) (exact, mid float64) {
 	exact, _ = e.Float64()
 	mid, _ = md.Float64()
 	return exact, mid
-}
-
-// wilson is the Wilson (1927) score interval for the proportion p of n.
-func wilson(p, n float64) (lo, hi float64) {
-	z2 := z975 * z975
-	mid := (p + z2/(2*n)) / (1 + z2/n)
-	half := z975 / (1 + z2/n) * math.Sqrt(p*(1-p)/n+z2/(4*n*n))
-	return mid - half, mid + half
-}
-
-// reference reads the golden values of ../testdata/reference.tsv, written by
-// ../testdata/gen/reference.py (SciPy 1.10 and mpmath; see its header).
-func reference(t *testing.T) map[string]float64 {
-	t.Helper()
-	data, err := os.ReadFile("../testdata/reference.tsv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	ref := map[string]float64{}
-	for _, line := range strings.Split(string(data), "\n") {
-		key, val, ok := strings.Cut(line, "\t")
-		if !ok || strings.HasPrefix(line, "#") {
-			continue
-		}
-		x, err := strconv.ParseFloat(val, 64)
-		if err != nil {
-			t.Fatalf("reference.tsv: %q: %v", line, err)
-		}
-		ref[key] = x
-	}
-	return ref
-}
-
-var number = regexp.MustCompile(`[-+]?\d+(\.\d+)?(e[-+]?\d+)?`)
-
-// values returns the numbers on the output line that starts with label,
-// after the label.
-func values(t *testing.T, out, label string) []float64 {
-	t.Helper()
-	for _, line := range strings.Split(out, "\n") {
-		rest, ok := strings.CutPrefix(strings.TrimSpace(line), label)
-		if !ok {
-			continue
-		}
-		var xs []float64
-		for _, s := range number.FindAllString(rest, -1) {
-			x, err := strconv.ParseFloat(s, 64)
-			if err != nil {
-				t.Fatalf("line %q: %v", line, err)
-			}
-			xs = append(xs, x)
-		}
-		return xs
-	}
-	t.Fatalf("no line starting with %q in the output:\n%s", label, out)
-	return nil
-}
-
-// failWriter fails every write, as a closed pipe would.
-type failWriter struct{}
-
-func (failWriter) Write([]byte) (int, error) { return 0, errors.New("write failed") }
-
-// TestRunWriteError checks that a failing output is reported, not ignored.
-func TestRunWriteError(t *testing.T) {
-	t.Parallel()
-	if err := run(failWriter{}); err == nil {
-		t.Error("run ignored a failing writer")
-	}
 }

@@ -2,17 +2,15 @@ package main
 
 import (
 	"bytes"
-	"errors"
 	"math"
-	"regexp"
 	"strconv"
-	"strings"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
 	"gonum.org/v1/gonum/stat/distuv"
 
+	"github.com/kofnlab/kofn/examples/internal/check"
 	"github.com/kofnlab/kofn/power"
 )
 
@@ -30,14 +28,12 @@ func TestRun(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := buf.String()
-	if first, _, _ := strings.Cut(out, "\n"); !strings.HasPrefix(first, "Invented data:") {
-		t.Errorf("first line %q does not label the data as invented", first)
-	}
+	check.Invented(t, out)
 
 	// Clopper and Pearson (1934): the one-sided upper bound is the
 	// confidence quantile of Beta(k+1, n-k).
 	upper := distuv.Beta{Alpha: failures + 1, Beta: requests - failures}.Quantile(confidence)
-	pLess := binomCDF(failures, requests, 1-objective)
+	pLess := check.BinomCDF(failures, requests, 1-objective)
 	for _, c := range []struct {
 		label string
 		want  []float64
@@ -47,7 +43,7 @@ func TestRun(t *testing.T) {
 		{"demonstrated success rate", []float64{1 - upper, 95}},
 		{"exact binomial, one-sided (less)", []float64{pLess, 0.05}},
 	} {
-		if diff := cmp.Diff(c.want, values(t, out, c.label), printed); diff != "" {
+		if diff := cmp.Diff(c.want, check.Values(t, out, c.label), printed); diff != "" {
 			t.Errorf("%s (-want +got):\n%s", c.label, diff)
 		}
 	}
@@ -55,13 +51,13 @@ func TestRun(t *testing.T) {
 	// Each plan is the smallest n with P(X <= c; n, 1 - R) <= 1 - C. For
 	// c = 0 that is the success-run formula n = ceil(ln(1-C)/ln R) (common
 	// practice): 2995 for R = 0.999, C = 0.95.
-	if got := values(t, out, "c = 0")[0]; got != math.Ceil(math.Log(1-confidence)/math.Log1p(-(1-objective))) || got != 2995 {
+	if got := check.Values(t, out, "c = 0")[0]; got != math.Ceil(math.Log(1-confidence)/math.Log1p(-(1-objective))) || got != 2995 {
 		t.Errorf("zero-failure plan: %g requests, want 2995", got)
 	}
 	for _, c := range allowed {
-		row := values(t, out, "c = "+strconv.FormatInt(c, 10))
+		row := check.Values(t, out, "c = "+strconv.FormatInt(c, 10))
 		n := int64(row[0])
-		now, before := 1-binomCDF(c, n, 1-objective), 1-binomCDF(c, n-1, 1-objective)
+		now, before := 1-check.BinomCDF(c, n, 1-objective), 1-check.BinomCDF(c, n-1, 1-objective)
 		if !(now >= confidence && before < confidence) {
 			t.Errorf("c = %d: n = %d reaches %g and n-1 %g; want the first n reaching %g", c, n, now, before, confidence)
 		}
@@ -85,57 +81,5 @@ func TestSuccessRun(t *testing.T) {
 	}
 	if diff := cmp.Diff(0.94996, d.PreviousConfidence, cmpopts.EquateApprox(0, 5e-6)); diff != "" {
 		t.Errorf("confidence of 298 trials (-want +got):\n%s", diff)
-	}
-}
-
-// binomCDF is P(X <= k) for X ~ Binomial(n, p), summed term by term from
-// log-gamma (independent of package binom; k is small here, so the sum is
-// short and accurate to about 1e-12 relative).
-func binomCDF(k, n int64, p float64) float64 {
-	lgn, _ := math.Lgamma(float64(n) + 1)
-	sum := 0.0
-	for j := int64(0); j <= k; j++ {
-		lj, _ := math.Lgamma(float64(j) + 1)
-		lr, _ := math.Lgamma(float64(n-j) + 1)
-		sum += math.Exp(lgn - lj - lr + float64(j)*math.Log(p) + float64(n-j)*math.Log1p(-p))
-	}
-	return sum
-}
-
-var number = regexp.MustCompile(`[-+]?\d+(\.\d+)?(e[-+]?\d+)?`)
-
-// values returns the numbers on the output line that starts with label,
-// after the label.
-func values(t *testing.T, out, label string) []float64 {
-	t.Helper()
-	for _, line := range strings.Split(out, "\n") {
-		rest, ok := strings.CutPrefix(strings.TrimSpace(line), label)
-		if !ok {
-			continue
-		}
-		var xs []float64
-		for _, s := range number.FindAllString(rest, -1) {
-			x, err := strconv.ParseFloat(s, 64)
-			if err != nil {
-				t.Fatalf("line %q: %v", line, err)
-			}
-			xs = append(xs, x)
-		}
-		return xs
-	}
-	t.Fatalf("no line starting with %q in the output:\n%s", label, out)
-	return nil
-}
-
-// failWriter fails every write, as a closed pipe would.
-type failWriter struct{}
-
-func (failWriter) Write([]byte) (int, error) { return 0, errors.New("write failed") }
-
-// TestRunWriteError checks that a failing output is reported, not ignored.
-func TestRunWriteError(t *testing.T) {
-	t.Parallel()
-	if err := run(failWriter{}); err == nil {
-		t.Error("run ignored a failing writer")
 	}
 }

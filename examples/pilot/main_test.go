@@ -2,26 +2,24 @@ package main
 
 import (
 	"bytes"
-	"errors"
 	"fmt"
 	"math"
 	"math/big"
-	"regexp"
-	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/kofnlab/kofn/examples/internal/check"
 )
 
 // Normal quantiles (Abramowitz and Stegun 1964, Table 26.5: 1.644854,
-// 1.959964, 0.841621).
+// 0.841621).
 const (
-	z95  = 1.6448536269514722
-	z975 = 1.959963984540054
-	z80  = 0.8416212335729143
+	z95 = 1.6448536269514722
+	z80 = 0.8416212335729143
 )
 
 // TestRun runs the program and checks its key numbers against independent
@@ -37,9 +35,7 @@ func TestRun(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := buf.String()
-	if first, _, _ := strings.Cut(out, "\n"); !strings.HasPrefix(first, "Invented data:") {
-		t.Errorf("first line %q does not label the data as invented", first)
-	}
+	check.Invented(t, out)
 	if !strings.Contains(out, "qualified statistician") || !strings.Contains(out, "regulations") {
 		t.Errorf("output lacks the caution about studies on people:\n%s", out)
 	}
@@ -70,25 +66,25 @@ func TestRun(t *testing.T) {
 	if first != 35 || stable != 38 {
 		t.Fatalf("independent first and stable n = %d, %d; this scenario was written for 35 and 38", first, stable)
 	}
-	if diff := cmp.Diff([]float64{target, float64(first), powers[first]}, values(t, out, "first n reaching"), printed); diff != "" {
+	if diff := cmp.Diff([]float64{target, float64(first), powers[first]}, check.Values(t, out, "first n reaching"), printed); diff != "" {
 		t.Errorf("first n (-want +got):\n%s", diff)
 	}
-	if got := values(t, out, "stable n "); got[0] != float64(stable) {
+	if got := check.Values(t, out, "stable n "); got[0] != float64(stable) {
 		t.Errorf("stable n = %g, want %d", got[0], stable)
 	}
 	for n := first - 5; n <= stable+3; n++ {
 		label := fmt.Sprintf("n = %d ", n)
 		want := []float64{float64(crits[n]), sizes[n], powers[n]}
-		if diff := cmp.Diff(want, values(t, out, label), printed); diff != "" {
+		if diff := cmp.Diff(want, check.Values(t, out, label), printed); diff != "" {
 			t.Errorf("row %s(-want +got):\n%s", label, diff)
 		}
 	}
 	// Fleiss, Levin and Paik (2003, section 2.5.1): the one-sample normal n.
 	normal := math.Ceil(math.Pow(z95*math.Sqrt(0.2*0.8)+z80*math.Sqrt(0.4*0.6), 2) / (0.2 * 0.2))
-	if got := values(t, out, "normal approximation"); got[0] != normal {
+	if got := check.Values(t, out, "normal approximation"); got[0] != normal {
 		t.Errorf("normal approximation n = %g, want %g", got[0], normal)
 	}
-	if got := values(t, out, "planned n"); got[0] != float64(stable) || got[1] != float64(crits[stable]) {
+	if got := check.Values(t, out, "planned n"); got[0] != float64(stable) || got[1] != float64(crits[stable]) {
 		t.Errorf("planned n and rule %v, want %d and %d", got, stable, crits[stable])
 	}
 
@@ -111,11 +107,11 @@ func TestRun(t *testing.T) {
 		}
 		e := float64(c.num) / float64(c.den)
 		formula := math.Ceil(z95 * z95 * 0.4 * 0.6 / (e * e))
-		if diff := cmp.Diff([]float64{float64(first), float64(stable), formula}, values(t, out, c.label)); diff != "" {
+		if diff := cmp.Diff([]float64{float64(first), float64(stable), formula}, check.Values(t, out, c.label)); diff != "" {
 			t.Errorf("precision %s (-want +got):\n%s", c.label, diff)
 		}
 		label := "at n = 38, " + c.label
-		if diff := cmp.Diff([]float64{alts[38].within(c.num, c.den)}, values(t, out, label), printed); diff != "" {
+		if diff := cmp.Diff([]float64{alts[38].within(c.num, c.den)}, check.Values(t, out, label), printed); diff != "" {
 			t.Errorf("%s (-want +got):\n%s", label, diff)
 		}
 	}
@@ -126,6 +122,7 @@ func TestRun(t *testing.T) {
 		distuv.Beta{Alpha: k, Beta: n - k + 1}.Quantile(0.025),
 		distuv.Beta{Alpha: k + 1, Beta: n - k}.Quantile(0.975),
 	}
+	wlo, whi := check.Wilson(k, n)
 	lower := distuv.Beta{Alpha: k, Beta: n - k + 1}.Quantile(0.05)
 	for _, c := range []struct {
 		label string
@@ -135,9 +132,9 @@ func TestRun(t *testing.T) {
 		{"exact binomial test", []float64{newTail(n, 1).prob(k, n), alpha, nullRate}},
 		{"one-sided 95% lower bound", []float64{lower}},
 		{"Clopper-Pearson, 95% two-sided", cp},
-		{"Wilson, 95% two-sided", wilson(k, n)},
+		{"Wilson, 95% two-sided", []float64{wlo, whi}},
 	} {
-		got := values(t, out, c.label)
+		got := check.Values(t, out, c.label)
 		if c.label == "exact binomial test" {
 			got = got[len(got)-3:] // after "one-sided"
 		}
@@ -216,50 +213,4 @@ func (tl tail) within(num, den int64) float64 {
 		return 0
 	}
 	return tl.prob(lo, hi)
-}
-
-// wilson is the Wilson (1927) score interval, two-sided 95%.
-func wilson(k, n float64) []float64 {
-	p, z2 := k/n, z975*z975
-	mid := (p + z2/(2*n)) / (1 + z2/n)
-	half := z975 / (1 + z2/n) * math.Sqrt(p*(1-p)/n+z2/(4*n*n))
-	return []float64{mid - half, mid + half}
-}
-
-var number = regexp.MustCompile(`[-+]?\d+(\.\d+)?(e[-+]?\d+)?`)
-
-// values returns the numbers on the output line that starts with label,
-// after the label.
-func values(t *testing.T, out, label string) []float64 {
-	t.Helper()
-	for _, line := range strings.Split(out, "\n") {
-		rest, ok := strings.CutPrefix(strings.TrimSpace(line), label)
-		if !ok {
-			continue
-		}
-		var xs []float64
-		for _, s := range number.FindAllString(rest, -1) {
-			x, err := strconv.ParseFloat(s, 64)
-			if err != nil {
-				t.Fatalf("line %q: %v", line, err)
-			}
-			xs = append(xs, x)
-		}
-		return xs
-	}
-	t.Fatalf("no line starting with %q in the output:\n%s", label, out)
-	return nil
-}
-
-// failWriter fails every write, as a closed pipe would.
-type failWriter struct{}
-
-func (failWriter) Write([]byte) (int, error) { return 0, errors.New("write failed") }
-
-// TestRunWriteError checks that a failing output is reported, not ignored.
-func TestRunWriteError(t *testing.T) {
-	t.Parallel()
-	if err := run(failWriter{}); err == nil {
-		t.Error("run ignored a failing writer")
-	}
 }

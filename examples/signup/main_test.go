@@ -3,26 +3,19 @@ package main
 import (
 	"bytes"
 	"context"
-	"errors"
 	"math"
 	"math/big"
-	"os"
-	"regexp"
 	"strconv"
-	"strings"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
 	"gonum.org/v1/gonum/stat/distuv"
 
+	"github.com/kofnlab/kofn/examples/internal/check"
 	"github.com/kofnlab/kofn/power"
 	"github.com/kofnlab/kofn/test"
 )
-
-// z975 is the 0.975 quantile of the standard normal (Abramowitz and Stegun
-// 1964, Table 26.5: 1.959964).
-const z975 = 1.959963984540054
 
 // printed is the absolute tolerance of a value printed with 4 decimals.
 var printed = cmpopts.EquateApprox(0, 5.01e-5)
@@ -42,16 +35,14 @@ func TestRun(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := buf.String()
-	if first, _, _ := strings.Cut(out, "\n"); !strings.HasPrefix(first, "Invented data:") {
-		t.Errorf("first line %q does not label the data as invented", first)
-	}
+	check.Invented(t, out)
 
-	lA, uA := wilson(signupsA, visitorsA)
-	lB, uB := wilson(signupsB, visitorsB)
+	lA, uA := check.Wilson(signupsA, visitorsA)
+	lB, uB := check.Wilson(signupsB, visitorsB)
 	pA, pB := float64(signupsA)/visitorsA, float64(signupsB)/visitorsB
 	d := pB - pA
 	newcombe := []float64{d, d - math.Hypot(pB-lB, uA-pA), d + math.Hypot(uB-pB, pA-lA)}
-	ref := reference(t)
+	ref := check.Reference(t)
 	ctx := context.Background()
 	bos, err := test.Boschloo(ctx, signupsB, visitorsB, signupsA, visitorsA, test.UnconditionalOptions{})
 	if err != nil {
@@ -72,7 +63,7 @@ func TestRun(t *testing.T) {
 		{"Barnard", []float64{ref["signup.barnard.two-sided"], 0.05}},
 		{"normal approximation", []float64{fleissCPS(planA, planB)}},
 	} {
-		if diff := cmp.Diff(c.want, values(t, out, c.label), printed); diff != "" {
+		if diff := cmp.Diff(c.want, check.Values(t, out, c.label), printed); diff != "" {
 			t.Errorf("%s (-want +got):\n%s", c.label, diff)
 		}
 	}
@@ -97,7 +88,7 @@ func TestRun(t *testing.T) {
 		}
 		label := "n = " + strconv.FormatInt(n, 10)
 		want := []float64{ref["signup.fisher.power."+strconv.FormatInt(n, 10)], b.Power}
-		if diff := cmp.Diff(want, values(t, out, label), printed); diff != "" {
+		if diff := cmp.Diff(want, check.Values(t, out, label), printed); diff != "" {
 			t.Errorf("%s (-want +got):\n%s", label, diff)
 		}
 	}
@@ -112,17 +103,9 @@ func TestBoschlooReference(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if diff := cmp.Diff(reference(t)["signup.boschloo.greater"], got.PValue, cmpopts.EquateApprox(1e-6, 0)); diff != "" {
+	if diff := cmp.Diff(check.Reference(t)["signup.boschloo.greater"], got.PValue, cmpopts.EquateApprox(1e-6, 0)); diff != "" {
 		t.Errorf("one-sided Boschloo p (-want +got):\n%s", diff)
 	}
-}
-
-// wilson is the Wilson (1927) score interval in closed form.
-func wilson(k, n int64) (lo, hi float64) {
-	p, nf, z2 := float64(k)/float64(n), float64(n), z975*z975
-	mid := (p + z2/(2*nf)) / (1 + z2/nf)
-	half := z975 / (1 + z2/nf) * math.Sqrt(p*(1-p)/nf+z2/(4*nf*nf))
-	return mid - half, mid + half
 }
 
 // clopperPearson is the exact interval of Clopper and Pearson (1934) from the
@@ -161,67 +144,6 @@ func fleissCPS(p1, p2 float64) float64 {
 	const zb = 0.8416212335729143
 	pbar := (p1 + p2) / 2
 	d := math.Abs(p1 - p2)
-	n := math.Pow(z975*math.Sqrt(2*pbar*(1-pbar))+zb*math.Sqrt(p1*(1-p1)+p2*(1-p2)), 2) / (d * d)
+	n := math.Pow(check.Z975*math.Sqrt(2*pbar*(1-pbar))+zb*math.Sqrt(p1*(1-p1)+p2*(1-p2)), 2) / (d * d)
 	return math.Ceil(n / 4 * math.Pow(1+math.Sqrt(1+4/(n*d)), 2))
-}
-
-// reference reads the golden values of ../testdata/reference.tsv, written by
-// ../testdata/gen/reference.py (SciPy 1.10 and mpmath; see its header).
-func reference(t *testing.T) map[string]float64 {
-	t.Helper()
-	data, err := os.ReadFile("../testdata/reference.tsv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	ref := map[string]float64{}
-	for _, line := range strings.Split(string(data), "\n") {
-		key, val, ok := strings.Cut(line, "\t")
-		if !ok || strings.HasPrefix(line, "#") {
-			continue
-		}
-		x, err := strconv.ParseFloat(val, 64)
-		if err != nil {
-			t.Fatalf("reference.tsv: %q: %v", line, err)
-		}
-		ref[key] = x
-	}
-	return ref
-}
-
-var number = regexp.MustCompile(`[-+]?\d+(\.\d+)?(e[-+]?\d+)?`)
-
-// values returns the numbers on the output line that starts with label,
-// after the label.
-func values(t *testing.T, out, label string) []float64 {
-	t.Helper()
-	for _, line := range strings.Split(out, "\n") {
-		rest, ok := strings.CutPrefix(strings.TrimSpace(line), label)
-		if !ok {
-			continue
-		}
-		var xs []float64
-		for _, s := range number.FindAllString(rest, -1) {
-			x, err := strconv.ParseFloat(s, 64)
-			if err != nil {
-				t.Fatalf("line %q: %v", line, err)
-			}
-			xs = append(xs, x)
-		}
-		return xs
-	}
-	t.Fatalf("no line starting with %q in the output:\n%s", label, out)
-	return nil
-}
-
-// failWriter fails every write, as a closed pipe would.
-type failWriter struct{}
-
-func (failWriter) Write([]byte) (int, error) { return 0, errors.New("write failed") }
-
-// TestRunWriteError checks that a failing output is reported, not ignored.
-func TestRunWriteError(t *testing.T) {
-	t.Parallel()
-	if err := run(failWriter{}); err == nil {
-		t.Error("run ignored a failing writer")
-	}
 }
