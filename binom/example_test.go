@@ -112,3 +112,18 @@ func ExampleDist_Rand() {
 	// Output:
 	// average/n = 0.3000
 }
+
+// The seed bank of NewHyper's example again, now supposing (invented) that
+// the grower's picking favours rare seeds with an odds ratio of 3: Fisher's
+// noncentral hypergeometric distribution gives the conditional mean and
+// the chance of 5 or more rare seeds.
+func ExampleNoncentralHyper() {
+	d, err := binom.NewNoncentralHyper(40, 12, 10, 3)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("E[X] = %.4f, P(X >= 5) = %.4f\n", d.Mean(), d.Survival(4))
+	// Output:
+	// E[X] = 4.8993, P(X >= 5) = 0.6210
+}
