@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"math"
 	"math/big"
 	"testing"
@@ -22,12 +21,7 @@ var printed = cmpopts.EquateApprox(0, 5.01e-5)
 // mpmath inversion of his score statistic (../testdata/reference.tsv).
 func TestRun(t *testing.T) {
 	t.Parallel()
-	var buf bytes.Buffer
-	if err := run(&buf); err != nil {
-		t.Fatal(err)
-	}
-	out := buf.String()
-	check.Invented(t, out)
+	out := check.Output(t, run)
 
 	n := float64(messages)
 	pA, pB := (bothRight+onlyA)/n, (bothRight+onlyB)/n

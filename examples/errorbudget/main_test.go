@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"math"
 	"strconv"
 	"testing"
@@ -23,12 +22,7 @@ var printed = cmpopts.EquateApprox(0, 5.01e-7)
 // success-run formula.
 func TestRun(t *testing.T) {
 	t.Parallel()
-	var buf bytes.Buffer
-	if err := run(&buf); err != nil {
-		t.Fatal(err)
-	}
-	out := buf.String()
-	check.Invented(t, out)
+	out := check.Output(t, run)
 
 	// Clopper and Pearson (1934): the one-sided upper bound is the
 	// confidence quantile of Beta(k+1, n-k).

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"fmt"
 	"math"
 	"math/big"
@@ -22,12 +21,7 @@ import (
 // design, gonum's beta quantile for the Clopper-Pearson bound.
 func TestRun(t *testing.T) {
 	t.Parallel()
-	var buf bytes.Buffer
-	if err := run(&buf); err != nil {
-		t.Fatal(err)
-	}
-	out := buf.String()
-	check.Invented(t, out)
+	out := check.Output(t, run)
 	six := cmpopts.EquateApprox(0, 5.01e-6) // 6 printed decimals, or Montgomery's 5
 	four := cmpopts.EquateApprox(0, 5.01e-5)
 

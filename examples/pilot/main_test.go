@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"fmt"
 	"math"
 	"math/big"
@@ -30,12 +29,7 @@ const (
 // from gonum's beta quantiles and the Wilson limits in closed form.
 func TestRun(t *testing.T) {
 	t.Parallel()
-	var buf bytes.Buffer
-	if err := run(&buf); err != nil {
-		t.Fatal(err)
-	}
-	out := buf.String()
-	check.Invented(t, out)
+	out := check.Output(t, run)
 	if !strings.Contains(out, "qualified statistician") || !strings.Contains(out, "regulations") {
 		t.Errorf("output lacks the caution about studies on people:\n%s", out)
 	}

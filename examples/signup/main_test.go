@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"context"
 	"math"
 	"math/big"
@@ -30,12 +29,7 @@ var printed = cmpopts.EquateApprox(0, 5.01e-5)
 // against SciPy in TestBoschlooReference).
 func TestRun(t *testing.T) {
 	t.Parallel()
-	var buf bytes.Buffer
-	if err := run(&buf); err != nil {
-		t.Fatal(err)
-	}
-	out := buf.String()
-	check.Invented(t, out)
+	out := check.Output(t, run)
 
 	lA, uA := check.Wilson(signupsA, visitorsA)
 	lB, uB := check.Wilson(signupsB, visitorsB)

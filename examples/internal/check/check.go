@@ -5,7 +5,9 @@
 package check
 
 import (
+	"bytes"
 	"errors"
+	"io"
 	"math"
 	"os"
 	"regexp"
@@ -52,6 +54,20 @@ func Rows(t *testing.T, out, label string) [][]float64 {
 func Values(t *testing.T, out, label string) []float64 {
 	t.Helper()
 	return Rows(t, out, label)[0]
+}
+
+// Output runs a program's run function into a buffer, fails the test on an
+// error or when the first line does not label the data as invented, and
+// returns the output.
+func Output(t *testing.T, run func(io.Writer) error) string {
+	t.Helper()
+	var buf bytes.Buffer
+	if err := run(&buf); err != nil {
+		t.Fatal(err)
+	}
+	out := buf.String()
+	Invented(t, out)
+	return out
 }
 
 // Invented fails the test unless the first line of out labels the data as
