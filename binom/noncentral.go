@@ -105,7 +105,7 @@ func (d NoncentralHyper) Mode() int64 {
 	if psi > 1 {
 		A, B, C = 1-1/psi, -((K + n + 2) + (N-K-n)/psi), (K+1)*(n+1)
 	}
-	sq := math.Sqrt(B*B - 4*A*C)
+	sq := math.Sqrt(math.Max(0, B*B-4*A*C)) // real roots; guard the rounding
 	var x float64
 	if B <= 0 {
 		x = 2 * C / (sq - B)
