@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/test"
 )
 
 // PairedMethod selects the McNemar test whose power is computed. The zero
@@ -22,7 +23,8 @@ const (
 	// McNemarMidP is its mid-p version.
 	McNemarMidP
 	// McNemarAsymptotic is the chi-square test without continuity
-	// correction, whose power is given by Connor's (1987) normal formula.
+	// correction (its exact power is enumerated; Connor's (1987) normal
+	// formula for it is PairedNormalPower).
 	McNemarAsymptotic
 )
 
@@ -47,33 +49,59 @@ func ParsePairedMethod(s string) (PairedMethod, error) {
 	return 0, argerr.Invalid("power.ParsePairedMethod", "s", s, `is not a McNemar method; use "exact", "mid-p" or "asymptotic"`)
 }
 
-// condPower holds P(reject | d discordant pairs) for d = 0..len-1 for the
-// conditional McNemar test (the one-sample test of 1/2 carried along d).
+// condPower holds P(reject | d discordant pairs) for d = 0..len-1, under
+// the alternative (c) and under H0 (c0), for the conditional McNemar
+// tests.
 type condPower struct {
-	curve *oneCurve
-	c     []float64 // c[d]
-	size  *oneCurve
-	c0    []float64
+	next  func(d int64) (pw, size float64)
+	c, c0 []float64
 }
 
-func newCondPower(p10, p01, alpha float64, o PairedOptions, mid bool) *condPower {
+func newCondPower(p10, p01, alpha float64, o PairedOptions) *condPower {
 	psi := p10 + p01
 	q := 0.5
 	if psi > 0 {
 		q = p10 / psi
 	}
-	oo := OneSampleOptions{Alternative: o.Alternative, Method: Central, Mid: mid}
-	return &condPower{
-		curve: newCurve(0.5, q, alpha, oo), c: []float64{0},
-		size: newCurve(0.5, 0.5, alpha, oo), c0: []float64{0},
+	cp := &condPower{c: []float64{0}, c0: []float64{0}}
+	if o.Method == McNemarAsymptotic {
+		// Given d, the chi-square test rejects outside an interval of n10
+		// around d/2, decided by test.McNemar; the interval of d seeds d+1.
+		la := math.Log(alpha)
+		opt := test.McNemarOptions{Method: test.McNemarAsymptotic, Alternative: testAlt(o.Alternative)}
+		ga, gb := int64(0), int64(0)
+		cp.next = func(d int64) (float64, float64) {
+			ok := func(x int64) bool {
+				r, err := test.McNemar(x, d-x, opt)
+				return err != nil || r.LogPValue >= la
+			}
+			peak := d / 2
+			switch o.Alternative {
+			case Greater:
+				peak = 0
+			case Less:
+				peak = d
+			}
+			a, b := acceptInterval(ok, 0, d, peak, min(ga, d), min(gb+1, d))
+			if a <= b {
+				ga, gb = a, b
+			}
+			return rejectProb(d, q, a, b), rejectProb(d, 0.5, a, b)
+		}
+		return cp
 	}
+	oo := OneSampleOptions{Alternative: o.Alternative, Method: Central, Mid: o.Method == McNemarMidP}
+	alt, null := newCurve(0.5, q, alpha, oo), newCurve(0.5, 0.5, alpha, oo)
+	cp.next = func(d int64) (float64, float64) { return alt.power(d), null.power(d) }
+	return cp
 }
 
 // extend makes c and c0 cover d = 0..n.
 func (cp *condPower) extend(n int64) {
 	for d := int64(len(cp.c)); d <= n; d++ {
-		cp.c = append(cp.c, cp.curve.power(d))
-		cp.c0 = append(cp.c0, cp.size.power(d))
+		pw, size := cp.next(d)
+		cp.c = append(cp.c, pw)
+		cp.c0 = append(cp.c0, size)
 	}
 }
 
@@ -89,19 +117,20 @@ func (cp *condPower) at(n int64, psi float64, buf []float64) (pw, size float64, 
 	return math.Min(pw, 1), math.Min(size, 1), w
 }
 
-// PairedPower returns the power of McNemar's test with n pairs when the
-// discordant cell probabilities are p10 and p01. For the exact and mid-p
-// tests it is exact, by enumeration of the number of discordant pairs
-// D ~ Binomial(n, p10 + p01) and, given D = d, of N10 ~ Binomial(d,
-// p10/(p10 + p01)):
+// PairedPower returns the exact power of McNemar's test (o.Method: exact
+// conditional, mid-p, or the asymptotic chi-square test) with n pairs when
+// the discordant cell probabilities are p10 and p01, by enumeration of the
+// number of discordant pairs D ~ Binomial(n, p10 + p01) and, given D = d,
+// of N10 ~ Binomial(d, p10/(p10 + p01)):
 //
 //	power = sum_d P(D = d) P(reject | d),
 //
-// with the test package's conditional test (onesample, p0 = 1/2, central);
-// Size is the same sum under H0 with the same discordant probability. For
-// McNemarAsymptotic it is Connor's normal formula (PairedNormalPower) and
-// Size is Alpha. AcceptLo/AcceptHi are not used (-1). Cost O(n) plus
-// O(sqrt(n)) per call.
+// with the test package's decisions: the conditional tests through
+// onesample (p0 = 1/2, central, as test.McNemar computes them), the
+// asymptotic one through test.McNemar itself. Size is the same sum under
+// H0 with the same discordant probability (the asymptotic and mid-p tests
+// can exceed alpha). Connor's closed form is PairedNormalPower.
+// AcceptLo/AcceptHi are not used (-1). Cost O(n) plus O(sqrt(n)) per call.
 func PairedPower(n int64, p10, p01 float64, o PairedOptions) (ExactPower, error) {
 	const fn = "power.PairedPower"
 	if n < 1 {
@@ -118,22 +147,17 @@ func PairedPower(n int64, p10, p01 float64, o PairedOptions) (ExactPower, error)
 		return ExactPower{}, argerr.Invalid(fn, "Method", int(o.Method), "is not a defined PairedMethod")
 	}
 	r := ExactPower{Test: "McNemar " + o.Method.String() + ", " + o.Alternative.String(), N: n, Alpha: alpha, AcceptLo: -1, AcceptHi: -1}
-	if o.Method == McNemarAsymptotic {
-		r.Power, r.Size = pairedNormalPower(float64(n), p10, p01, alpha, o.Alternative), alpha
-		return r, nil
-	}
-	cp := newCondPower(p10, p01, alpha, o, o.Method == McNemarMidP)
+	cp := newCondPower(p10, p01, alpha, o)
 	r.Power, r.Size, _ = cp.at(n, p10+p01, nil)
 	return r, nil
 }
 
 // PairedN returns the number of pairs for McNemar's test to reach the
 // target power, searched on the exact power of PairedPower (the first n
-// and the stable n, as OneSampleN; the asymptotic method scans Connor's
-// formula the same way), with Connor's normal-approximation n beside it.
-// The scan starts at n = 1 and stops at o.MaxN (default DefaultMaxN, at
-// most MaxSearchN) with ErrNoSolution; ctx is checked every 256 n. Cost
-// O(N^1.5) for a result N.
+// and the stable n, as OneSampleN), with Connor's normal-approximation n
+// beside it. The scan starts at n = 1 and stops at o.MaxN (default
+// DefaultMaxN, at most MaxSearchN) with ErrNoSolution; ctx is checked
+// every 256 n. Cost O(N^1.5) for a result N.
 func PairedN(ctx context.Context, p10, p01 float64, o PairedOptions) (ExactSize, error) {
 	const fn = "power.PairedN"
 	alpha, pw, err := o.check(fn, p10, p01, true)
@@ -148,18 +172,12 @@ func PairedN(ctx context.Context, p10, p01 float64, o PairedOptions) (ExactSize,
 		return ExactSize{}, err
 	}
 	psi := p10 + p01
-	var power func(int64) float64
-	var cp *condPower
-	if o.Method == McNemarAsymptotic {
-		power = func(n int64) float64 { return pairedNormalPower(float64(n), p10, p01, alpha, o.Alternative) }
-	} else {
-		cp = newCondPower(p10, p01, alpha, o, o.Method == McNemarMidP)
-		var buf []float64
-		power = func(n int64) float64 {
-			var v float64
-			v, _, buf = cp.at(n, psi, buf)
-			return v
-		}
+	cp := newCondPower(p10, p01, alpha, o)
+	var buf []float64
+	power := func(n int64) float64 {
+		var v float64
+		v, _, buf = cp.at(n, psi, buf)
+		return v
 	}
 	r, err := searchStable(ctx, fn, power, pw, limit)
 	if err != nil {
@@ -170,11 +188,7 @@ func PairedN(ctx context.Context, p10, p01 float64, o PairedOptions) (ExactSize,
 	if at == 0 {
 		at = r.First
 	}
-	if cp != nil {
-		_, r.Size, _ = cp.at(at, psi, nil)
-	} else {
-		r.Size = alpha
-	}
+	_, r.Size, _ = cp.at(at, psi, nil)
 	if ns, err := PairedNormalN(p10, p01, o); err == nil {
 		r.Normal = ns
 	}

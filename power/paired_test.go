@@ -9,8 +9,8 @@ import (
 	"github.com/google/go-cmp/cmp/cmpopts"
 )
 
-// Exact power of McNemar's exact conditional and mid-p tests against an
-// independent enumeration of every (n10, n01) with multinomial
+// Exact power of McNemar's exact conditional, mid-p and asymptotic tests
+// against an independent enumeration of every (n10, n01) with multinomial
 // probabilities (SciPy): testdata/gen/power_paired.py.
 func TestPairedGolden(t *testing.T) {
 	t.Parallel()
@@ -26,8 +26,11 @@ func TestPairedGolden(t *testing.T) {
 		if o.Alternative, err = ParseAlternative(c["3"]); err != nil {
 			t.Fatal(err)
 		}
-		if c["mid"] == "1" {
+		switch c["mid"] {
+		case "1":
 			o.Method = McNemarMidP
+		case "2":
+			o.Method = McNemarAsymptotic
 		}
 		var want, got []float64
 		for _, r := range byCase[name] {
