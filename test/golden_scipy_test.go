@@ -43,18 +43,22 @@ func TestGoldenSciPy(t *testing.T) {
 			// only lower their p-value. So here the check is one-sided: ours
 			// is never below theirs. The two-sided check is against the
 			// generator's own exact-order reference (the _ref rows).
+			// (Measured on this file: barnard_exact is lower in 49 of 780
+			// rows; boschloo_exact, one-sided only, agrees within 1e-6 in
+			// all 520, which is checked too.)
 			got := uncondP(t, ctx, r)
-			if want := atof(t, r[7]); got.PValue < want*(1-1e-9) {
-				t.Errorf("%s: p = %v below SciPy's %v", what, got.PValue, want)
+			want := atof(t, r[7])
+			if got.PValue < want*(1-1e-9) || r[0] == "boschloo" && !relClose(got.PValue, want, 1e-6) {
+				t.Errorf("%s: p = %v against SciPy's %v", what, got.PValue, want)
 			}
 			if !relClose(got.Statistic, atof(t, r[6]), 1e-9) {
 				t.Errorf("%s: statistic %v", what, got.Statistic)
 			}
 		case "barnard_ref", "boschloo_ref":
-			// The reference refines the best three grid maxima of a
-			// 4001-point grid; its supremum can only be lower than the true one.
+			// The reference refines the best three maxima of a 4001-point
+			// grid; measured agreement 6e-14 relative over the 1560 rows.
 			got := uncondP(t, ctx, r)
-			if want := atof(t, r[6]); got.PValue < want*(1-1e-9) || got.PValue > want*(1+1e-6) {
+			if want := atof(t, r[6]); !relClose(got.PValue, want, 1e-9) {
 				t.Errorf("%s: p = %v at %v (rel %.3g)", what, got.PValue, got.Nuisance, got.PValue/want-1)
 			}
 		}

@@ -113,6 +113,16 @@ def zkey(x1, x2, n1, n2):
     return (1 if num > 0 else -1) * Fraction(num * num, s * (n1 + n2 - s))
 
 
+GRID = np.linspace(0, 1, 4001)
+_pmf_cache = {}
+
+
+def grid_pmf(n):
+    if n not in _pmf_cache:
+        _pmf_cache[n] = st.binom.pmf(np.arange(n + 1)[None, :], n, GRID[:, None])
+    return _pmf_cache[n]
+
+
 def sup_region(cells, n1, n2):
     a = np.array([c[0] for c in cells])
     b = np.array([c[1] for c in cells])
@@ -120,8 +130,8 @@ def sup_region(cells, n1, n2):
     def p(pi):
         return float(np.sum(st.binom.pmf(a, n1, pi) * st.binom.pmf(b, n2, pi)))
 
-    g = np.linspace(0, 1, 4001)
-    v = np.array([p(x) for x in g])
+    v = (grid_pmf(n1)[:, a] * grid_pmf(n2)[:, b]).sum(axis=1)
+    g = GRID
     peaks = [i for i in range(len(g)) if (i == 0 or v[i] >= v[i - 1]) and (i == len(g) - 1 or v[i] >= v[i + 1])]
     peaks = sorted(peaks, key=lambda i: -v[i])[:3]
     best = float(v.max())
@@ -130,6 +140,17 @@ def sup_region(cells, n1, n2):
         r = minimize_scalar(lambda x: -p(x), bounds=(lo, hi), method="bounded", options={"xatol": 1e-10})
         best = max(best, -float(r.fun))
     return best
+
+
+_fisher_cache = {}
+
+
+def fisher_all(n1, n2, alt):
+    key = (n1, n2, alt)
+    if key not in _fisher_cache:
+        _fisher_cache[key] = {(x1, x2): st.fisher_exact([[x1, x2], [n1 - x1, n2 - x2]], alternative=alt)[1]
+                              for x1 in range(n1 + 1) for x2 in range(n2 + 1)}
+    return _fisher_cache[key]
 
 
 def ref_rows():
@@ -147,7 +168,7 @@ def ref_rows():
             else:
                 reg = [c for c in cells if abs(zkey(c[0], c[1], n1, n2)) >= abs(zo)]
             rows.append(["barnard_ref", k1, n1, k2, n2, alt, repr(sup_region(reg, n1, n2))])
-            fp = {c: st.fisher_exact([[c[0], c[1]], [n1 - c[0], n2 - c[1]]], alternative=alt)[1] for c in cells}
+            fp = fisher_all(n1, n2, alt)
             thr = fp[(k1, k2)] * (1 + 1e-7)
             reg = [c for c in cells if fp[c] <= thr]
             rows.append(["boschloo_ref", k1, n1, k2, n2, alt, repr(sup_region(reg, n1, n2))])
