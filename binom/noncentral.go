@@ -305,9 +305,37 @@ func (d NoncentralHyper) Variance() float64 {
 
 // logOddsResidual returns ln(psi / psi') for psi' = p1 (1-p2) / ((1-p1) p2),
 // the exact odds ratio of the two doubles p1 and p2, evaluated as
-// log1p((psi (1-p1) p2 - p1 (1-p2)) / (p1 (1-p2))) with the numerator, a
-// cancellation of nearly equal products, in exact big.Float arithmetic.
+// log1p((psi (1-p1) p2 - p1 (1-p2)) / (p1 (1-p2))). The numerator cancels
+// nearly equal products; it is formed in double-double arithmetic (exact
+// products by math.FMA, exact 1-p by TwoSum), or in big.Float where the
+// products are so small that their low parts would be subnormal.
 func logOddsResidual(psi, p1, p2 float64) float64 {
+	q1h, q1l := oneMinus(p1)
+	q2h, q2l := oneMinus(p2)
+	xh := psi * q1h
+	xl := math.FMA(psi, q1h, -xh) + psi*q1l
+	ah := xh * p2
+	al := math.FMA(xh, p2, -ah) + xl*p2
+	bh := p1 * q2h
+	bl := math.FMA(p1, q2h, -bh) + p1*q2l
+	if !(ah > 1e-200 && bh > 1e-200 && ah < 1e200 && bh < 1e200) {
+		return logOddsResidualBig(psi, p1, p2)
+	}
+	// ah and bh agree to within a factor 2, so ah - bh is exact (Sterbenz).
+	return math.Log1p(((ah - bh) + (al - bl)) / bh)
+}
+
+// oneMinus returns 1 - p as an unevaluated sum hi + lo, exactly (TwoSum).
+func oneMinus(p float64) (hi, lo float64) {
+	hi = 1 - p
+	bv := hi - 1
+	lo = (1 - (hi - bv)) + (-p - bv)
+	return hi, lo
+}
+
+// logOddsResidualBig is logOddsResidual in 256-bit big.Float arithmetic,
+// for extreme magnitudes.
+func logOddsResidualBig(psi, p1, p2 float64) float64 {
 	const prec = 256
 	f := func(x float64) *big.Float { return new(big.Float).SetPrec(prec).SetFloat64(x) }
 	one := f(1)

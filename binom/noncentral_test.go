@@ -3,6 +3,7 @@ package binom
 import (
 	"errors"
 	"math"
+	"math/rand/v2"
 	"testing"
 )
 
@@ -106,5 +107,28 @@ func TestNoncentralLimits(t *testing.T) {
 			t.Errorf("Mean(psi = %g) = %g after %g", psi, m, prev)
 		}
 		prev = m
+	}
+}
+
+// TestLogOddsResidual compares the double-double residual with the
+// big.Float one over random odds ratios and probabilities (internal
+// consistency; both are exact to far below the residual's size).
+func TestLogOddsResidual(t *testing.T) {
+	t.Parallel()
+	r := rand.New(rand.NewPCG(3, 4))
+	for range 20000 {
+		psi := math.Exp(r.NormFloat64() * 30)
+		p1 := math.Exp(-r.ExpFloat64() * 20)
+		if r.IntN(2) == 0 {
+			p1 = 1 - p1/2
+		}
+		p2 := p1 / (p1 + psi*(1-p1))
+		if !(p2 > 0 && p2 < 1 && p1 < 1) {
+			continue
+		}
+		got, want := logOddsResidual(psi, p1, p2), logOddsResidualBig(psi, p1, p2)
+		if math.Abs(got-want) > 1e-30+1e-12*math.Abs(want) {
+			t.Fatalf("psi %g p1 %g p2 %g: residual %g, big.Float %g", psi, p1, p2, got, want)
+		}
 	}
 }
