@@ -99,6 +99,11 @@ func plainErr(got, lnWant float64) float64 {
 // accuracyBar is issue 2's accuracy bar for all six functions.
 const accuracyBar = 1e-13
 
+// regressionBar guards the accuracy reached: the worst errors measured on
+// the golden file are 5e-15 (LogProb, LogCDF, CDF), 4.6e-15 (Prob) and
+// 3.4e-15 (LogSurvival, Survival); a change that quadruples them fails.
+const regressionBar = 2e-14
+
 func TestGoldenAccuracy(t *testing.T) {
 	t.Parallel()
 	cases := readGolden(t)
@@ -140,5 +145,8 @@ func TestGoldenAccuracy(t *testing.T) {
 			t.Errorf("%s: %d cases over the bar in all", f.name, bad)
 		}
 		t.Logf("%-12s worst error %.3g over %d cases (n=%d p=%v k=%d)", f.name, worst, len(cases), at.n, at.p, at.k)
+		if worst > regressionBar && worst <= accuracyBar {
+			t.Errorf("%s: worst error %.3g, above the %.0e reached before (n=%d p=%v k=%d)", f.name, worst, regressionBar, at.n, at.p, at.k)
+		}
 	}
 }

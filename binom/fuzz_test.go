@@ -99,6 +99,24 @@ func FuzzAgainstExact(f *testing.F) {
 		if n > 80 {
 			return
 		}
+		// The quantiles against a scan of the tails they invert.
+		if qq := math.Mod(math.Abs(q), 1); !math.IsNaN(qq) && qq > 0 {
+			wantQ, wantU := n, n
+			for j := n; j >= 0; j-- {
+				if d.CDF(j) >= qq {
+					wantQ = j
+				}
+				if d.Survival(j) <= qq {
+					wantU = j
+				}
+			}
+			if got := d.Quantile(qq); got != wantQ {
+				t.Errorf("Dist{%d, %v}.Quantile(%v) = %d, scan %d", n, p, qq, got, wantQ)
+			}
+			if got := d.UpperQuantile(qq); got != wantU {
+				t.Errorf("Dist{%d, %v}.UpperQuantile(%v) = %d, scan %d", n, p, qq, got, wantU)
+			}
+		}
 		pmf, cdf, sf := exactLogs(n, p)
 		k = ((k % (n + 3)) + n + 3) % (n + 3) // 0..n+2
 		k--                                   // -1..n+1
