@@ -157,7 +157,8 @@ func run(w io.Writer) error {
 	r.line("  %s upper bound\t%.4f\t(one-sided %.0f%%, on the defect rate)", ub.Method, ub.Upper, 100*ub.Level)
 	r.warnings(ub.Warnings)
 	r.line("  The plan controls the risks over many lots; one accepted sample still allows")
-	r.line("  a defect rate above the AQL, as the upper bound shows.")
+	r.line("  a defect rate above the AQL, as the upper bound shows. Safety-critical parts need")
+	r.line("  the sampling standard and contract in force and a qualified quality engineer.")
 	return r.flush()
 }
 

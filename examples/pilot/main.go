@@ -91,7 +91,9 @@ func run(w io.Writer) error {
 	}
 	r.warnings(size.Warnings)
 	r.line("  patients\treject H0 if responders >=\tattained size\texact power")
-	for n := size.First - 5; n <= size.Stable+3; n++ {
+	// The test is one-sided (greater), so its acceptance region is
+	// 0..AcceptHi and H0 is rejected from AcceptHi+1 responders on.
+	for n := max(1, size.First-5); n <= size.Stable+3; n++ {
 		pw, err := power.OneSamplePower(n, nullRate, targetRate, opt)
 		if err != nil {
 			return err
