@@ -319,8 +319,10 @@ func logAddExp(a, b float64) float64 {
 // golden, totals up to 1e6: 3.3e-15). Cost: the terms above 1e-17 of the
 // largest in the range, a few nanoseconds each: about 9 standard
 // deviations' worth per side when the range reaches the bulk (about 2,000
-// terms at a total of 1e6 with balanced margins, 2e6 at 1e12), and about
-// 40/z standard deviations' worth z standard deviations out in a tail.
+// terms at a total of 1e6 with balanced margins, 2e6 at 1e12 and 2e8,
+// seconds, at 2^53), and about 40/z standard deviations' worth z standard
+// deviations out in a tail. The quantiles multiply this by the few tail
+// evaluations their search needs (two to six from the normal start).
 func (h Hyper) LogProbRange(lo, hi int64) float64 {
 	if !h.valid() {
 		return math.NaN()
