@@ -12,8 +12,9 @@
 //     intervals for each rate.
 //  2. How large is the lift B - A? Two-sided 95% intervals for the difference
 //     by Newcombe's hybrid score method and by Miettinen-Nurminen's score
-//     method (both recommended by Fagerland, Lydersen and Laake 2015); an
-//     interval that excludes 0 says the rates differ at the 5% level.
+//     method (both among the recommendations of Fagerland, Lydersen and Laake
+//     2015, recalled); an interval that excludes 0 says the rates differ at
+//     the 5% level.
 //  3. Could a difference this large arise by chance if the rates were equal?
 //     Two-sided exact tests: Boschloo's and Barnard's unconditional tests,
 //     which are more powerful than Fisher's conditional test at the same level,

@@ -88,6 +88,22 @@ func TestRun(t *testing.T) {
 	}
 }
 
+// TestFleissReference pins the normal-approximation size the program uses to
+// Fleiss JL (1981), Statistical Methods for Rates and Proportions, 2nd ed.,
+// Table A.3 with the Casagrande-Pike-Smith correction: p1 = 0.05, p2 = 0.10,
+// two-sided 0.05, power 0.80 needs 474 per group (recalled, recomputed), and
+// checks the test's own closed form against the same value.
+func TestFleissReference(t *testing.T) {
+	t.Parallel()
+	got, err := power.TwoSampleNormalN(0.05, 0.10, power.TwoSampleOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.N != 474 || fleissCPS(0.05, 0.10) != 474 {
+		t.Errorf("n = %d (closed form %g), want 474", got.N, fleissCPS(0.05, 0.10))
+	}
+}
+
 // TestBoschlooReference checks the one-sided version of the Boschloo test the
 // program uses against SciPy 1.10's boschloo_exact (../testdata/reference.tsv).
 func TestBoschlooReference(t *testing.T) {
