@@ -127,7 +127,8 @@ func (d NoncentralHyper) Mode() int64 {
 	return m
 }
 
-// weights returns the normalised weights of a non-degenerate distribution:
+// weights returns the normalised weights of a non-degenerate distribution
+// with the given mode (d.Mode()):
 // one outward summation from the mode, O(standard deviation) terms.
 //
 // The log weights come from a two-binomial form of Loader's (2000)
@@ -144,9 +145,9 @@ func (d NoncentralHyper) Mode() int64 {
 // computed exactly in big.Float arithmetic.
 // (The central PMF times psi^(j-m) would lose digits in proportion to
 // |ln P_central(m)|, 1e5 and more at totals of 1e6.)
-func (d NoncentralHyper) weights(visit func(j int64, t float64)) hyperWeights {
+func (d NoncentralHyper) weights(mode int64, visit func(j int64, t float64)) hyperWeights {
 	h := d.hyper()
-	w := hyperWeights{h: h, psi: d.OddsRatio, lnPsi: math.Log(d.OddsRatio), mode: d.Mode()}
+	w := hyperWeights{h: h, psi: d.OddsRatio, lnPsi: math.Log(d.OddsRatio), mode: mode}
 	psi := d.OddsRatio
 	m, K, N, n := w.mode, h.Successes, h.Total, h.Draws
 	var p1, p2 float64
@@ -193,7 +194,7 @@ func (d NoncentralHyper) LogProb(x int64) float64 {
 	if d.OddsRatio == 1 {
 		return d.hyper().LogProb(x)
 	}
-	w := d.weights(nil)
+	w := d.weights(d.Mode(), nil)
 	return w.logTerm(x) - w.logZ
 }
 
@@ -224,7 +225,7 @@ func (d NoncentralHyper) LogProbRange(lo, hi int64) float64 {
 	case d.OddsRatio == 1:
 		return d.hyper().LogProbRange(lo, hi)
 	}
-	w := d.weights(nil)
+	w := d.weights(d.Mode(), nil)
 	return min(0, w.logRange(lo, hi)) // rounding never lifts a probability above 1
 }
 
@@ -262,7 +263,7 @@ func (d NoncentralHyper) moments() (mean, variance float64) {
 	}
 	var s0, s1, s2 float64
 	m := d.Mode()
-	d.weights(func(j int64, t float64) {
+	d.weights(m, func(j int64, t float64) {
 		u := float64(j - m)
 		s0 += t
 		s1 += t * u
