@@ -18,6 +18,9 @@ type PairedOptions struct {
 	Alternative Alternative
 	// Method selects the McNemar test; the zero value is McNemarExact.
 	Method PairedMethod
+	// Enumerate, with McNemarAsymptotic, replaces Connor's formula by the
+	// exact power of the chi-square test, enumerated like the others.
+	Enumerate bool
 	// MaxN bounds the number of pairs in exact searches; 0 means DefaultMaxN.
 	MaxN int64
 }

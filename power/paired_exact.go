@@ -23,8 +23,9 @@ const (
 	// McNemarMidP is its mid-p version.
 	McNemarMidP
 	// McNemarAsymptotic is the chi-square test without continuity
-	// correction (its exact power is enumerated; Connor's (1987) normal
-	// formula for it is PairedNormalPower).
+	// correction, with the power of Connor's (1987) normal formula
+	// (PairedNormalPower), or, with PairedOptions.Enumerate, its exact
+	// power by enumeration (the test's real power, not the formula's).
 	McNemarAsymptotic
 )
 
@@ -127,9 +128,11 @@ func (cp *condPower) at(n int64, psi float64, buf []float64) (pw, size float64, 
 //
 // with the test package's decisions: the conditional tests through
 // onesample (p0 = 1/2, central, as test.McNemar computes them), the
-// asymptotic one through test.McNemar itself. Size is the same sum under
-// H0 with the same discordant probability (the asymptotic and mid-p tests
-// can exceed alpha). Connor's closed form is PairedNormalPower.
+// asymptotic one (McNemarAsymptotic with o.Enumerate) through
+// test.McNemar itself. Size is the same sum under H0 with the same
+// discordant probability (the asymptotic and mid-p tests can exceed
+// alpha). For McNemarAsymptotic without Enumerate the power is Connor's
+// closed form (PairedNormalPower) and Size is Alpha.
 // AcceptLo/AcceptHi are not used (-1). Cost O(n) plus O(sqrt(n)) per call.
 func PairedPower(n int64, p10, p01 float64, o PairedOptions) (ExactPower, error) {
 	const fn = "power.PairedPower"
@@ -147,6 +150,10 @@ func PairedPower(n int64, p10, p01 float64, o PairedOptions) (ExactPower, error)
 		return ExactPower{}, argerr.Invalid(fn, "Method", int(o.Method), "is not a defined PairedMethod")
 	}
 	r := ExactPower{Test: "McNemar " + o.Method.String() + ", " + o.Alternative.String(), N: n, Alpha: alpha, AcceptLo: -1, AcceptHi: -1}
+	if o.Method == McNemarAsymptotic && !o.Enumerate {
+		r.Power, r.Size = pairedNormalPower(float64(n), p10, p01, alpha, o.Alternative), alpha
+		return r, nil
+	}
 	cp := newCondPower(p10, p01, alpha, o)
 	r.Power, r.Size, _ = cp.at(n, p10+p01, nil)
 	return r, nil
@@ -172,12 +179,16 @@ func PairedN(ctx context.Context, p10, p01 float64, o PairedOptions) (ExactSize,
 		return ExactSize{}, err
 	}
 	psi := p10 + p01
-	cp := newCondPower(p10, p01, alpha, o)
+	var cp *condPower
 	var buf []float64
-	power := func(n int64) float64 {
-		var v float64
-		v, _, buf = cp.at(n, psi, buf)
-		return v
+	power := func(n int64) float64 { return pairedNormalPower(float64(n), p10, p01, alpha, o.Alternative) }
+	if o.Method != McNemarAsymptotic || o.Enumerate {
+		cp = newCondPower(p10, p01, alpha, o)
+		power = func(n int64) float64 {
+			var v float64
+			v, _, buf = cp.at(n, psi, buf)
+			return v
+		}
 	}
 	r, err := searchStable(ctx, fn, power, pw, limit)
 	if err != nil {
@@ -188,7 +199,10 @@ func PairedN(ctx context.Context, p10, p01 float64, o PairedOptions) (ExactSize,
 	if at == 0 {
 		at = r.First
 	}
-	_, r.Size, _ = cp.at(at, psi, nil)
+	r.Size = alpha
+	if cp != nil {
+		_, r.Size, _ = cp.at(at, psi, nil)
+	}
 	if ns, err := PairedNormalN(p10, p01, o); err == nil {
 		r.Normal = ns
 	}

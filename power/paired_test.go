@@ -30,7 +30,7 @@ func TestPairedGolden(t *testing.T) {
 		case "1":
 			o.Method = McNemarMidP
 		case "2":
-			o.Method = McNemarAsymptotic
+			o.Method, o.Enumerate = McNemarAsymptotic, true
 		}
 		var want, got []float64
 		for _, r := range byCase[name] {
