@@ -128,8 +128,8 @@ func (d NoncentralHyper) Mode() int64 {
 }
 
 // weights returns the normalised weights of a non-degenerate distribution
-// with the given mode (d.Mode()):
-// one outward summation from the mode, O(standard deviation) terms.
+// with the given mode (d.Mode()): one outward summation from the mode,
+// O(standard deviation) terms; visit, when not nil, sees each term.
 //
 // The log weights come from a two-binomial form of Loader's (2000)
 // identity: for any p1, p2 in (0, 1) with odds ratio
@@ -142,8 +142,10 @@ func (d NoncentralHyper) Mode() int64 {
 // farther from the ends of its range), both binomial terms sit near their
 // own modes, so their logarithms are small and keep their absolute
 // accuracy; the residual ln(psi/psi'), of the order of one rounding, is
-// computed exactly in big.Float arithmetic.
-// (The central PMF times psi^(j-m) would lose digits in proportion to
+// computed from an exact numerator (logOddsResidual). Odds ratios so
+// extreme that p1 or p2 would leave the normal floating-point range use
+// the plain form instead: the central PMF times psi^(j-m). (That form
+// in general loses digits in proportion to
 // |ln P_central(m)|, 1e5 and more at totals of 1e6.)
 func (d NoncentralHyper) weights(mode int64, visit func(j int64, t float64)) hyperWeights {
 	h := d.hyper()
