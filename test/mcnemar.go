@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 
+	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/onesample"
 )
@@ -88,8 +89,8 @@ func McNemar(n12, n21 int64, opt McNemarOptions) (Result, error) {
 	if err := argerr.Count(fn, "n21", n21); err != nil {
 		return Result{}, err
 	}
-	if n12 > math.MaxInt64-n21 {
-		return Result{}, argerr.TooLarge(fn, "n12", n12, "plus n21 overflows int64")
+	if n12 > binom.MaxN-n21 {
+		return Result{}, argerr.TooLarge(fn, "n12", n12, "plus n21 exceeds 2^53, the largest count held exactly in float64")
 	}
 	if opt.Method < 0 || int(opt.Method) >= len(mcnemarNames) {
 		return Result{}, argerr.Invalid(fn, "method", int(opt.Method), "is not a McNemar method")
@@ -104,8 +105,8 @@ func McNemar(n12, n21 int64, opt McNemarOptions) (Result, error) {
 	case McNemarExact, McNemarMidP:
 		t := onesample.Test{P0: 0.5, Method: onesample.Central, Mid: opt.Method == McNemarMidP, Alternative: onesample.Alternative(alt)}
 		lp, err := onesample.LogPValue(n12, nd, t)
-		if err != nil {
-			return Result{}, &argerr.Error{Func: fn, Arg: "n12", Value: argerr.Format(n12), Reason: "gives " + err.Error(), Err: err}
+		if err != nil { // unreachable: the counts were checked above
+			return Result{}, err
 		}
 		r = newResult(opt.Method.String(), alt, lp)
 		r.Statistic, r.StatisticName = float64(n12), "x12"
