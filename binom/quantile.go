@@ -14,14 +14,12 @@ type quantileTarget struct {
 // eval returns, at k in [0, N], the decision ok(k), made on the same
 // computation as CDF, Survival, LogCDF and LogSurvival (so the quantiles
 // invert them exactly), and a residual f(k) that increases with k and
-// changes sign at the answer, with its backward difference f(k) - f(k-1)
-// for the secant steps. The residual is taken on the tail whose target is
-// at most 1/2: ln CDF(k) - ln c (concave in k) or ln c - ln Survival(k)
-// (convex), c being the target or its complement; a log tail near 0 would
-// be nearly flat and slow the steps. The differences come from ln P(X = k)
-// without another tail evaluation.
-func (d Dist) eval(t *quantileTarget, k int64) (ok bool, f, slope float64) {
-	var l, s float64 // ln P(X <= k), ln P(X > k)
+// changes sign at the answer. The residual is taken on the tail whose
+// target is at most 1/2: ln CDF(k) - ln c (concave in k) or
+// ln c - ln Survival(k) (convex), c being the target or its complement; a
+// log tail near 0 would be nearly flat and slow the steps. l and s are
+// ln P(X <= k) and ln P(X > k), for slope.
+func (d Dist) eval(t *quantileTarget, k int64) (ok bool, f, l, s float64) {
 	if k >= d.N {
 		l, s = 0, math.Inf(-1)
 	} else {
@@ -40,30 +38,38 @@ func (d Dist) eval(t *quantileTarget, k int64) (ok bool, f, slope float64) {
 			ok = s <= t.lq
 		}
 	}
-	lb := d.LogProb(k)
-	lowerRes := t.upper == (t.lq > -math.Ln2) // residual on the lower tail
 	c := t.lq
 	if t.lq > -math.Ln2 {
 		c = log1mexp(t.lq)
 	}
-	if lowerRes {
+	if t.lowerResidual() {
+		return ok, l - c, l, s
+	}
+	return ok, c - s, l, s
+}
+
+// lowerResidual reports whether eval's residual is on the lower tail.
+func (t *quantileTarget) lowerResidual() bool { return t.upper == (t.lq > -math.Ln2) }
+
+// slope returns the backward difference f(k) - f(k-1) of eval's residual,
+// from ln P(X = k) without another tail evaluation; l and s are the log
+// tails at k.
+func (d Dist) slope(t *quantileTarget, k int64, l, s float64) float64 {
+	lb := d.LogProb(k)
+	if t.lowerResidual() {
 		// ln CDF(k-1) = l + ln(1 - b(k)/CDF(k)); where b(k) is all of
 		// CDF(k) to rounding, ln(b(k)/b(k-1)) bounds the difference from
 		// below (log-concavity).
 		if lb-l < -1e-12 {
-			slope = -log1mexp(lb - l)
-		} else {
-			slope = d.logRatioDown(k)
+			return -log1mexp(lb - l)
 		}
-		return ok, l - c, slope
+		return d.logRatioDown(k)
 	}
 	// ln Survival(k-1) = s + ln(1 + b(k)/Survival(k)).
 	if math.IsInf(s, -1) {
-		slope = math.Inf(1)
-	} else {
-		slope = log1pexp(lb - s)
+		return math.Inf(1)
 	}
-	return ok, c - s, slope
+	return log1pexp(lb - s)
 }
 
 // logRatioDown returns ln(b(k)/b(k-1)) = ln((N-k+1) P / (k (1-P))),
@@ -102,7 +108,7 @@ func (d Dist) search(t *quantileTarget, guess int64) int64 {
 		if k <= lo || k >= hi {
 			k = lo + (hi-lo)/2
 		}
-		ok, f, s := d.eval(t, k)
+		ok, f, lk, sk := d.eval(t, k)
 		if ok {
 			hi = k
 		} else {
@@ -111,7 +117,7 @@ func (d Dist) search(t *quantileTarget, guess int64) int64 {
 		if hi-lo <= 1 {
 			break
 		}
-		step := -f / s // predicted distance to the sign change of f
+		step := -f / d.slope(t, k, lk, sk) // predicted distance to the sign change of f
 		var next int64
 		switch {
 		case math.IsNaN(step):
