@@ -103,3 +103,11 @@ func mcnemar(n12, n21 int64) (exact, mid float64) {
 	mid, _ = md.Float64()
 	return exact, mid
 }
+
+// TestRunWriteError checks that a failing output is reported, not ignored.
+func TestRunWriteError(t *testing.T) {
+	t.Parallel()
+	if err := run(check.FailWriter{}); err == nil {
+		t.Error("run ignored a failing writer")
+	}
+}

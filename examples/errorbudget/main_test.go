@@ -77,3 +77,11 @@ func TestSuccessRun(t *testing.T) {
 		t.Errorf("confidence of 298 trials (-want +got):\n%s", diff)
 	}
 }
+
+// TestRunWriteError checks that a failing output is reported, not ignored.
+func TestRunWriteError(t *testing.T) {
+	t.Parallel()
+	if err := run(check.FailWriter{}); err == nil {
+		t.Error("run ignored a failing writer")
+	}
+}

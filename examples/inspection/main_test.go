@@ -128,3 +128,11 @@ func hyperCDF(k, n, lot, d int64) float64 {
 	f, _ := new(big.Rat).SetFrac(sum, new(big.Int).Binomial(lot, n)).Float64()
 	return f
 }
+
+// TestRunWriteError checks that a failing output is reported, not ignored.
+func TestRunWriteError(t *testing.T) {
+	t.Parallel()
+	if err := run(check.FailWriter{}); err == nil {
+		t.Error("run ignored a failing writer")
+	}
+}

@@ -208,3 +208,11 @@ func (tl tail) within(num, den int64) float64 {
 	}
 	return tl.prob(lo, hi)
 }
+
+// TestRunWriteError checks that a failing output is reported, not ignored.
+func TestRunWriteError(t *testing.T) {
+	t.Parallel()
+	if err := run(check.FailWriter{}); err == nil {
+		t.Error("run ignored a failing writer")
+	}
+}

@@ -157,3 +157,11 @@ func fleissCPS(p1, p2 float64) float64 {
 	n := math.Pow(check.Z975*math.Sqrt(2*pbar*(1-pbar))+zb*math.Sqrt(p1*(1-p1)+p2*(1-p2)), 2) / (d * d)
 	return math.Ceil(n / 4 * math.Pow(1+math.Sqrt(1+4/(n*d)), 2))
 }
+
+// TestRunWriteError checks that a failing output is reported, not ignored.
+func TestRunWriteError(t *testing.T) {
+	t.Parallel()
+	if err := run(check.FailWriter{}); err == nil {
+		t.Error("run ignored a failing writer")
+	}
+}
