@@ -86,7 +86,12 @@ def exact_tails(n, p, ks):
                 continue
             lo = mp.fsum(terms[: k + 1])
             hi = mp.fsum(terms[k + 1 :])
-            out[k] = (mp.log(lo), mp.log(hi))
+            # The larger tail as the complement of the smaller, which the
+            # sum holds to full relative precision (as in quad_tails).
+            if lo < hi:
+                out[k] = (mp.log(lo), mp.log1p(-lo))
+            else:
+                out[k] = (mp.log1p(-hi), mp.log(hi))
     return out
 
 
