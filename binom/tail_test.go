@@ -2,6 +2,7 @@ package binom
 
 import (
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
@@ -289,5 +290,55 @@ func TestMaxN(t *testing.T) {
 				t.Errorf("%v: quantile %d out of range", d, k)
 			}
 		}
+	}
+}
+
+// TestExpansionEdge samples distributions at random (fixed seed; N
+// log-uniform up to 1e13, P log-uniform down to 1e-15 from either end) and
+// points near the outer edge of the expansion's range (z^2 between 0.4 and
+// 0.5 of min(N P, N (1-P))), where its terms fall slowest: the expansion
+// must converge and agree with the continued fraction or term sum, which
+// are well conditioned there, to 1e-14.
+func TestExpansionEdge(t *testing.T) {
+	t.Parallel()
+	r := rand.New(rand.NewPCG(1, 2))
+	tried, bad := 0, 0
+	for range 20000 {
+		n := int64(math.Exp(r.Float64() * math.Log(1e13)))
+		p := math.Exp(-r.Float64() * 35)
+		if r.IntN(2) == 0 {
+			p = 1 - p
+		}
+		d := Dist{N: n, P: p}
+		v := d.Variance()
+		if n < 1 || p <= 0 || p >= 1 || v < temmeMinVar {
+			continue
+		}
+		mm := math.Min(d.Mean(), float64(n)*(1-p))
+		z := math.Sqrt((0.8 + 0.2*r.Float64()) * 0.5 * mm * (1 - math.Sqrt(0.5/mm)))
+		if r.IntN(2) == 0 {
+			z = -z
+		}
+		k := int64(d.Mean() + z*math.Sqrt(v))
+		fk, fn := float64(k), float64(n)
+		dz := fk + 0.5 - fn*p
+		if k < 0 || k >= n || math.Min(fk+1, fn-fk) < temmeMinAB || dz*dz > temmeZ2*math.Min(fk+1, fn-fk)*v {
+			continue
+		}
+		tried++
+		ls, _, lower, ok := d.temmeTail(k)
+		ref := d.logUpper(k)
+		if lower {
+			ref = d.logLower(k)
+		}
+		if e := logErr(ls, ref); !ok || e > 1e-14 {
+			bad++
+			if bad <= 5 {
+				t.Errorf("%v k=%d: expansion %v (converged %v), fraction or sum %v (error %.3g)", d, k, ls, ok, ref, e)
+			}
+		}
+	}
+	if tried < 2000 {
+		t.Errorf("only %d points tried", tried)
 	}
 }
