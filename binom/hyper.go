@@ -328,15 +328,26 @@ func (h Hyper) LogProbRange(lo, hi int64) float64 {
 		return math.NaN()
 	}
 	slo, shi := h.Support()
-	lo, hi = max(lo, slo), min(hi, shi)
-	switch {
-	case lo > hi:
-		return math.Inf(-1)
-	case lo == slo && hi == shi:
-		return 0
+	lo, hi, v, done := clipRange(lo, hi, slo, shi)
+	if done {
+		return v
 	}
 	w := h.centralWeights()
 	return min(0, w.logRange(lo, hi)) // rounding never lifts a probability above 1
+}
+
+// clipRange clips lo..hi to the support slo..shi and, when no summation is
+// needed, reports the log-probability: -Inf for an empty range, 0 for the
+// whole support.
+func clipRange(lo, hi, slo, shi int64) (a, b int64, v float64, done bool) {
+	a, b = max(lo, slo), min(hi, shi)
+	switch {
+	case a > b:
+		return a, b, math.Inf(-1), true
+	case a == slo && b == shi:
+		return a, b, 0, true
+	}
+	return a, b, 0, false
 }
 
 // ProbRange returns P(lo <= X <= hi) = exp(LogProbRange(lo, hi)).

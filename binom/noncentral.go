@@ -217,15 +217,13 @@ func (d NoncentralHyper) LogProbRange(lo, hi int64) float64 {
 		}
 		return math.Inf(-1)
 	}
-	slo, shi := d.Support()
-	lo, hi = max(lo, slo), min(hi, shi)
-	switch {
-	case lo > hi:
-		return math.Inf(-1)
-	case lo == slo && hi == shi:
-		return 0
-	case d.OddsRatio == 1:
+	if d.OddsRatio == 1 {
 		return d.hyper().LogProbRange(lo, hi)
+	}
+	slo, shi := d.Support()
+	lo, hi, v, done := clipRange(lo, hi, slo, shi)
+	if done {
+		return v
 	}
 	w := d.weights(d.Mode(), nil)
 	return min(0, w.logRange(lo, hi)) // rounding never lifts a probability above 1
