@@ -10,15 +10,19 @@ import "math"
 //	d_{2m+1}  = -(a+m)(a+b+m) x / ((a+2m)(a+2m+1)),
 //	d_{2m}    = m (b-m) x / ((a+2m-1)(a+2m)),
 //
-// (Abramowitz and Stegun 26.5.8; DiDonato and Morris 1992, ACM TOMS 18,
-// section 3) by the forward three-term recurrence of its convergents,
+// (Abramowitz and Stegun 1964, 26.5.8, recalled; DiDonato and Morris 1992,
+// ACM TOMS 18:360-373) by the forward three-term recurrence of its
+// convergents,
 // renormalised after every pair of steps. The coefficient divisions are off
 // the recurrence's critical path, so a step costs a few nanoseconds. It
 // converges for x < (a+1)/(a+b+2); the number of steps grows like
 // sqrt(a b/(a+b)) next to that boundary, where the callers use the uniform
 // expansion instead (temme.go), and falls to a handful a few standard
-// deviations away. The result is relative-accurate to a few ulps times the
-// number of steps.
+// deviations away. Its rounding error grows like its value, about
+// 1/(1 - rho) for the ratio rho of successive PMF terms (the leading
+// denominators cancel near the mean: at N = 1e12 within a few standard
+// deviations that costs 1e-11), so the callers use it only where rho is
+// well below 1 and x <= 1/2; there it is good to a few ulps.
 func betaFrac(a, b, x float64) float64 {
 	const eps = 3e-16 // just above the rounding noise of the convergents
 	apb := a + b

@@ -120,9 +120,9 @@ func log1mexp(x float64) float64 {
 // accuracy; no small tail is ever 1 - CDF. Three methods share the work:
 //   - in the bulk of a distribution with N P (1-P) >= 16 and both beta
 //     parameters >= 25, out to z^2 <= min(k+1, N-k)/2 standard deviations,
-//     the uniform asymptotic expansion of the incomplete beta (Temme 1992,
-//     SIAM J. Math. Anal. 18; derived for this package in temme.go), both
-//     tails through erfc of the signed root deviance;
+//     the uniform asymptotic expansion of the incomplete beta (after
+//     Temme, SIAM J. Math. Anal. 18, 1987; derived for this package in
+//     temme.go), both tails through erfc of the signed root deviance;
 //   - elsewhere, on the side where the argument of the incomplete beta is
 //     at most 1/2, its continued fraction (DiDonato and Morris 1992, ACM
 //     TOMS 18:360-373) times the PMF of Loader (2000) as a log-space
