@@ -18,8 +18,8 @@ digits, computed with mpmath (Debian python3-mpmath):
     exact sums at n = 3000, then writes the larger tail as the complement of
     the smaller at full precision.
 
-Run: /usr/bin/python3 testdata/gen/binom_golden.py  (about three minutes on two
-cores). The PMF is ln C(n, k) + k ln p + (n-k) ln q from mpmath.loggamma at
+Run: /usr/bin/python3 testdata/gen/binom_golden.py  (about four minutes of
+CPU in two processes; longer in wall time on a loaded machine). The PMF is ln C(n, k) + k ln p + (n-k) ln q from mpmath.loggamma at
 50 digits.
 """
 import datetime
