@@ -19,8 +19,9 @@ digits, computed with mpmath (Debian python3-mpmath):
     the smaller at full precision.
 
 Run: /usr/bin/python3 testdata/gen/binom_golden.py  (about four minutes of
-CPU in two processes; longer in wall time on a loaded machine). The PMF is ln C(n, k) + k ln p + (n-k) ln q from mpmath.loggamma at
-50 digits.
+CPU in two processes; longer in wall time on a loaded machine).
+The PMF is ln C(n, k) + k ln p + (n-k) ln q from mpmath.loggamma at 50
+digits.
 """
 import datetime
 import math
