@@ -214,6 +214,28 @@ func TestHyperProperties(t *testing.T) {
 	}
 }
 
+// TestHyperFarQuantiles checks that the log-space quantiles invert the
+// tails far below the smallest double (ln P down to about -1800).
+func TestHyperFarQuantiles(t *testing.T) {
+	t.Parallel()
+	for _, h := range []Hyper{{1000000, 500000, 500000}, {1000, 300, 200}, {1e12, 3e11, 1e6}} {
+		lo, hi := h.Support()
+		for _, z := range []float64{-60, -40, -25, 25, 40, 60} {
+			k := min(hi-1, max(lo+1, int64(h.Mean()+z*h.StdDev())))
+			if lc := h.LogCDF(k); lc < -700 || z < 0 {
+				if q := h.LogQuantile(lc); q != k {
+					t.Errorf("%v: LogQuantile(LogCDF(%d) = %g) = %d", h, k, lc, q)
+				}
+			}
+			if ls := h.LogSurvival(k); ls < -700 || z > 0 {
+				if q := h.LogUpperQuantile(ls); q != k {
+					t.Errorf("%v: LogUpperQuantile(LogSurvival(%d) = %g) = %d", h, k, ls, q)
+				}
+			}
+		}
+	}
+}
+
 // TestHyperMoments compares the closed-form moments with direct sums of
 // the PMF (the sums are the definition; the formulas are textbook, e.g.
 // Johnson NL, Kemp AW, Kotz S (2005), Univariate Discrete Distributions,
