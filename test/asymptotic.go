@@ -3,7 +3,6 @@ package test
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/internal/argerr"
 )
@@ -35,10 +34,7 @@ var twoSampleNames = [...]string{"z pooled", "z unpooled", "Pearson chi-square",
 // String returns "z pooled", "z unpooled", "Pearson chi-square" or
 // "Pearson chi-square Yates".
 func (m TwoSampleMethod) String() string {
-	if m < 0 || int(m) >= len(twoSampleNames) {
-		return fmt.Sprintf("TwoSampleMethod(%d)", int(m))
-	}
-	return twoSampleNames[m]
+	return enumName(int(m), twoSampleNames[:], "TwoSampleMethod")
 }
 
 // MarshalText encodes the method by its name.
@@ -46,13 +42,8 @@ func (m TwoSampleMethod) MarshalText() ([]byte, error) { return []byte(m.String(
 
 // ParseTwoSampleMethod returns the method whose String() is s, ignoring case.
 func ParseTwoSampleMethod(s string) (TwoSampleMethod, error) {
-	t := strings.TrimSpace(s)
-	for i, name := range twoSampleNames {
-		if strings.EqualFold(t, name) {
-			return TwoSampleMethod(i), nil
-		}
-	}
-	return 0, argerr.Invalid("test.ParseTwoSampleMethod", "s", s, "is not a two-sample method; use one of "+strings.Join(twoSampleNames[:], ", "))
+	i, err := parseEnum("test.ParseTwoSampleMethod", s, twoSampleNames[:], "", "a two-sample method")
+	return TwoSampleMethod(i), err
 }
 
 // TwoSampleOptions are the options of TwoSample; the zero value is the

@@ -3,7 +3,6 @@ package test
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
@@ -60,25 +59,15 @@ var binomialNames = [...]string{
 // String returns the method's name: "point-probability",
 // "point-probability mid-p", "central", "central mid-p", "Blaker",
 // "Blaker mid-p", "score", "score-cc" or "likelihood-ratio".
-func (m BinomialMethod) String() string {
-	if m < 0 || int(m) >= len(binomialNames) {
-		return fmt.Sprintf("BinomialMethod(%d)", int(m))
-	}
-	return binomialNames[m]
-}
+func (m BinomialMethod) String() string { return enumName(int(m), binomialNames[:], "BinomialMethod") }
 
 // MarshalText encodes the method by its name.
 func (m BinomialMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
 
 // ParseBinomialMethod returns the method whose String() is s, ignoring case.
 func ParseBinomialMethod(s string) (BinomialMethod, error) {
-	t := strings.TrimSpace(s)
-	for i, name := range binomialNames {
-		if strings.EqualFold(t, name) {
-			return BinomialMethod(i), nil
-		}
-	}
-	return 0, argerr.Invalid("test.ParseBinomialMethod", "s", s, "is not a one-sample method; use one of "+strings.Join(binomialNames[:], ", "))
+	i, err := parseEnum("test.ParseBinomialMethod", s, binomialNames[:], "", "a one-sample method")
+	return BinomialMethod(i), err
 }
 
 // exact reports whether m is one of the exact methods, and its definition.

@@ -1,9 +1,6 @@
 package test
 
 import (
-	"fmt"
-	"strings"
-
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/onesample"
@@ -30,12 +27,7 @@ const (
 var fisherNames = [...]string{"Fisher point-probability", "Fisher central"}
 
 // String returns "Fisher point-probability" or "Fisher central".
-func (m FisherMethod) String() string {
-	if m < 0 || int(m) >= len(fisherNames) {
-		return fmt.Sprintf("FisherMethod(%d)", int(m))
-	}
-	return fisherNames[m]
-}
+func (m FisherMethod) String() string { return enumName(int(m), fisherNames[:], "FisherMethod") }
 
 // MarshalText encodes the method by its name.
 func (m FisherMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
@@ -43,13 +35,8 @@ func (m FisherMethod) MarshalText() ([]byte, error) { return []byte(m.String()),
 // ParseFisherMethod returns the method whose String() is s, ignoring case;
 // "point-probability" and "central" are accepted without the prefix.
 func ParseFisherMethod(s string) (FisherMethod, error) {
-	t := strings.TrimSpace(s)
-	for i, name := range fisherNames {
-		if strings.EqualFold(t, name) || strings.EqualFold(t, strings.TrimPrefix(name, "Fisher ")) {
-			return FisherMethod(i), nil
-		}
-	}
-	return 0, argerr.Invalid("test.ParseFisherMethod", "s", s, "is not a Fisher two-sided definition; use point-probability or central")
+	i, err := parseEnum("test.ParseFisherMethod", s, fisherNames[:], "Fisher ", "a Fisher two-sided definition")
+	return FisherMethod(i), err
 }
 
 func (m FisherMethod) onesample() onesample.Method {

@@ -28,65 +28,51 @@ const invertGrid = 100
 // accepted (possible only for mid-p tests at large alpha).
 func invert(lp func(float64) float64, la, phat float64, alt Alternative, scan bool) (lo, hi float64, gaps, ok bool) {
 	acc := func(p float64) bool { return lp(p) >= la }
-	rej := func(p float64) bool { return lp(p) < la }
 	if !acc(phat) {
 		scan = true
 	}
-	const rel, abs = 1e-12, 1e-300
-	lo, hi = 0, 1
+	lo, hi, ok = 0, 1, true
+	var g1, g2 bool
 	if alt != Less && !acc(0) {
-		if !scan {
-			lo = root.Bisect(acc, 0, phat, rel, abs)
-		} else {
-			t1 := math.Asin(math.Sqrt(phat))
-			prev := 0.0
-			found := false
-			for i := 1; i <= invertGrid; i++ {
-				s := math.Sin(t1 * float64(i) / invertGrid)
-				g := s * s
-				if i == invertGrid {
-					g = phat
-				}
-				if !found && acc(g) {
-					lo = root.Bisect(acc, prev, g, rel, abs)
-					found = true
-				} else if found && !acc(g) {
-					gaps = true
-					break
-				}
-				prev = g
-			}
-			if !found {
-				return math.NaN(), math.NaN(), false, false
-			}
-		}
+		lo, g1, ok = end(acc, 0, phat, scan)
 	}
-	if alt != Greater && !acc(1) {
-		if !scan {
-			hi = root.Bisect(rej, phat, 1, rel, abs)
-		} else {
-			t0 := math.Asin(math.Sqrt(phat))
-			prev := 1.0
-			found := false
-			for i := 1; i <= invertGrid; i++ {
-				s := math.Sin(math.Pi/2 - (math.Pi/2-t0)*float64(i)/invertGrid)
-				g := s * s
-				if i == invertGrid {
-					g = phat
-				}
-				if !found && acc(g) {
-					hi = root.Bisect(rej, g, prev, rel, abs)
-					found = true
-				} else if found && !acc(g) {
-					gaps = true
-					break
-				}
-				prev = g
-			}
-			if !found {
-				return math.NaN(), math.NaN(), false, false
-			}
-		}
+	if ok && alt != Greater && !acc(1) {
+		hi, g2, ok = end(acc, 1, phat, scan)
 	}
-	return lo, hi, gaps, true
+	if !ok {
+		return math.NaN(), math.NaN(), false, false
+	}
+	return lo, hi, g1 || g2, true
+}
+
+// end returns the end of the accepted set between the rejected outer point
+// out (0 or 1) and the estimate phat, as described on invert.
+func end(acc func(float64) bool, out, phat float64, scan bool) (float64, bool, bool) {
+	const rel, abs = 1e-12, 1e-300
+	boundary := func(a, b float64) float64 { // a rejected, b accepted
+		if out == 0 {
+			return root.Bisect(acc, a, b, rel, abs)
+		}
+		return root.Bisect(func(p float64) bool { return !acc(p) }, b, a, rel, abs)
+	}
+	if !scan {
+		return boundary(out, phat), false, true
+	}
+	t0, t1 := math.Asin(math.Sqrt(out)), math.Asin(math.Sqrt(phat))
+	prev, at, found := out, 0.0, false
+	for i := 1; i <= invertGrid; i++ {
+		s := math.Sin(t0 + (t1-t0)*float64(i)/invertGrid)
+		g := s * s
+		if i == invertGrid {
+			g = phat
+		}
+		switch a := acc(g); {
+		case !found && a:
+			at, found = boundary(prev, g), true
+		case found && !a:
+			return at, true, true
+		}
+		prev = g
+	}
+	return at, false, found
 }

@@ -3,7 +3,6 @@ package test
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/score"
@@ -42,25 +41,15 @@ const (
 var marginNames = [...]string{"Miettinen-Nurminen", "Farrington-Manning"}
 
 // String returns "Miettinen-Nurminen" or "Farrington-Manning".
-func (m MarginMethod) String() string {
-	if m < 0 || int(m) >= len(marginNames) {
-		return fmt.Sprintf("MarginMethod(%d)", int(m))
-	}
-	return marginNames[m]
-}
+func (m MarginMethod) String() string { return enumName(int(m), marginNames[:], "MarginMethod") }
 
 // MarshalText encodes the method by its name.
 func (m MarginMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
 
 // ParseMarginMethod returns the method whose String() is s, ignoring case.
 func ParseMarginMethod(s string) (MarginMethod, error) {
-	t := strings.TrimSpace(s)
-	for i, name := range marginNames {
-		if strings.EqualFold(t, name) {
-			return MarginMethod(i), nil
-		}
-	}
-	return 0, argerr.Invalid("test.ParseMarginMethod", "s", s, "is not a margin method; use Miettinen-Nurminen or Farrington-Manning")
+	i, err := parseEnum("test.ParseMarginMethod", s, marginNames[:], "", "a margin method")
+	return MarginMethod(i), err
 }
 
 func (m MarginMethod) variance() score.Variance {

@@ -3,7 +3,6 @@ package test
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
@@ -38,12 +37,7 @@ var mcnemarNames = [...]string{"McNemar mid-p", "McNemar exact", "McNemar asympt
 
 // String returns "McNemar mid-p", "McNemar exact", "McNemar asymptotic"
 // or "McNemar asymptotic-cc".
-func (m McNemarMethod) String() string {
-	if m < 0 || int(m) >= len(mcnemarNames) {
-		return fmt.Sprintf("McNemarMethod(%d)", int(m))
-	}
-	return mcnemarNames[m]
-}
+func (m McNemarMethod) String() string { return enumName(int(m), mcnemarNames[:], "McNemarMethod") }
 
 // MarshalText encodes the method by its name.
 func (m McNemarMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
@@ -51,13 +45,8 @@ func (m McNemarMethod) MarshalText() ([]byte, error) { return []byte(m.String())
 // ParseMcNemarMethod returns the method whose String() is s, ignoring case;
 // the leading "McNemar " may be left out ("mid-p", "exact", ...).
 func ParseMcNemarMethod(s string) (McNemarMethod, error) {
-	t := strings.TrimSpace(s)
-	for i, name := range mcnemarNames {
-		if strings.EqualFold(t, name) || strings.EqualFold(t, strings.TrimPrefix(name, "McNemar ")) {
-			return McNemarMethod(i), nil
-		}
-	}
-	return 0, argerr.Invalid("test.ParseMcNemarMethod", "s", s, "is not a McNemar method; use mid-p, exact, asymptotic or asymptotic-cc")
+	i, err := parseEnum("test.ParseMcNemarMethod", s, mcnemarNames[:], "McNemar ", "a McNemar method")
+	return McNemarMethod(i), err
 }
 
 // McNemarOptions are the options of McNemar; the zero value is the
