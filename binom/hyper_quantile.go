@@ -51,7 +51,12 @@ func searchRange(lo, hi, guess int64, ok func(int64) bool) int64 {
 // the support; z is a standard normal quantile.
 func (h Hyper) guess(z float64) int64 {
 	lo, hi := h.Support()
-	g := h.Mean() + z*h.StdDev()
+	// Plain float moments suffice for a start (Mean and Variance are exact
+	// but allocate).
+	N, K, n := float64(h.Total), float64(h.Successes), float64(h.Draws)
+	mean := n * K / N
+	sd := math.Sqrt(mean * (N - K) / N * (N - n) / math.Max(1, N-1))
+	g := mean + z*sd
 	if math.IsNaN(g) || g < float64(lo) {
 		return lo
 	}
