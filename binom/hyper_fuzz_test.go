@@ -83,7 +83,7 @@ func FuzzNoncentralHyper(f *testing.F) {
 	f.Add(int64(100), int64(3), int64(50), 1e300, int64(3))
 	f.Add(int64(100), int64(3), int64(50), 0.0, int64(0))
 	f.Add(int64(100), int64(3), int64(50), math.NaN(), int64(0))
-	f.Add(int64(307), int64(30), int64(32), 0.0765625, int64(28)) // once a CDF of 1 + 4e-16
+	f.Add(int64(307), int64(30), int64(32), 0.0765625, int64(28))  // once a CDF of 1 + 4e-16
 	f.Add(int64(1000), int64(300), int64(200), 1e-310, int64(100)) // once NaN (subnormal p1)
 	f.Fuzz(func(t *testing.T, N, K, n int64, psi float64, x int64) {
 		d, err := NewNoncentralHyper(N, K, n, psi)
