@@ -145,3 +145,50 @@ func FuzzRand(f *testing.F) {
 		}
 	})
 }
+
+// TestInvalidAndSpecial pins the documented values for hand-built invalid
+// distributions and for the special arguments of the quantiles.
+func TestInvalidAndSpecial(t *testing.T) {
+	t.Parallel()
+	bad := Hyper{10, 11, 3}
+	for i, v := range []float64{bad.LogProb(1), bad.LogCDF(1), bad.LogSurvival(1), bad.LogProbRange(0, 2), bad.Mean(),
+		bad.Variance(), bad.Skewness(), bad.ExKurtosis(), bad.Entropy()} {
+		if !math.IsNaN(v) {
+			t.Errorf("invalid Hyper: value %d = %v, want NaN", i, v)
+		}
+	}
+	r := rand.New(rand.NewPCG(1, 1))
+	if lo, hi := bad.Support(); lo != -1 || hi != -1 || bad.Mode() != -1 || bad.Quantile(0.5) != -1 ||
+		bad.UpperQuantile(0.5) != -1 || bad.LogQuantile(-1) != -1 || bad.LogUpperQuantile(-1) != -1 || bad.Rand(r) != -1 {
+		t.Errorf("invalid Hyper: integer results not -1")
+	}
+	nb := NoncentralHyper{10, 3, 3, -1}
+	for i, v := range []float64{nb.LogProb(1), nb.LogCDF(1), nb.LogSurvival(1), nb.ProbRange(0, 2), nb.Mean(), nb.Variance()} {
+		if !math.IsNaN(v) {
+			t.Errorf("invalid NoncentralHyper: value %d = %v, want NaN", i, v)
+		}
+	}
+	if lo, hi := nb.Support(); lo != -1 || hi != -1 || nb.Mode() != -1 {
+		t.Errorf("invalid NoncentralHyper: support or mode not -1")
+	}
+	if (Dist{-1, 0.5}).Rand(r) != -1 || (Dist{5, 0}).Rand(r) != 0 || (Dist{5, 1}).Rand(r) != 5 || (Dist{0, 0.5}).Rand(r) != 0 {
+		t.Errorf("Dist.Rand special cases")
+	}
+	h := Hyper{30, 19, 15} // support 4..15
+	got := []int64{h.Quantile(0), h.Quantile(-1), h.Quantile(1), h.Quantile(1.5), h.Quantile(math.NaN()),
+		h.UpperQuantile(1), h.UpperQuantile(2), h.UpperQuantile(0), h.UpperQuantile(-0.5),
+		h.LogQuantile(math.Inf(-1)), h.LogQuantile(0), h.LogQuantile(0.1),
+		h.LogUpperQuantile(0), h.LogUpperQuantile(math.Inf(-1)), h.LogUpperQuantile(0.1)}
+	want := []int64{4, 4, 15, -1, -1, 4, 4, 15, -1, 4, 15, -1, 4, 15, -1}
+	for i := range want {
+		if got[i] != want[i] {
+			t.Errorf("special quantile %d = %d, want %d", i, got[i], want[i])
+		}
+	}
+	if v := h.LogSurvival(math.MaxInt64); !math.IsInf(v, -1) {
+		t.Errorf("LogSurvival(MaxInt64) = %v", v)
+	}
+	if v := (NoncentralHyper{30, 19, 15, 2}).LogSurvival(math.MaxInt64); !math.IsInf(v, -1) {
+		t.Errorf("noncentral LogSurvival(MaxInt64) = %v", v)
+	}
+}
