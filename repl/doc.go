@@ -23,6 +23,22 @@
 // plot style and width) are changed with "set name=value" and shown with
 // "set" alone; they last for the session.
 //
+// # Output
+//
+// Each command prints a compact block: a title naming the method by its
+// published name, the level and the side, then aligned label/value rows
+// and any warnings; some add a terminal plot (Unicode blocks, or ASCII
+// with -ascii, set plot=ascii or a non-UTF-8 locale). With -json or
+// "set json=on" each command prints instead one JSON object on one line,
+//
+//	{"command": "bounds", "input": "bounds 17/40", "result": {...}}
+//
+// where result is the package's result value (non-finite numbers as the
+// strings "+Inf", "-Inf", "NaN"); a failed command prints
+// {"command": ..., "error": ...}. The batch command (each) always writes
+// CSV: the input columns, the result columns in full precision, and an
+// error column.
+//
 // # Modes
 //
 // On a terminal the shell reads lines with github.com/chzyer/readline,
