@@ -1,6 +1,10 @@
 package binom
 
-import "math"
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/internal/xmath"
+)
 
 // searchRange returns the smallest k in [lo, hi] with ok(k) true, for a
 // predicate that is monotone (false ... false true ... true) and true at
@@ -132,5 +136,5 @@ func normalZ(q float64) float64 {
 	if q > 0.5 {
 		return -zFromLog(math.Log1p(-q))
 	}
-	return zFromLog(math.Log(q))
+	return zFromLog(xmath.Log(q))
 }

@@ -5,6 +5,7 @@ import (
 	"math/big"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // NoncentralHyper is Fisher's noncentral hypergeometric distribution: the
@@ -149,7 +150,7 @@ func (d NoncentralHyper) Mode() int64 {
 // |ln P_central(m)|, 1e5 and more at totals of 1e6.)
 func (d NoncentralHyper) weights(mode int64, visit func(j int64, t float64)) hyperWeights {
 	h := d.hyper()
-	w := hyperWeights{h: h, psi: d.OddsRatio, lnPsi: math.Log(d.OddsRatio), mode: mode}
+	w := hyperWeights{h: h, psi: d.OddsRatio, lnPsi: xmath.Log(d.OddsRatio), mode: mode}
 	psi := d.OddsRatio
 	m, K, N, n := w.mode, h.Successes, h.Total, h.Draws
 	var p1, p2 float64

@@ -1,6 +1,10 @@
 package binom
 
-import "math"
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/internal/xmath"
+)
 
 // ln2pi is ln(2 pi).
 const ln2pi = 1.8378770664093454835606594728112
@@ -163,9 +167,31 @@ func (d Dist) pmfSpecial(k int64) (float64, bool) {
 	case k == 0:
 		return float64(n) * math.Log1p(-p), true
 	case k == n:
-		return float64(n) * math.Log(p), true
+		return float64(n) * xmath.Log(p), true
+	case p < tinyP:
+		return d.tinyLogProb(k), true
 	}
 	return 0, false
+}
+
+// tinyP is the success probability below which N P (at most 2^53 P < 1e-184)
+// can underflow inside Loader's form. There the PMF is computed from the
+// exact identity
+//
+//	ln b(k; P) = ln b(k; P') + k (ln P - ln P') + (N-k) (ln(1-P) - ln(1-P'))
+//
+// with the reference P' = k/N, where ln b(k; P') sits at the mode and is
+// accurate; the remaining terms are dominated by k ln P, so nothing
+// cancels and the result keeps the package's relative accuracy.
+const tinyP = 1e-200
+
+// tinyLogProb returns ln P(X = k) for 0 < k < N and 0 < P < tinyP by the
+// identity on tinyP.
+func (d Dist) tinyLogProb(k int64) float64 {
+	ref := Dist{N: d.N, P: float64(k) / float64(d.N)}
+	lc, v := ref.pmfParts(k)
+	fk, fnk := float64(k), float64(d.N-k)
+	return lc - 0.5*math.Log(v) + fk*(xmath.Log(d.P)-math.Log(ref.P)) + fnk*(math.Log1p(-d.P)-math.Log1p(-ref.P))
 }
 
 // pmfParts returns the two parts of Loader's form for 0 < k < N and

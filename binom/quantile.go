@@ -1,6 +1,10 @@
 package binom
 
-import "math"
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/internal/xmath"
+)
 
 // quantileTarget describes one quantile search: the smallest k in [0, N]
 // at which ok(k) holds, where ok is monotone (false ... false true ... true)
@@ -78,7 +82,7 @@ func (d Dist) logRatioDown(k int64) float64 {
 	if k <= 0 {
 		return math.Inf(1)
 	}
-	return math.Log(float64(d.N-k+1)/float64(k)) + math.Log(d.P) - math.Log1p(-d.P)
+	return math.Log(float64(d.N-k+1)/float64(k)) + xmath.Log(d.P) - math.Log1p(-d.P)
 }
 
 // log1pexp returns ln(1 + e^x) without overflow or loss for small e^x.
@@ -255,7 +259,7 @@ func (d Dist) Quantile(q float64) int64 {
 	case q == 1 || d.P == 1:
 		return d.N
 	}
-	t := quantileTarget{plain: true, q: q, lq: math.Log(q)}
+	t := quantileTarget{plain: true, q: q, lq: xmath.Log(q)}
 	return d.search(&t, d.guess(zFromLog(t.lq)))
 }
 
@@ -294,7 +298,7 @@ func (d Dist) UpperQuantile(q float64) int64 {
 	case q == 0 || d.P == 1:
 		return d.N
 	}
-	t := quantileTarget{upper: true, plain: true, q: q, lq: math.Log(q)}
+	t := quantileTarget{upper: true, plain: true, q: q, lq: xmath.Log(q)}
 	return d.search(&t, d.guess(-zFromLog(t.lq)))
 }
 

@@ -1,6 +1,10 @@
 package binom
 
-import "math"
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/internal/xmath"
+)
 
 // lowerDirect reports whether the lower tail P(X <= k) is the one whose
 // continued fraction converges: 1-P < (N-k+1)/(N+3). That is also, up to a
@@ -23,7 +27,7 @@ func (d Dist) lowerDirect(k int64) bool {
 func (d Dist) logLower(k int64) float64 {
 	if d.P >= 0.5 {
 		cf := betaFrac(float64(d.N-k), float64(k+1), 1-d.P)
-		return d.LogProb(k) + math.Log(d.P) + math.Log(cf)
+		return d.LogProb(k) + xmath.Log(d.P) + math.Log(cf)
 	}
 	n := float64(d.N)
 	qp := (1 - d.P) / d.P
@@ -82,6 +86,12 @@ const (
 // ln of the other tail, computed from the smaller as log1p(-small) (where
 // the expansion gives the small tail in linear space) or log1mexp.
 func (d Dist) smallTail(k int64) (lnSmall, lnLarge float64, lower bool) {
+	if d.P < tinyP {
+		// Successive terms shrink by a factor below N P < 1e-184, so the
+		// upper tail is its first term to every digit.
+		ls := d.LogProb(k + 1)
+		return ls, log1mexp(ls), false
+	}
 	n := float64(d.N)
 	if v := n * d.P * (1 - d.P); v >= temmeMinVar {
 		fk := float64(k)
@@ -105,7 +115,7 @@ func (d Dist) smallTail(k int64) (lnSmall, lnLarge float64, lower bool) {
 // (Maechler 2012, "Accurately computing log(1 - exp(-|a|))").
 func log1mexp(x float64) float64 {
 	if x > -math.Ln2 {
-		return math.Log(-math.Expm1(x))
+		return xmath.Log(-math.Expm1(x)) // -expm1(x) is subnormal for subnormal x
 	}
 	return math.Log1p(-math.Exp(x))
 }

@@ -3,6 +3,8 @@ package binom
 import (
 	"math"
 	"sync"
+
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // The uniform asymptotic expansion of the regularized incomplete beta
@@ -199,7 +201,7 @@ func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
 	if az < 30 {
 		// Tail = Phi(-|z|) -+ phi(z) S/D, both terms from erfc and exp.
 		small = 0.5*math.Erfc(az/math.Sqrt2) + math.Exp(lnPhi)*corr
-		return math.Log(small), small, lower, true
+		return xmath.Log(small), small, lower, true
 	}
 	lnSmall = lnPhi + math.Log(millsRatio(az)+corr)
 	return lnSmall, math.Exp(lnSmall), lower, true
