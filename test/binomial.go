@@ -105,8 +105,10 @@ type BinomialOptions struct {
 // one-sided alternative). A test at level alpha = 1 - Level rejects when
 // PValue < alpha, exactly when Interval excludes p0 (for the
 // point-probability and Blaker tests the accepted set of p0 can have
-// gaps; the interval is then its hull, and a warning says so when the
-// 100-point search grid sees a gap).
+// gaps; the interval is then its hull, exact for the point-probability
+// test (Sterne's interval, see sterneEnd) and found on a 100-point grid
+// refined by bisection for the others, and a warning says so when a
+// 100-point grid inside it sees a gap).
 //
 // Result: Statistic is k for the exact methods, z for the score methods
 // and G2 for the likelihood ratio; Estimate is k/n; Null is p0.
@@ -169,8 +171,14 @@ func Binomial(k, n int64, p0 float64, opt BinomialOptions) (Result, error) {
 	if !opt.SkipInterval {
 		lp := func(p float64) float64 { return binomialLogP(m, k, n, p, alt) }
 		om, _, ex := m.exact()
-		scan := ex && om != onesample.Central
-		lo, hi, gaps, ok := invert(lp, math.Log(1-lvl), r.Estimate, alt, scan)
+		scan := ex && om != onesample.Central && alt == TwoSided
+		var lo, hi float64
+		var gaps, ok bool
+		if m == ExactPoint && alt == TwoSided {
+			lo, hi, gaps, ok = sterne(k, n, math.Log(1-lvl))
+		} else {
+			lo, hi, gaps, ok = invert(lp, math.Log(1-lvl), r.Estimate, alt, scan)
+		}
 		if !ok {
 			r.Warnings = append(r.Warnings, "no null value is accepted at this level: the interval is empty")
 		} else if gaps {
