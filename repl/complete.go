@@ -48,6 +48,25 @@ func completions(head string) ([]string, string) {
 	if cmd == helpCmd {
 		return commandNames(), word
 	}
+	done := len(words) // words before the one being completed
+	if word != "" {
+		done--
+	}
+	if cmd == eachCmd {
+		switch {
+		case done == 1: // the file: nothing to offer
+			return nil, ""
+		case done == 2:
+			var cands []string
+			for _, v := range rowVerbs() {
+				cands = append(cands, v+" ")
+			}
+			return cands, word
+		}
+		if cmd = registry[strings.ToLower(words[2])]; cmd == nil {
+			return nil, ""
+		}
+	}
 	if name, val, ok := strings.Cut(word, "="); ok {
 		o := cmd.option(strings.ToLower(name))
 		if o == nil {
@@ -57,11 +76,17 @@ func completions(head string) ([]string, string) {
 		if o.Name == "method" && len(cmd.Methods) > 0 {
 			vals = cmd.Methods
 		}
+		prefix := ""
+		if cmd == coverCmd { // a comma-separated list of methods
+			if i := strings.LastIndex(val, ","); i >= 0 {
+				prefix, val = val[:i+1], val[i+1:]
+			}
+		}
 		var cands []string
 		for _, v := range vals {
-			cands = append(cands, v+" ")
+			cands = append(cands, prefix+v+" ")
 		}
-		return cands, val
+		return cands, prefix + val
 	}
 	var cands []string
 	for _, o := range cmd.Options {

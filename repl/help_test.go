@@ -63,6 +63,10 @@ func TestCompletion(t *testing.T) {
 		{"spread n=40 le", "level=", "le"},
 		{"set plot=a", "ascii ", "a"},
 		{"help ur", "urn", "ur"},
+		{"bounds 17/40 method=cl", "clopper-pearson ", "cl"},
+		{"cover n=30 method=wald,wi", "wald,wilson ", "wald,wi"},
+		{"each data.csv bo", "bounds ", "bo"},
+		{"each data.csv bounds me", "method=", "me"},
 	}
 	for _, tc := range tests {
 		cands, word := completions(tc.head)
