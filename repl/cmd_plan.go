@@ -248,11 +248,11 @@ func (in planInputs) describe(s *Session) string {
 	case oneSample:
 		return "one sample, H0 p = " + fmtIn(in.p0) + ", truth " + fmtIn(in.p1) + ", alpha " + fmtIn(in.alpha) + ", " + in.sideText
 	case twoSample:
-		h := ""
-		if in.two.Hypothesis != power.Equality {
+		h := ", " + in.sideText
+		if in.two.Hypothesis != power.Equality { // margins fix the side themselves
 			h = ", " + in.two.Hypothesis.String() + " margin " + fmtIn(in.two.Margin)
 		}
-		return "two groups, p1 = " + fmtIn(in.q1) + ", p2 = " + fmtIn(in.q2) + ", alpha " + fmtIn(in.alpha) + ", " + in.sideText + h
+		return "two groups, p1 = " + fmtIn(in.q1) + ", p2 = " + fmtIn(in.q2) + ", alpha " + fmtIn(in.alpha) + h
 	}
 	return "paired, yes-no " + fmtIn(in.yn) + ", no-yes " + fmtIn(in.ny) + ", alpha " + fmtIn(in.alpha) + ", " + in.sideText
 }
@@ -279,6 +279,9 @@ func (in planInputs) powerAt(ctx context.Context, n, n2 int64) (float64, string,
 		ex, err = power.TwoSamplePower(ctx, n, n2, in.q1, in.q2, in.two)
 	case in.form == twoSample:
 		p, err := power.TwoSampleNormalPower(n, n2, in.q1, in.q2, in.two)
+		if in.two.Hypothesis != power.Equality {
+			return p, "normal approximation (" + in.two.Hypothesis.String() + ", unpooled variance)", nil, err
+		}
 		return p, "normal approximation (" + in.two.Variance.String() + " variance, correction " + in.two.Correction.String() + ")", nil, err
 	default:
 		ex, err = power.PairedPower(n, in.yn, in.ny, in.pair)
