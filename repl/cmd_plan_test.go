@@ -127,3 +127,19 @@ func TestCancel(t *testing.T) {
 		t.Errorf("session after cancel: %v %q", err, out.String())
 	}
 }
+
+func TestMarginDesignsMatchPackage(t *testing.T) {
+	t.Parallel()
+	for line, h := range map[string]power.Hypothesis{
+		"size p1=0.85 p2=0.85 hypothesis=non-inferiority margin=0.1": power.NonInferiority,
+		"size p1=0.85 p2=0.85 hypothesis=equivalence margin=0.1":     power.Equivalence,
+	} {
+		want, err := power.TwoSampleNormalN(0.85, 0.85, power.TwoSampleOptions{Alpha: 0.05, Hypothesis: h, Margin: 0.1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := num(t, runJSON(t, line), "normal.n"); got != float64(want.N) {
+			t.Errorf("%s: n %v, package %d", line, got, want.N)
+		}
+	}
+}
