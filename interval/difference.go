@@ -88,15 +88,8 @@ type DiffOptions struct {
 // (0, 1), or an unknown Method or Side.
 func Difference(k1, n1, k2, n2 int64, opt DiffOptions) (Interval, error) {
 	const fn = "interval.Difference"
-	d, err := newTwoSample(fn, k1, n1, k2, n2)
+	d, lv, err := setupTwoSample(fn, k1, n1, k2, n2, opt.Level, opt.Side, int(opt.Method), int(numDiffMethods))
 	if err != nil {
-		return Interval{}, err
-	}
-	lv, err := newLevel(fn, opt.Level, opt.Side)
-	if err != nil {
-		return Interval{}, err
-	}
-	if err := checkMethod(fn, int(opt.Method), int(numDiffMethods)); err != nil {
 		return Interval{}, err
 	}
 	est := d.p1 - d.p2

@@ -44,34 +44,40 @@ func solveIncreasing(f func(float64) float64, t0 float64) float64 {
 	if f0 == 0 {
 		return t0
 	}
-	lo, hi := t0, t0
+	lo, hi, flo, fhi := t0, t0, f0, f0
 	step := 0.125
 	if f0 < 0 {
-		for {
-			lo = hi
+		for fhi < 0 {
+			lo, flo = hi, fhi
 			if hi >= tMax {
 				return tMax
 			}
 			hi = math.Min(hi+step, tMax)
+			fhi = f(hi)
 			step *= 4
-			if f(hi) >= 0 {
-				break
-			}
 		}
 	} else {
-		for {
-			hi = lo
+		for flo > 0 {
+			hi, fhi = lo, flo
 			if lo <= -tMax {
 				return -tMax
 			}
 			lo = math.Max(lo-step, -tMax)
+			flo = f(lo)
 			step *= 4
-			if f(lo) <= 0 {
-				break
-			}
 		}
 	}
-	t, err := root.Brent(f, lo, hi, 1e-15, 1e-15)
+	// Brent evaluates both ends again; serve them from the bracket search.
+	g := func(x float64) float64 {
+		switch x {
+		case lo:
+			return flo
+		case hi:
+			return fhi
+		}
+		return f(x)
+	}
+	t, err := root.Brent(g, lo, hi, 1e-15, 1e-15)
 	if err != nil {
 		// Only a NaN from f gets here; fall back to bisection on the sign.
 		t = root.Bisect(func(x float64) bool { return f(x) >= 0 }, lo, hi, 1e-15, 1e-15)

@@ -1,7 +1,6 @@
 package interval
 
 import (
-	"math"
 	"strings"
 
 	"github.com/kofnlab/kofn/internal/argerr"
@@ -128,7 +127,3 @@ func newLevel(fn string, lev float64, side Side) (level, error) {
 // wantLower and wantUpper report which limits the side asks for.
 func (l level) wantLower() bool { return l.side != UpperBound }
 func (l level) wantUpper() bool { return l.side != LowerBound }
-
-// normalTail returns P(Z > z) for a standard normal Z, accurately in the
-// far tail (erfc, not 1 - Phi).
-func normalTail(z float64) float64 { return 0.5 * math.Erfc(z/math.Sqrt2) }

@@ -84,15 +84,8 @@ type OddsOptions struct {
 // Errors: as Difference.
 func OddsRatio(k1, n1, k2, n2 int64, opt OddsOptions) (Interval, error) {
 	const fn = "interval.OddsRatio"
-	_, err := newTwoSample(fn, k1, n1, k2, n2)
+	_, lv, err := setupTwoSample(fn, k1, n1, k2, n2, opt.Level, opt.Side, int(opt.Method), int(numOddsMethods))
 	if err != nil {
-		return Interval{}, err
-	}
-	lv, err := newLevel(fn, opt.Level, opt.Side)
-	if err != nil {
-		return Interval{}, err
-	}
-	if err := checkMethod(fn, int(opt.Method), int(numOddsMethods)); err != nil {
 		return Interval{}, err
 	}
 	a, b, c, d := float64(k1), float64(n1-k1), float64(k2), float64(n2-k2)

@@ -73,15 +73,8 @@ type RatioOptions struct {
 // Errors: as Difference.
 func Ratio(k1, n1, k2, n2 int64, opt RatioOptions) (Interval, error) {
 	const fn = "interval.Ratio"
-	d, err := newTwoSample(fn, k1, n1, k2, n2)
+	d, lv, err := setupTwoSample(fn, k1, n1, k2, n2, opt.Level, opt.Side, int(opt.Method), int(numRatioMethods))
 	if err != nil {
-		return Interval{}, err
-	}
-	lv, err := newLevel(fn, opt.Level, opt.Side)
-	if err != nil {
-		return Interval{}, err
-	}
-	if err := checkMethod(fn, int(opt.Method), int(numRatioMethods)); err != nil {
 		return Interval{}, err
 	}
 	iv := Interval{Estimate: d.p1 / d.p2, Level: lv.level, Side: lv.side, Method: opt.Method.String(), Parameter: "p1 / p2"}

@@ -24,6 +24,20 @@ func newTwoSample(fn string, k1, n1, k2, n2 int64) (twoSample, error) {
 	return twoSample{k1, n1, k2, n2, float64(k1) / float64(n1), float64(k2) / float64(n2)}, nil
 }
 
+// setupTwoSample validates the counts, level, side and method of a
+// two-sample interval for function fn.
+func setupTwoSample(fn string, k1, n1, k2, n2 int64, lev float64, side Side, method, count int) (twoSample, level, error) {
+	d, err := newTwoSample(fn, k1, n1, k2, n2)
+	if err != nil {
+		return twoSample{}, level{}, err
+	}
+	lv, err := newLevel(fn, lev, side)
+	if err != nil {
+		return twoSample{}, level{}, err
+	}
+	return d, lv, checkMethod(fn, method, count)
+}
+
 // checkMethod validates an enum value against its count.
 func checkMethod(fn string, m, count int) error {
 	if m < 0 || m >= count {
