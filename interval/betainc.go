@@ -137,3 +137,41 @@ func log1mexp(x float64) float64 {
 	}
 	return math.Log1p(-math.Exp(x))
 }
+
+// logBetaUpper returns ln(1 - I_x(a, b)) = ln P(B > x), B ~ Beta(a, b),
+// with y = 1 - x given. Below the mean-like point (a+1)/(a+b+2) it is the
+// complement of the direct continued fraction. Above it, where the
+// continued fraction would have to run in 1 - x and so lose the low digits
+// of a small y... no: where it would run in x rather than y the rounding of
+// x = 1 - y costs accuracy; while (a+b) x <= 1e5 the lower tail is summed
+// instead as the positive series
+//
+//	I_x(a, b) = x^a y^b / (a B(a, b)) * sum_j prod_{i<j} (a+b+i) x / (a+1+i),
+//
+// which needs about (a+b) x + 10 sqrt((a+b) x) + 40 terms, and the upper
+// tail is its complement (relative error about 1e-16 / P(B > x)). Beyond
+// that it falls back to logBetaCDF's complement.
+func logBetaUpper(a, b, x, y float64) float64 {
+	switch {
+	case x <= 0:
+		return 0
+	case y <= 0:
+		return math.Inf(-1)
+	}
+	if x*(a+b+2) < a+1 {
+		return log1mexp(logBetaDirect(a, b, x, y))
+	}
+	if (a+b)*x > 1e5 {
+		return logBetaDirect(b, a, y, x)
+	}
+	sum, t := 1.0, 1.0
+	for j := 0.0; j < 3e5; j++ {
+		t *= (a + b + j) * x / (a + 1 + j)
+		sum += t
+		if t < 1e-17*sum {
+			break
+		}
+	}
+	lower := logDbinomReal(a, a+b, x, y) + math.Log(b/(a+b)) + math.Log(sum)
+	return log1mexp(math.Min(lower, 0))
+}

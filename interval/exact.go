@@ -160,7 +160,26 @@ func exactLower(m Method, k, n int64, lv level) float64 { return expit(lowerT(m,
 // exactUpper returns the upper limit for k by the symmetry of every
 // root-found method, U(k, n) = 1 - L(n-k, n), taken on the log-odds scale
 // as expit(-t) so that it keeps full precision. U = 1 at k = n.
-func exactUpper(m Method, k, n int64, lv level) float64 { return expit(-lowerT(m, n-k, n, lv)) }
+func exactUpper(m Method, k, n int64, lv level) float64 {
+	if m == Jeffreys && k < n && 2*k < n {
+		return jeffreysUpper(k, n, lv)
+	}
+	return expit(-lowerT(m, n-k, n, lv))
+}
+
+// jeffreysUpper returns the Jeffreys upper limit for 2k < n directly, as the
+// U with P(Beta(k+1/2, n-k+1/2) > U) = a, from logBetaUpper: through the
+// mirror image the small tail would be evaluated in 1 - U.
+func jeffreysUpper(k, n int64, lv level) float64 {
+	a, b := float64(k)+0.5, float64(n-k)+0.5
+	la := math.Log(lv.tail)
+	t := solveIncreasing(func(t float64) float64 {
+		p, q := pq(t)
+		return la - logBetaUpper(a, b, p, q)
+	}, logOdds(wilsonUpper(k, n, lv.z)))
+	p, _ := pq(t)
+	return p
+}
 
 // endT returns the log-odds of p = e^lp, for a closed-form limit p near 1.
 func endT(lp float64) float64 { return lp - math.Log(-math.Expm1(lp)) }

@@ -48,7 +48,7 @@ func TestProportionProperties(t *testing.T) {
 						t.Errorf("%v %d/%d level %v: estimate %v outside [%v, %v]", m, k, n, lev, iv.Estimate, lo, hi)
 					}
 					mirror, _ := interval.Proportion(n-k, n, interval.Options{Method: m, Level: lev})
-					if math.Abs(lo-(1-mirror.Upper)) > 1e-14 || math.Abs(hi-(1-mirror.Lower)) > 1e-14 {
+					if math.Abs(lo-(1-mirror.Upper)) > 1e-13 || math.Abs(hi-(1-mirror.Lower)) > 1e-13 {
 						t.Errorf("%v %d/%d level %v: [%v, %v] not symmetric with %d/%d [%v, %v]", m, k, n, lev, lo, hi, n-k, n, mirror.Lower, mirror.Upper)
 					}
 					if i > 0 && (lo > inner[0]+1e-15 || hi < inner[1]-1e-15) {
