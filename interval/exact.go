@@ -155,30 +155,34 @@ func logAddExp(a, b float64) float64 {
 
 // exactLower returns the lower limit for k of a method found by root
 // finding: expit of lowerT.
-func exactLower(m Method, k, n int64, lv level) float64 { return expit(lowerT(m, k, n, lv)) }
+func exactLower(m Method, k, n int64, lv level) float64 {
+	if m == Jeffreys && k > 0 && 2*(n-k) < n {
+		return expit(-jeffreysUpperT(n-k, n, lv)) // 1 - U(n-k), see jeffreysUpperT
+	}
+	return expit(lowerT(m, k, n, lv))
+}
 
 // exactUpper returns the upper limit for k by the symmetry of every
 // root-found method, U(k, n) = 1 - L(n-k, n), taken on the log-odds scale
 // as expit(-t) so that it keeps full precision. U = 1 at k = n.
 func exactUpper(m Method, k, n int64, lv level) float64 {
 	if m == Jeffreys && k < n && 2*k < n {
-		return jeffreysUpper(k, n, lv)
+		return expit(jeffreysUpperT(k, n, lv))
 	}
 	return expit(-lowerT(m, n-k, n, lv))
 }
 
-// jeffreysUpper returns the Jeffreys upper limit for 2k < n directly, as the
-// U with P(Beta(k+1/2, n-k+1/2) > U) = a, from logBetaUpper: through the
-// mirror image the small tail would be evaluated in 1 - U.
-func jeffreysUpper(k, n int64, lv level) float64 {
+// jeffreysUpperT returns the log-odds of the Jeffreys upper limit for
+// 2k < n, found directly as the U with P(Beta(k+1/2, n-k+1/2) > U) = a from
+// logBetaUpper: through the mirror image the small tail would be evaluated
+// in 1 - U. The lower limit for n-k is its mirror, expit(-t).
+func jeffreysUpperT(k, n int64, lv level) float64 {
 	a, b := float64(k)+0.5, float64(n-k)+0.5
 	la := math.Log(lv.tail)
-	t := solveIncreasing(func(t float64) float64 {
+	return solveIncreasing(func(t float64) float64 {
 		p, q := pq(t)
 		return la - logBetaUpper(a, b, p, q)
 	}, logOdds(wilsonUpper(k, n, lv.z)))
-	p, _ := pq(t)
-	return p
 }
 
 // endT returns the log-odds of p = e^lp, for a closed-form limit p near 1.

@@ -106,3 +106,25 @@ func nums(t *testing.T, s, seps string) []int64 {
 	}
 	return out
 }
+
+func TestJeffreysMirrorLargeN(t *testing.T) {
+	t.Parallel()
+	// The mirror images of the mpmath golden's large-n Jeffreys rows:
+	// limits for n - k are 1 minus those for k (Beta symmetry). A float64
+	// near 1 holds 1 - L only to 1.1e-16 absolute, so the check is that the
+	// lower limit is the double nearest 1 - U (to one unit in the last
+	// place), which is what full relative accuracy of L means there.
+	for _, c := range []struct{ k, n int64 }{{5, 1e6}, {2, 1e9}, {5, 1e12}} {
+		iv, err := interval.Proportion(c.k, c.n, interval.Options{Method: interval.Jeffreys})
+		if err != nil {
+			t.Fatal(err)
+		}
+		mv, err := interval.Proportion(c.n-c.k, c.n, interval.Options{Method: interval.Jeffreys})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if d := math.Abs(mv.Lower - (1 - iv.Upper)); d > 1.2e-16 {
+			t.Errorf("%d/%d: lower = %.17g, 1 - upper of the mirror = %.17g (off by %.2g)", c.n-c.k, c.n, mv.Lower, 1-iv.Upper, d)
+		}
+	}
+}
