@@ -70,7 +70,7 @@
 // Blaker, the score and exact two-sample and paired intervals) are
 // searched by bracketed root finding to 1e-15 relative and checked in the
 // tests by inversion (the test's p-value at the limit equals the tail
-// probability to 1e-10) and against SciPy, R-free mpmath goldens to 1e-12
+// probability to 1e-10) and against SciPy and mpmath goldens to 1e-12
 // relative. See the Proportion doc for the known limits at n above 1e10.
 //
 // # Caution

@@ -51,12 +51,23 @@ const (
 // Accuracy: the closed-form limits (Wald, Wald with cc, Wilson, Wilson with
 // cc, Agresti-Coull, arcsine, logit) are computed without cancellation, to
 // a few units in the last place. The limits found by root finding
-// (Clopper-Pearson, mid-p, Jeffreys, Blaker, likelihood ratio) are
-// accurate to 1e-12 relative for n up to 1e12: the search runs on the
-// log-odds scale to a relative tolerance of 1e-15, and the tail
-// probabilities come from package binom (accurate to 1e-13 relative) or,
-// for Jeffreys, from a real-parameter incomplete beta in log space with
-// Loader's (2000) saddle-point prefactor.
+// (Clopper-Pearson, mid-p, Jeffreys, Blaker, likelihood ratio) are searched
+// on the log-odds scale to a relative tolerance of 1e-15, so that p and
+// 1-p are both held to full precision, and agree with mpmath at 50 digits
+// to 1e-13 relative for n up to 1e12 (testdata/interval_mpmath.tsv,
+// testdata/interval_cp_wilson.tsv). Binomial tails come from package binom,
+// except the lower tails with success probability below 2e-3 and counts up
+// to 2.5e7, which are summed term by term (binom's continued fraction in
+// 1-p loses about 2e-16 sqrt(n/p) relative there); Jeffreys uses a
+// real-parameter incomplete beta in log space with Loader's (2000)
+// saddle-point prefactor and, above the mean, a positive series. Known
+// limit: for n above about 1e10 with counts above 2.5e7 and k/n below
+// 2e-3, the exact limits inherit binom's 2e-16 n/k relative error.
+//
+// Cost (go test -bench . ./interval/, 2 shared cores, k = 37 of n = 1000):
+// closed forms 100-130 ns; likelihood ratio 1.5 us; Jeffreys 5 us;
+// Clopper-Pearson 9 us (2.8 us at k = 5 of 1e9); mid-p 8 us; Blaker about
+// 2 ms at k = 370 (about 90 evaluations of the shared acceptability test).
 //
 // Errors: k < 0, k > n, n = 0, n > 2^53, Level outside (0, 1) or NaN, an
 // unknown Method or Side give a typed *Error naming the argument.
