@@ -39,13 +39,18 @@ func logOdds(p float64) float64 {
 // relative tolerance of 1e-15 (absolute 1e-15 near t = 0). If f has no sign
 // change on [-tMax, tMax] the nearer end is returned.
 func solveIncreasing(f func(float64) float64, t0 float64) float64 {
+	return solveIncreasingStep(f, t0, 1e-4*(1+math.Abs(t0)))
+}
+
+// solveIncreasingStep is solveIncreasing with the first step of the
+// bracket search given (it grows fourfold each time).
+func solveIncreasingStep(f func(float64) float64, t0, step float64) float64 {
 	t0 = math.Max(-tMax, math.Min(tMax, t0))
 	f0 := f(t0)
 	if f0 == 0 {
 		return t0
 	}
 	lo, hi, flo, fhi := t0, t0, f0, f0
-	step := 0.125
 	if f0 < 0 {
 		for fhi < 0 {
 			lo, flo = hi, fhi
@@ -208,10 +213,19 @@ func lowerT(m Method, k, n int64, lv level) float64 {
 		if k == n {
 			return endT(la / fn)
 		}
-		return solveIncreasing(func(t float64) float64 {
+		f := func(t float64) float64 {
 			p, q := pq(t)
 			return logGE(k, n, p, q) - la
-		}, logOdds(wilsonCCLower(k, n, lv.z)))
+		}
+		// One Newton step from the Wilson guess: d/dt ln P(X >= k) =
+		// k (1-p) b(k) / P(X >= k), so the search starts close to the root.
+		t0 := logOdds(wilsonCCLower(k, n, lv.z))
+		p, q := pq(t0)
+		lg := logGE(k, n, p, q)
+		if d := float64(k) * q * math.Exp(logPoint(k, n, p, q)-lg); d > 0 && !math.IsInf(lg, 0) {
+			t0 -= math.Max(-2, math.Min(2, (lg-la)/d))
+		}
+		return solveIncreasingStep(f, t0, 1e-4*(1+math.Abs(t0)))
 	case MidP:
 		if k == n {
 			return endT((la + math.Ln2) / fn)
