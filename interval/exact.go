@@ -108,43 +108,14 @@ func logPoint(k, n int64, p, q float64) float64 {
 	return binom.Dist{N: n, P: q}.LogProb(n - k)
 }
 
-// Limits of the direct summation in logTail.
-const (
-	sumMaxP = 2e-3 // below this success probability ...
-	sumMaxJ = 25e6 // ... and up to this count, lower tails are summed
-)
-
 // logTail returns ln P(X > j) (upper) or ln P(X <= j) for X ~ Binomial(n, s),
-// s <= 1/2. Where the lower tail is the smaller one, package binom
-// evaluates it by a continued fraction in 1 - s, whose rounding costs about
-// 2e-16 sqrt(n/s) relative: 3e-10 at n = 1e7, s = 5e-7. There, for
-// s < 2e-3 and j <= 2.5e7, the lower tail is summed instead, term by term
-// downward from j with the ratio b(i-1)/b(i) = i(1-s)/((n-i+1)s), all
-// terms positive, stopping when a term falls below 1e-17 of the sum; the
-// cost is at most min(j+1, about 20 sqrt(j)) terms.
+// s <= 1/2, from package binom.
 func logTail(j, n int64, s float64, upper bool) float64 {
 	d := binom.Dist{N: n, P: s}
-	direct := j >= 0 && j < n && (1-s)*float64(n+3) < float64(n-j+1)
-	if !direct || s >= sumMaxP || j > sumMaxJ || s == 0 {
-		if upper {
-			return d.LogSurvival(j)
-		}
-		return d.LogCDF(j)
-	}
-	sum, t := 1.0, 1.0
-	fn, r := float64(n), (1-s)/s
-	for i := j; i > 0; i-- {
-		t *= float64(i) * r / (fn - float64(i) + 1)
-		sum += t
-		if t < 1e-17*sum {
-			break
-		}
-	}
-	lower := d.LogProb(j) + math.Log(sum)
 	if upper {
-		return log1mexp(lower)
+		return d.LogSurvival(j)
 	}
-	return lower
+	return d.LogCDF(j)
 }
 
 // logAddExp returns ln(e^a + e^b).

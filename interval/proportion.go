@@ -55,14 +55,11 @@ const (
 // on the log-odds scale to a relative tolerance of 1e-15, so that p and
 // 1-p are both held to full precision, and agree with mpmath at 50 digits
 // to 1e-13 relative for n up to 1e12 (testdata/interval_mpmath.tsv,
-// testdata/interval_cp_wilson.tsv). Binomial tails come from package binom,
-// except the lower tails with success probability below 2e-3 and counts up
-// to 2.5e7, which are summed term by term (binom's continued fraction in
-// 1-p loses about 2e-16 sqrt(n/p) relative there); Jeffreys uses a
-// real-parameter incomplete beta in log space with Loader's (2000)
-// saddle-point prefactor and, above the mean, a positive series. Known
-// limit: for n above about 1e10 with counts above 2.5e7 and k/n below
-// 2e-3, the exact limits inherit binom's 2e-16 n/k relative error.
+// testdata/interval_cp_wilson.tsv). Binomial tails come from package binom
+// (1e-13 relative for n up to 1e12); Jeffreys uses a real-parameter
+// incomplete beta in log space with Loader's (2000) saddle-point prefactor
+// and, above the mean, a positive series, so that a small upper tail is
+// never taken from a continued fraction in the rounded 1 - p.
 //
 // Cost (go test -bench . ./interval/, 2 shared cores, k = 37 of n = 1000):
 // closed forms 100-130 ns; likelihood ratio 1.5 us; Jeffreys 5 us;
