@@ -80,7 +80,7 @@ type DiffOptions struct {
 // Wald, Wald with cc and Agresti-Caffo limits outside [-1, 1] are clipped
 // (Clipped, with a warning); the other methods stay inside. The score
 // limits (Mee, Miettinen-Nurminen) are found by Brent's method to 1e-15
-// relative (1e-16 absolute near 0) and are checked by inversion in the
+// relative (1e-20 absolute near 0) and are checked by inversion in the
 // tests: at each limit the score statistic equals z. One-sided bounds use
 // z at tail 1 - Level; the missing limit is -1 or 1.
 //

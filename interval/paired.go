@@ -73,7 +73,7 @@ type PairedOptions struct {
 // du_i = u_i - p_i from the Wilson limits (l_i, u_i) of p1 and p2, and phi
 // the correlation (n11 n22 - n12 n21)/sqrt of the product of the four
 // margins, taken as 0 when a margin is 0. Tango's limits are found by
-// Brent's method (1e-16 absolute) and checked by inversion in the tests.
+// Brent's method (1e-15 relative, 1e-20 absolute) and checked by inversion in the tests.
 // Wald limits outside [-1, 1] are clipped, with a warning.
 //
 // Errors: a negative cell, all cells 0, n over 2^53, a bad Level, Method

@@ -66,8 +66,10 @@ const (
 // Clopper-Pearson 5.5 us (2.6 us at k = 5 of 1e9); mid-p 8 us; Blaker about
 // 2 ms at k = 370 (about 90 evaluations of the shared acceptability test).
 //
-// Errors: k < 0, k > n, n = 0, n > 2^53, Level outside (0, 1) or NaN, an
-// unknown Method or Side give a typed *Error naming the argument.
+// Errors: k < 0, k > n, n = 0, n > 2^53, Level outside (0, 1) or NaN (or
+// below 0.5 for a one-sided bound, which would lie on the far side of the
+// estimate), an unknown Method or Side give a typed *Error naming the
+// argument.
 func Proportion(k, n int64, opt Options) (Interval, error) {
 	const fn = "interval.Proportion"
 	if err := checkKN(fn, "k", "n", k, n); err != nil {
