@@ -4,6 +4,8 @@ import (
 	"math"
 	"math/big"
 	"testing"
+
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // exactLogs returns ln P(X = j), ln P(X <= j) and ln P(X > j) for
@@ -143,7 +145,7 @@ func FuzzAgainstExact(f *testing.F) {
 			lo := max(0, k-3)
 			w := math.Inf(-1)
 			for j := lo; j <= k; j++ {
-				w = logAddExp(w, pmf[j])
+				w = xmath.LogAddExp(w, pmf[j])
 			}
 			if e := logErr(d.LogProbRange(lo, k), w); e > 1e-13 {
 				t.Errorf("Dist{%d, %v}.LogProbRange(%d, %d) = %v, exact %v", n, p, lo, k, d.LogProbRange(lo, k), w)

@@ -5,6 +5,7 @@ import (
 	"math/bits"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // Hyper is the hypergeometric distribution: the number X of successes among
@@ -277,7 +278,7 @@ func (w *hyperWeights) logRange(a, b int64) float64 {
 	if b < hi && lt < -math.Ln2 {
 		ut = w.logRange(b+1, hi)
 	}
-	if t := logAddExp(lt, ut); t < -math.Ln2 {
+	if t := xmath.LogAddExp(lt, ut); t < -math.Ln2 {
 		return math.Log1p(-math.Exp(t))
 	}
 	return w.logRangeAtMode(a, b, nil) - w.logZ
@@ -294,17 +295,6 @@ func (w *hyperWeights) logRangeAtMode(a, b int64, visit func(j int64, t float64)
 		s += w.sumAway(l0, m+1, b, +1, w.h.ratioUp(m)*w.psi, visit)
 	}
 	return l0 + math.Log(s)
-}
-
-// logAddExp returns ln(e^a + e^b) without overflow.
-func logAddExp(a, b float64) float64 {
-	if a < b {
-		a, b = b, a
-	}
-	if math.IsInf(a, -1) {
-		return a
-	}
-	return a + math.Log1p(math.Exp(b-a))
 }
 
 // LogProbRange returns ln P(lo <= X <= hi); -Inf when the range is empty or

@@ -11,6 +11,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 func TestNewHyperRejects(t *testing.T) {
@@ -203,8 +204,8 @@ func TestHyperProperties(t *testing.T) {
 				t.Errorf("%v: LogUpperQuantile(LogSurvival(%d)) = %d", h, k, q)
 			}
 			a, b := k, k+3*step
-			want := math.Exp(logDiff(h.LogCDF(b), h.LogCDF(a-1)))
-			if s := math.Exp(logDiff(h.LogSurvival(a-1), h.LogSurvival(b))); s < want {
+			want := math.Exp(xmath.LogDiffExp(h.LogCDF(b), h.LogCDF(a-1)))
+			if s := math.Exp(xmath.LogDiffExp(h.LogSurvival(a-1), h.LogSurvival(b))); s < want {
 				want = s // the difference of the smaller pair of tails
 			}
 			if got := h.ProbRange(a, b); math.Abs(got-want) > 1e-12*want {

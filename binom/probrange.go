@@ -1,6 +1,10 @@
 package binom
 
-import "math"
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/internal/xmath"
+)
 
 // rangeSumMax is the most PMF terms LogProbRange sums directly; wider
 // ranges are differences of tails (see LogProbRange).
@@ -63,9 +67,9 @@ func (d Dist) LogProbRange(lo, hi int64) float64 {
 			best, bestCancel = r, c
 		}
 	}
-	try(logDiff(th, tl), th)
-	try(logDiff(sl, sh), sl)
-	try(log1mexp(math.Min(logAddExp(tl, sh), 0)), 0)
+	try(xmath.LogDiffExp(th, tl), th)
+	try(xmath.LogDiffExp(sl, sh), sl)
+	try(xmath.Log1mExp(math.Min(xmath.LogAddExp(tl, sh), 0)), 0)
 	if bestCancel <= math.Log(rangeCancel) || hi-lo+1 > rangeSumMax {
 		return best
 	}

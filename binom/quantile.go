@@ -44,7 +44,7 @@ func (d Dist) eval(t *quantileTarget, k int64) (ok bool, f, l, s float64) {
 	}
 	c := t.lq
 	if t.lq > -math.Ln2 {
-		c = log1mexp(t.lq)
+		c = xmath.Log1mExp(t.lq)
 	}
 	if t.lowerResidual() {
 		return ok, l - c, l, s
@@ -65,7 +65,7 @@ func (d Dist) slope(t *quantileTarget, k int64, l, s float64) float64 {
 		// CDF(k) to rounding, ln(b(k)/b(k-1)) bounds the difference from
 		// below (log-concavity).
 		if lb-l < -1e-12 {
-			return -log1mexp(lb - l)
+			return -xmath.Log1mExp(lb - l)
 		}
 		return d.logRatioDown(k)
 	}
@@ -330,5 +330,5 @@ func zFromLog(lq float64) float64 {
 	case lq <= -math.Ln2:
 		return normalQuantileLog(lq)
 	}
-	return -normalQuantileLog(log1mexp(lq))
+	return -normalQuantileLog(xmath.Log1mExp(lq))
 }

@@ -90,7 +90,7 @@ func (d Dist) smallTail(k int64) (lnSmall, lnLarge float64, lower bool) {
 		// Successive terms shrink by a factor below N P < 1e-184, so the
 		// upper tail is its first term to every digit.
 		ls := d.LogProb(k + 1)
-		return ls, log1mexp(ls), false
+		return ls, xmath.Log1mExp(ls), false
 	}
 	n := float64(d.N)
 	if v := n * d.P * (1 - d.P); v >= temmeMinVar {
@@ -105,19 +105,10 @@ func (d Dist) smallTail(k int64) (lnSmall, lnLarge float64, lower bool) {
 	}
 	if d.lowerDirect(k) {
 		ls := d.logLower(k)
-		return ls, log1mexp(ls), true
+		return ls, xmath.Log1mExp(ls), true
 	}
 	ls := d.logUpper(k)
-	return ls, log1mexp(ls), false
-}
-
-// log1mexp returns ln(1 - e^x) for x <= 0 without cancellation
-// (Maechler 2012, "Accurately computing log(1 - exp(-|a|))").
-func log1mexp(x float64) float64 {
-	if x > -math.Ln2 {
-		return xmath.Log(-math.Expm1(x)) // -expm1(x) is subnormal for subnormal x
-	}
-	return math.Log1p(-math.Exp(x))
+	return ls, xmath.Log1mExp(ls), false
 }
 
 // LogCDF returns ln P(X <= k): -Inf for k < 0, 0 for k >= N, NaN only for
@@ -204,14 +195,3 @@ func (d Dist) CDF(k int64) float64 { return math.Exp(d.LogCDF(k)) }
 // k >= N. It is computed directly, so a survival of 1e-42 is returned as
 // such, not as 1 - CDF = 0. Accuracy and cost as CDF.
 func (d Dist) Survival(k int64) float64 { return math.Exp(d.LogSurvival(k)) }
-
-// logDiff returns ln(e^a - e^b) for a >= b, -Inf when a == b or a is -Inf.
-func logDiff(a, b float64) float64 {
-	if math.IsInf(a, -1) || b >= a {
-		return math.Inf(-1)
-	}
-	if math.IsInf(b, -1) {
-		return a
-	}
-	return a + log1mexp(b-a)
-}

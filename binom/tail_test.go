@@ -7,6 +7,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // propertyDists spans the domain of the accuracy bar: N from 1 to 1e12 and
@@ -49,15 +50,15 @@ func TestComplement(t *testing.T) {
 	for _, d := range propertyDists() {
 		for _, k := range propertyKs(d) {
 			lc, ls := d.LogCDF(k), d.LogSurvival(k)
-			if s := logAddExp(lc, ls); math.Abs(s) > 1e-15 {
+			if s := xmath.LogAddExp(lc, ls); math.Abs(s) > 1e-15 {
 				t.Errorf("%v k=%d: ln(CDF + Survival) = %.3g", d, k, s)
 			}
 			if ls > math.Log(1e-3) && lc > math.Log(1e-3) {
-				if e := logErr(log1mexp(ls), lc); e > 1e-13 {
-					t.Errorf("%v k=%d: LogCDF %v vs log1mexp(LogSurvival) %v", d, k, lc, log1mexp(ls))
+				if e := logErr(xmath.Log1mExp(ls), lc); e > 1e-13 {
+					t.Errorf("%v k=%d: LogCDF %v vs xmath.Log1mExp(LogSurvival) %v", d, k, lc, xmath.Log1mExp(ls))
 				}
-				if e := logErr(log1mexp(lc), ls); e > 1e-13 {
-					t.Errorf("%v k=%d: LogSurvival %v vs log1mexp(LogCDF) %v", d, k, ls, log1mexp(lc))
+				if e := logErr(xmath.Log1mExp(lc), ls); e > 1e-13 {
+					t.Errorf("%v k=%d: LogSurvival %v vs xmath.Log1mExp(LogCDF) %v", d, k, ls, xmath.Log1mExp(lc))
 				}
 			}
 		}
@@ -147,8 +148,8 @@ func TestTailSpecialCases(t *testing.T) {
 		{Dist{0, 0.5}, 0, 0, -inf},
 		{Dist{0, 0.5}, -1, -inf, 0},
 		// k = 0: P(X <= 0) = (1-P)^N; k = N-1: P(X > N-1) = P^N.
-		{Dist{1e12, 1e-12}, 0, 1e12 * math.Log1p(-1e-12), log1mexp(1e12 * math.Log1p(-1e-12))},
-		{Dist{40, 0.5}, 39, log1mexp(40 * math.Log(0.5)), 40 * math.Log(0.5)},
+		{Dist{1e12, 1e-12}, 0, 1e12 * math.Log1p(-1e-12), xmath.Log1mExp(1e12 * math.Log1p(-1e-12))},
+		{Dist{40, 0.5}, 39, xmath.Log1mExp(40 * math.Log(0.5)), 40 * math.Log(0.5)},
 	}
 	for _, tc := range tests {
 		got := []float64{tc.d.LogCDF(tc.k), tc.d.LogSurvival(tc.k)}
@@ -216,7 +217,7 @@ func TestProbRange(t *testing.T) {
 			}
 			want := math.Inf(-1)
 			for j := lo; j <= hi; j++ {
-				want = logAddExp(want, d.LogProb(j))
+				want = xmath.LogAddExp(want, d.LogProb(j))
 			}
 			got := d.LogProbRange(lo, hi)
 			if e := logErr(got, want); e > 1e-14 {
