@@ -7,6 +7,7 @@ import (
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/onesample"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // BinomialMethod selects the one-sample test of Binomial.
@@ -230,36 +231,8 @@ func scoreZ(k, n int64, p0 float64, cc bool) float64 {
 }
 
 // lrG2 returns the likelihood-ratio statistic
-// G2 = 2 [dev(k, n p0) + dev(n-k, n (1-p0))], dev(x, m) = x ln(x/m) + m - x.
+// G2 = 2 [dev(k, n p0) + dev(n-k, n (1-p0))], dev(x, m) = x ln(x/m) + m - x
+// (xmath.Deviance, which sums a series near x = m so nothing cancels).
 func lrG2(k, n int64, p0 float64) float64 {
-	return 2 * (dev(float64(k), float64(n)*p0) + dev(float64(n-k), float64(n)*(1-p0)))
-}
-
-// dev returns x ln(x/m) + m - x >= 0 without cancellation near x = m: by
-// the series in v = (x-m)/(x+m) there (Loader 2000, section 3). dev(0, m)
-// = m; dev(x, 0) = +Inf for x > 0.
-func dev(x, m float64) float64 {
-	switch {
-	case x == 0:
-		return m
-	case m == 0:
-		return math.Inf(1)
-	}
-	d := x - m
-	if math.Abs(d) >= 0.1*(x+m) {
-		return x*math.Log(x/m) + m - x
-	}
-	v := d / (x + m)
-	s := d * v
-	ej := 2 * x * v
-	v2 := v * v
-	for j := 3.0; j < 200; j += 2 {
-		ej *= v2
-		s1 := s + ej/j
-		if s1 == s {
-			break
-		}
-		s = s1
-	}
-	return s
+	return 2 * (xmath.Deviance(float64(k), float64(n)*p0) + xmath.Deviance(float64(n-k), float64(n)*(1-p0)))
 }
