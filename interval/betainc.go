@@ -1,6 +1,10 @@
 package interval
 
-import "math"
+import (
+	"math"
+
+	"github.com/kofnlab/kofn/internal/xmath"
+)
 
 // This file evaluates the regularized incomplete beta function I_x(a, b)
 // for real a, b > 0 in log space, which the Jeffreys interval needs at the
@@ -12,56 +16,16 @@ import "math"
 
 const lnSqrt2Pi = 0.91893853320467274178032973640562
 
-// stirlerrReal returns ln Gamma(x+1) - (x + 1/2) ln x + x - ln sqrt(2 pi),
-// the error of Stirling's formula, for real x > 0: the asymptotic series
-// 1/(12x) - 1/(360x^3) + 1/(1260x^5) - 1/(1680x^7) + 1/(1188x^9) above 15
-// (error below 1e-17 relative), and the definition through math.Lgamma
-// below (absolute error a few 1e-15 there).
-func stirlerrReal(x float64) float64 {
-	if x <= 15 {
-		lg, _ := math.Lgamma(x + 1)
-		return lg - (x+0.5)*math.Log(x) + x - lnSqrt2Pi
-	}
-	x2 := 1 / (x * x)
-	return (1.0/12 - x2*(1.0/360-x2*(1.0/1260-x2*(1.0/1680-x2/1188)))) / x
-}
-
-// bd0 returns the deviance term x ln(x/m) + m - x for x >= 0, m > 0,
-// summing the series in v = (x-m)/(x+m) near x = m so that no digits
-// cancel (Loader 2000, section 3). bd0(0, m) = m.
-func bd0(x, m float64) float64 {
-	if x == 0 {
-		return m
-	}
-	d := x - m
-	if math.Abs(d) >= 0.1*(x+m) {
-		return x*math.Log(x/m) + m - x
-	}
-	v := d / (x + m)
-	s := d * v
-	ej := 2 * x * v
-	v2 := v * v
-	for j := 3.0; j < 1000; j += 2 {
-		ej *= v2
-		s1 := s + ej/j
-		if s1 == s {
-			break
-		}
-		s = s1
-	}
-	return s
-}
-
 // logDbinomReal returns the logarithm of the binomial density extended to
 // real x in (0, m),
 //
 //	Gamma(m+1) / (Gamma(x+1) Gamma(m-x+1)) p^x q^(m-x),
 //
-// in Loader's form stirlerr(m) - stirlerr(x) - stirlerr(m-x) - bd0(x, mp)
-// - bd0(m-x, mq) - (1/2) ln(2 pi x (m-x)/m), with q = 1-p given.
+// in Loader's form se(m) - se(x) - se(m-x) - D(x, mp) - D(m-x, mq)
+// (xmath.StirlingError se, xmath.Deviance D) - (1/2) ln(2 pi x (m-x)/m), with q = 1-p given.
 func logDbinomReal(x, m, p, q float64) float64 {
 	y := m - x
-	lc := stirlerrReal(m) - stirlerrReal(x) - stirlerrReal(y) - bd0(x, m*p) - bd0(y, m*q)
+	lc := xmath.StirlingError(m) - xmath.StirlingError(x) - xmath.StirlingError(y) - xmath.Deviance(x, m*p) - xmath.Deviance(y, m*q)
 	return lc - 0.5*math.Log(x*y/m) - lnSqrt2Pi
 }
 
@@ -84,7 +48,7 @@ func logBetaCDF(a, b, x, y float64) float64 {
 	if x*(a+b+2) < a+1 {
 		return logBetaDirect(a, b, x, y)
 	}
-	return log1mexp(logBetaDirect(b, a, y, x))
+	return xmath.Log1mExp(logBetaDirect(b, a, y, x))
 }
 
 // logBetaDirect returns ln I_x(a, b) by the continued fraction; see logBetaCDF.
@@ -129,15 +93,6 @@ func betaFraction(a, b, x float64) float64 {
 	return f
 }
 
-// log1mexp returns ln(1 - e^x) for x <= 0 without cancellation
-// (Maechler 2012).
-func log1mexp(x float64) float64 {
-	if x > -math.Ln2 {
-		return math.Log(-math.Expm1(x))
-	}
-	return math.Log1p(-math.Exp(x))
-}
-
 // logBetaUpper returns ln(1 - I_x(a, b)) = ln P(B > x), B ~ Beta(a, b),
 // with y = 1 - x given. Below the mean-like point (a+1)/(a+b+2) it is the
 // complement of the direct continued fraction. Above it, where the
@@ -159,7 +114,7 @@ func logBetaUpper(a, b, x, y float64) float64 {
 		return math.Inf(-1)
 	}
 	if x*(a+b+2) < a+1 {
-		return log1mexp(logBetaDirect(a, b, x, y))
+		return xmath.Log1mExp(logBetaDirect(a, b, x, y))
 	}
 	if (a+b)*x > 1e5 {
 		return logBetaDirect(b, a, y, x)
@@ -173,5 +128,5 @@ func logBetaUpper(a, b, x, y float64) float64 {
 		}
 	}
 	lower := logDbinomReal(a, a+b, x, y) + math.Log(b/(a+b)) + math.Log(sum)
-	return log1mexp(math.Min(lower, 0))
+	return xmath.Log1mExp(math.Min(lower, 0))
 }

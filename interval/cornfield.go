@@ -5,6 +5,7 @@ import (
 
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // conditional returns Fisher's noncentral hypergeometric distribution of
@@ -37,14 +38,14 @@ func cornfield(iv *Interval, k1, n1, k2, n2 int64, lv level, midp bool) error {
 	ge := func(psi float64) float64 {
 		x := conditional(k1, n1, k2, n2, psi)
 		if midp {
-			return logAddExp(x.LogSurvival(k1), x.LogProb(k1)-math.Ln2)
+			return xmath.LogAddExp(x.LogSurvival(k1), x.LogProb(k1)-math.Ln2)
 		}
 		return x.LogSurvival(k1 - 1)
 	}
 	le := func(psi float64) float64 {
 		x := conditional(k1, n1, k2, n2, psi)
 		if midp {
-			return logAddExp(x.LogCDF(k1-1), x.LogProb(k1)-math.Ln2)
+			return xmath.LogAddExp(x.LogCDF(k1-1), x.LogProb(k1)-math.Ln2)
 		}
 		return x.LogCDF(k1)
 	}

@@ -5,6 +5,7 @@ import (
 
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/root"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // The limits found by root finding are searched on the log-odds scale
@@ -118,17 +119,6 @@ func logTail(j, n int64, s float64, upper bool) float64 {
 	return d.LogCDF(j)
 }
 
-// logAddExp returns ln(e^a + e^b).
-func logAddExp(a, b float64) float64 {
-	if a < b {
-		a, b = b, a
-	}
-	if math.IsInf(b, -1) {
-		return a
-	}
-	return a + math.Log1p(math.Exp(b-a))
-}
-
 // exactLower returns the lower limit for k of a method found by root
 // finding: expit of lowerT.
 func exactLower(m Method, k, n int64, lv level) float64 {
@@ -203,7 +193,7 @@ func lowerT(m Method, k, n int64, lv level) float64 {
 		}
 		return solveIncreasing(func(t float64) float64 {
 			p, q := pq(t)
-			return logAddExp(logGE(k+1, n, p, q), logPoint(k, n, p, q)-math.Ln2) - la
+			return xmath.LogAddExp(logGE(k+1, n, p, q), logPoint(k, n, p, q)-math.Ln2) - la
 		}, logOdds(wilsonLower(k, n, lv.z)))
 	case Jeffreys:
 		a, b := float64(k)+0.5, float64(n-k)+0.5
@@ -218,7 +208,7 @@ func lowerT(m Method, k, n int64, lv level) float64 {
 		fk, fnk := float64(k), float64(n-k)
 		return solveIncreasing(func(t float64) float64 {
 			p, q := pq(t)
-			d := 2 * (bd0(fk, fn*p) + bd0(fnk, fn*q))
+			d := 2 * (xmath.Deviance(fk, fn*p) + xmath.Deviance(fnk, fn*q))
 			r := math.Sqrt(math.Max(d, 0))
 			if fn*p < fk {
 				r = -r

@@ -6,6 +6,7 @@ import (
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/root"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // RelTol is the relative tolerance with which two probabilities count as
@@ -284,13 +285,5 @@ func logRange(d Discrete, lo, hi int64) float64 {
 }
 
 // LogAddExp returns ln(e^a + e^b) without overflow or underflow; -Inf when
-// both are -Inf.
-func LogAddExp(a, b float64) float64 {
-	if a < b {
-		a, b = b, a
-	}
-	if math.IsInf(a, -1) {
-		return a
-	}
-	return a + math.Log1p(math.Exp(b-a))
-}
+// both are -Inf. It is xmath.LogAddExp, kept for existing callers.
+func LogAddExp(a, b float64) float64 { return xmath.LogAddExp(a, b) }
