@@ -33,11 +33,11 @@ func (a Alternative) String() string {
 }
 
 // ParseAlternative converts "two-sided", "greater" or "less" (case
-// insensitive; "two.sided", "twosided", "upper" and "lower" are accepted
-// too) to an Alternative.
+// insensitive; "twosided", "two", "upper" and "lower" are accepted too) to
+// an Alternative.
 func ParseAlternative(s string) (Alternative, error) {
 	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "two-sided", "two.sided", "twosided", "two":
+	case "two-sided", "twosided", "two":
 		return TwoSided, nil
 	case "greater", "upper":
 		return Greater, nil
