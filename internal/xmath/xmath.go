@@ -64,8 +64,9 @@ func LogDiffExp(a, b float64) float64 {
 //
 // where |x - m| < 0.1 (x + m), so that nothing cancels near x = m (Loader
 // 2000, "Fast and accurate computation of binomial probabilities", section
-// 3). Deviance(0, m) = m; Deviance(x, 0) = +Inf for x > 0. Accuracy: a few
-// ulp relative.
+// 3). Deviance(0, m) = m; Deviance(x, 0) = +Inf for x > 0. Where x/m
+// overflows or underflows (a subnormal m, say) the logarithm is taken as
+// Log(x) - Log(m), so the result stays finite. Accuracy: a few ulp relative.
 func Deviance(x, m float64) float64 {
 	switch {
 	case x == 0:
@@ -75,7 +76,10 @@ func Deviance(x, m float64) float64 {
 	}
 	d := x - m
 	if math.Abs(d) >= 0.1*(x+m) {
-		return x*math.Log(x/m) + m - x
+		if r := x / m; r > 0 && !math.IsInf(r, 1) {
+			return x*Log(r) + m - x
+		}
+		return x*(Log(x)-Log(m)) + m - x // x/m overflows or underflows
 	}
 	v := d / (x + m)
 	s := d * v

@@ -40,6 +40,10 @@ func TestDeviance(t *testing.T) {
 		{1000000000000.0, 999999999000.0, 5.0000000033333333358e-7},
 		{0.5, 0.7, 0.031763881689393522059},
 		{0, 2.5, 2.5},
+		// x/m overflows: closed form 1 ln(1/m) + m - 1 with m = 10 2^-1074
+		// (exact), that is 1074 ln 2 - ln 10 - 1 (m itself is negligible).
+		{1, 10 * 0x1p-1074, 1074*math.Ln2 - math.Ln10 - 1},
+		{2, 1e-310, 1426.98905201742822082}, // mpmath 1.3.0: 2 ln(2/m) + m - 2
 	}
 	for _, tc := range tests {
 		if diff := cmp.Diff(tc.want, Deviance(tc.x, tc.m), cmpopts.EquateApprox(1e-14, 0)); diff != "" {
