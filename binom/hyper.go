@@ -279,7 +279,7 @@ func (w *hyperWeights) logRange(a, b int64) float64 {
 		ut = w.logRange(b+1, hi)
 	}
 	if t := xmath.LogAddExp(lt, ut); t < -math.Ln2 {
-		return math.Log1p(-math.Exp(t))
+		return xmath.Log1mExp(t)
 	}
 	return w.logRangeAtMode(a, b, nil) - w.logZ
 }
