@@ -6,6 +6,7 @@ import (
 
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/onesample"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // MaxUnconditionalTables is the size limit of Barnard and Boschloo: the
@@ -126,7 +127,7 @@ func (r *region) logProb(w *scratch, pi float64) float64 {
 	case pi >= 1:
 		return logIf(r.inNN)
 	}
-	lp, lq := math.Log(pi), math.Log1p(-pi)
+	lp, lq := xmath.Log(pi), math.Log1p(-pi)
 	m1, m2 := math.Inf(-1), math.Inf(-1)
 	for x := 0; x <= r.n1; x++ {
 		w.l1[x] = r.lc1[x] + float64(x)*lp + float64(r.n1-x)*lq
@@ -349,7 +350,7 @@ func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64,
 	if g := opt.BergerBoos; g > 0 {
 		s, n := k1+k2, n1+n2
 		lp := func(p float64) float64 { return binomialLogP(ExactCentral, s, n, p, TwoSided) }
-		lo, hi, _, _ = invert(lp, math.Log(g), float64(s)/float64(n), TwoSided, false)
+		lo, hi, _, _ = invert(lp, xmath.Log(g), float64(s)/float64(n), TwoSided, false)
 		method += " (Berger-Boos)"
 	}
 	lp, at, err := reg.supremum(ctx, fn, lo, hi)
@@ -357,10 +358,7 @@ func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64,
 		return Result{}, err
 	}
 	if g := opt.BergerBoos; g > 0 {
-		lp = math.Log(math.Min(1, math.Exp(lp)+g))
-		if lp < math.Log(g) { // e^lp underflowed
-			lp = math.Log(g)
-		}
+		lp = math.Min(0, xmath.LogAddExp(lp, xmath.Log(g))) // ln min(1, p + gamma)
 	}
 	res := newResult(method, opt.Alternative, lp)
 	res.Statistic, res.StatisticName = stat, statName
