@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/xmath"
 	"github.com/kofnlab/kofn/test"
 )
 
@@ -64,7 +65,7 @@ func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, 
 			starts = append(starts, i)
 		}
 	}
-	la := math.Log(alpha)
+	la := xmath.Log(alpha)
 	opt := test.UnconditionalOptions{Alternative: testAlt(alt)}
 	var probeErr error
 	rejected := func(g int) bool { // group g and all more extreme groups are rejected

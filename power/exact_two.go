@@ -7,6 +7,7 @@ import (
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/onesample"
+	"github.com/kofnlab/kofn/internal/xmath"
 	"github.com/kofnlab/kofn/test"
 )
 
@@ -58,7 +59,7 @@ type twoRegion struct {
 func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt Alternative) (*twoRegion, error) {
 	N := n1 + n2
 	r := &twoRegion{n1: n1, n2: n2, bySum: true, a: make([]int64, N+1), b: make([]int64, N+1)}
-	la := math.Log(alpha)
+	la := xmath.Log(alpha)
 	oalt := onesample.TwoSided
 	switch alt {
 	case Greater:
@@ -112,7 +113,7 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 // previous row.
 func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt Alternative) (*twoRegion, error) {
 	r := &twoRegion{n1: n1, n2: n2, a: make([]int64, n1+1), b: make([]int64, n1+1)}
-	la := math.Log(alpha)
+	la := xmath.Log(alpha)
 	opt := test.TwoSampleOptions{Method: test.ZPooled, Alternative: testAlt(alt)}
 	ga, gb := int64(0), n2
 	for x1 := int64(0); x1 <= n1; x1++ {
@@ -358,7 +359,7 @@ func (r *twoRegion) rejects(x1, x2 int64) bool {
 // previous one; the structure is checked table by table in the tests.
 func marginRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, hyp Hypothesis, m float64) (*twoRegion, error) {
 	r := &twoRegion{n1: n1, n2: n2, inner: hyp == Equivalence, a: make([]int64, n1+1), b: make([]int64, n1+1)}
-	la := math.Log(alpha)
+	la := xmath.Log(alpha)
 	opt := test.MarginOptions{Alternative: test.Greater}
 	ga, gb := int64(0), n2
 	for x1 := int64(0); x1 <= n1; x1++ {

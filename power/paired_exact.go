@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/xmath"
 	"github.com/kofnlab/kofn/test"
 )
 
@@ -68,7 +69,7 @@ func newCondPower(p10, p01, alpha float64, o PairedOptions) *condPower {
 	if o.Method == McNemarAsymptotic {
 		// Given d, the chi-square test rejects outside an interval of n10
 		// around d/2, decided by test.McNemar; the interval of d seeds d+1.
-		la := math.Log(alpha)
+		la := xmath.Log(alpha)
 		opt := test.McNemarOptions{Method: test.McNemarAsymptotic, Alternative: testAlt(o.Alternative)}
 		ga, gb := int64(0), int64(0)
 		cp.next = func(d int64) (float64, float64) {

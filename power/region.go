@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/internal/onesample"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // region tracks the acceptance region [lo, hi] of a one-sample exact test
@@ -31,7 +32,7 @@ type region struct {
 const walkLimit = 6
 
 func newRegion(t onesample.Test, alpha float64) *region {
-	return &region{t: t, alpha: alpha, la: math.Log(alpha), n: -1}
+	return &region{t: t, alpha: alpha, la: xmath.Log(alpha), n: -1}
 }
 
 // ok reports whether k is accepted at n trials.

@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/binom"
+	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // tailPair carries the two rejection tails P(X <= lo-1) and P(X > hi) of
@@ -40,7 +41,7 @@ const (
 )
 
 func newTailPair(p float64) *tailPair {
-	return &tailPair{p: p, lp: math.Log(p), lq: math.Log1p(-p), n: -1}
+	return &tailPair{p: p, lp: xmath.Log(p), lq: math.Log1p(-p), n: -1}
 }
 
 // at returns P(X < lo) + P(X > hi) at n trials.
