@@ -37,8 +37,8 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"text/tabwriter"
 
+	"github.com/kofnlab/kofn/examples/internal/report"
 	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/test"
 )
@@ -61,19 +61,19 @@ func main() {
 
 // run computes every step of the scenario and writes the report to w.
 func run(w io.Writer) error {
-	r := newReport(w)
+	r := report.New(w)
 	rightA, rightB := int64(bothRight+onlyA), int64(bothRight+onlyB)
 
-	r.line("Invented data: a made-up labelled set of %d messages scored by two imaginary models.", messages)
-	r.line("")
-	r.line("Paired results on the same %d messages", messages)
-	r.line("  both right\t%d", bothRight)
-	r.line("  only A right\t%d", onlyA)
-	r.line("  only B right\t%d", onlyB)
-	r.line("  both wrong\t%d", bothWrong)
+	r.Line("Invented data: a made-up labelled set of %d messages scored by two imaginary models.", messages)
+	r.Line("")
+	r.Line("Paired results on the same %d messages", messages)
+	r.Line("  both right\t%d", bothRight)
+	r.Line("  only A right\t%d", onlyA)
+	r.Line("  only B right\t%d", onlyB)
+	r.Line("  both wrong\t%d", bothWrong)
 
-	r.line("")
-	r.line("1. Accuracy of each model (95%% two-sided)")
+	r.Line("")
+	r.Line("1. Accuracy of each model (95%% two-sided)")
 	for _, m := range []struct {
 		name  string
 		right int64
@@ -82,40 +82,40 @@ func run(w io.Writer) error {
 		if err != nil {
 			return err
 		}
-		r.line("  %s, %s\t%.4f\t[%.4f, %.4f]", m.name, iv.Method, iv.Estimate, iv.Lower, iv.Upper)
-		r.warnings(iv.Warnings)
+		r.Line("  %s, %s\t%.4f\t[%.4f, %.4f]", m.name, iv.Method, iv.Estimate, iv.Lower, iv.Upper)
+		r.Warnings(iv.Warnings)
 	}
 
-	r.line("")
-	r.line("2. McNemar's test of equal accuracy (two-sided), from the %d disagreements", onlyA+onlyB)
+	r.Line("")
+	r.Line("2. McNemar's test of equal accuracy (two-sided), from the %d disagreements", onlyA+onlyB)
 	for _, m := range []test.McNemarMethod{test.McNemarExact, test.McNemarMidP} {
 		res, err := test.McNemar(onlyA, onlyB, test.McNemarOptions{Method: m})
 		if err != nil {
 			return err
 		}
-		r.line("  %s\tp = %.4f\t%s", res.Method, res.PValue, decision(res.PValue))
-		r.warnings(res.Warnings)
+		r.Line("  %s\tp = %.4f\t%s", res.Method, res.PValue, decision(res.PValue))
+		r.Warnings(res.Warnings)
 	}
 
-	r.line("")
-	r.line("3. Accuracy A - B (95%% two-sided)")
+	r.Line("")
+	r.Line("3. Accuracy A - B (95%% two-sided)")
 	for _, m := range []interval.PairedMethod{interval.PairedNewcombe, interval.PairedTango} {
 		iv, err := interval.PairedDifference(bothRight, onlyA, onlyB, bothWrong, interval.PairedOptions{Method: m})
 		if err != nil {
 			return err
 		}
-		r.line("  %s\t%+.4f\t[%+.4f, %+.4f]\t%s", iv.Method, iv.Estimate, iv.Lower, iv.Upper, excludes(iv))
-		r.warnings(iv.Warnings)
+		r.Line("  %s\t%+.4f\t[%+.4f, %+.4f]\t%s", iv.Method, iv.Estimate, iv.Lower, iv.Upper, excludes(iv))
+		r.Warnings(iv.Warnings)
 	}
 	iv, err := interval.Difference(rightA, messages, rightB, messages, interval.DiffOptions{})
 	if err != nil {
 		return err
 	}
-	r.line("  unpaired %s (ignores pairing)\t%+.4f\t[%+.4f, %+.4f]\t%s", iv.Method, iv.Estimate, iv.Lower, iv.Upper, excludes(iv))
-	r.warnings(iv.Warnings)
-	r.line("  The paired intervals are narrower: a message both models get right (or both")
-	r.line("  wrong) moves both accuracies together and so does not blur their difference.")
-	return r.flush()
+	r.Line("  unpaired %s (ignores pairing)\t%+.4f\t[%+.4f, %+.4f]\t%s", iv.Method, iv.Estimate, iv.Lower, iv.Upper, excludes(iv))
+	r.Warnings(iv.Warnings)
+	r.Line("  The paired intervals are narrower: a message both models get right (or both")
+	r.Line("  wrong) moves both accuracies together and so does not blur their difference.")
+	return r.Flush()
 }
 
 // excludes says whether the interval rules out no difference.
@@ -132,36 +132,4 @@ func decision(p float64) string {
 		return fmt.Sprintf("below %.2f: the accuracies differ", alpha)
 	}
 	return fmt.Sprintf("not below %.2f: no clear difference", alpha)
-}
-
-// report writes aligned lines and keeps the first write error.
-type report struct {
-	tw  *tabwriter.Writer
-	err error
-}
-
-func newReport(w io.Writer) *report {
-	return &report{tw: tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)}
-}
-
-// line writes one formatted line; tabs separate aligned columns.
-func (r *report) line(format string, args ...any) {
-	if r.err == nil {
-		_, r.err = fmt.Fprintf(r.tw, format+"\n", args...)
-	}
-}
-
-// warnings writes each warning of a result on its own line.
-func (r *report) warnings(ws []string) {
-	for _, w := range ws {
-		r.line("    warning: %s", w)
-	}
-}
-
-// flush writes out what is buffered and returns the first error.
-func (r *report) flush() error {
-	if r.err != nil {
-		return r.err
-	}
-	return r.tw.Flush()
 }

@@ -36,8 +36,8 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"text/tabwriter"
 
+	"github.com/kofnlab/kofn/examples/internal/report"
 	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/power"
 	"github.com/kofnlab/kofn/test"
@@ -63,58 +63,58 @@ func main() {
 
 // run computes every step of the scenario and writes the report to w.
 func run(w io.Writer) error {
-	r := newReport(w)
+	r := report.New(w)
 	maxRate := 1 - objective // the objective as an error rate, 0.001
 
-	r.line("Invented data: a made-up request window of an imaginary service.")
-	r.line("")
-	r.line("Error-rate check against a %.1f%% success objective", 100*objective)
-	r.line("  requests in window\t%d", requests)
-	r.line("  failed requests\t%d", failures)
-	r.line("  observed error rate\t%.6f", float64(failures)/requests)
-	r.line("  error budget of window\t%.0f failures (%.0f%% used)",
+	r.Line("Invented data: a made-up request window of an imaginary service.")
+	r.Line("")
+	r.Line("Error-rate check against a %.1f%% success objective", 100*objective)
+	r.Line("  requests in window\t%d", requests)
+	r.Line("  failed requests\t%d", failures)
+	r.Line("  observed error rate\t%.6f", float64(failures)/requests)
+	r.Line("  error budget of window\t%.0f failures (%.0f%% used)",
 		maxRate*requests, 100*failures/(maxRate*requests))
 
-	r.line("")
-	r.line("1. Upper bound on the error rate (one-sided %.0f%%)", 100*confidence)
+	r.Line("")
+	r.Line("1. Upper bound on the error rate (one-sided %.0f%%)", 100*confidence)
 	ub, err := interval.Proportion(failures, requests, interval.Options{
 		Level: confidence, Method: interval.ClopperPearson, Side: interval.UpperBound,
 	})
 	if err != nil {
 		return err
 	}
-	r.line("  %s upper bound\t%.6f\t%s", ub.Method, ub.Upper, against(ub.Upper, maxRate))
-	r.warnings(ub.Warnings)
+	r.Line("  %s upper bound\t%.6f\t%s", ub.Method, ub.Upper, against(ub.Upper, maxRate))
+	r.Warnings(ub.Warnings)
 	rel, err := power.DemonstratedReliability(requests, failures, confidence)
 	if err != nil {
 		return err
 	}
-	r.line("  demonstrated success rate\t%.6f\t(lower bound, one-sided %.0f%%)", rel, 100*confidence)
+	r.Line("  demonstrated success rate\t%.6f\t(lower bound, one-sided %.0f%%)", rel, 100*confidence)
 
-	r.line("")
-	r.line("2. Exact test of H0: error rate >= %g against H1: below it", maxRate)
+	r.Line("")
+	r.Line("2. Exact test of H0: error rate >= %g against H1: below it", maxRate)
 	bt, err := test.Binomial(failures, requests, maxRate, test.BinomialOptions{
 		Alternative: test.Less, Level: confidence, SkipInterval: true,
 	})
 	if err != nil {
 		return err
 	}
-	r.line("  exact binomial, one-sided (%s)\tp = %.6f\t%s", bt.Alternative, bt.PValue, decision(bt.PValue, 1-confidence))
-	r.warnings(bt.Warnings)
+	r.Line("  exact binomial, one-sided (%s)\tp = %.6f\t%s", bt.Alternative, bt.PValue, decision(bt.PValue, 1-confidence))
+	r.Warnings(bt.Warnings)
 
-	r.line("")
-	r.line("3. Requests needed to demonstrate %.1f%% success at %.0f%% confidence", 100*objective, 100*confidence)
-	r.line("  failures allowed\trequests\tconfidence reached\twith one request fewer")
+	r.Line("")
+	r.Line("3. Requests needed to demonstrate %.1f%% success at %.0f%% confidence", 100*objective, 100*confidence)
+	r.Line("  failures allowed\trequests\tconfidence reached\twith one request fewer")
 	for _, c := range allowed {
 		d, err := power.DemonstrationTrials(objective, confidence, c)
 		if err != nil {
 			return err
 		}
-		r.line("  c = %d\t%d\t%.6f\t%.6f", c, d.Trials, d.AchievedConfidence, d.PreviousConfidence)
+		r.Line("  c = %d\t%d\t%.6f\t%.6f", c, d.Trials, d.AchievedConfidence, d.PreviousConfidence)
 	}
-	r.line("  A plan passes only if the failures stay at or below c; allowing more")
-	r.line("  failures costs more requests but makes a good release less likely to fail.")
-	return r.flush()
+	r.Line("  A plan passes only if the failures stay at or below c; allowing more")
+	r.Line("  failures costs more requests but makes a good release less likely to fail.")
+	return r.Flush()
 }
 
 // against compares an upper bound on the error rate with the objective.
@@ -131,36 +131,4 @@ func decision(p, alpha float64) string {
 		return fmt.Sprintf("below %.2f: compliance shown", alpha)
 	}
 	return fmt.Sprintf("not below %.2f: compliance not shown", alpha)
-}
-
-// report writes aligned lines and keeps the first write error.
-type report struct {
-	tw  *tabwriter.Writer
-	err error
-}
-
-func newReport(w io.Writer) *report {
-	return &report{tw: tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)}
-}
-
-// line writes one formatted line; tabs separate aligned columns.
-func (r *report) line(format string, args ...any) {
-	if r.err == nil {
-		_, r.err = fmt.Fprintf(r.tw, format+"\n", args...)
-	}
-}
-
-// warnings writes each warning of a result on its own line.
-func (r *report) warnings(ws []string) {
-	for _, w := range ws {
-		r.line("    warning: %s", w)
-	}
-}
-
-// flush writes out what is buffered and returns the first error.
-func (r *report) flush() error {
-	if r.err != nil {
-		return r.err
-	}
-	return r.tw.Flush()
 }

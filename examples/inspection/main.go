@@ -40,9 +40,9 @@ import (
 	"io"
 	"math"
 	"os"
-	"text/tabwriter"
 	"time"
 
+	"github.com/kofnlab/kofn/examples/internal/report"
 	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/power"
 )
@@ -82,13 +82,13 @@ func main() {
 func run(w io.Writer) error {
 	ctx, cancel := context.WithTimeout(context.Background(), time.Minute)
 	defer cancel()
-	r := newReport(w)
+	r := report.New(w)
 
-	r.line("Invented data: a made-up supplier and lot; the plan n = 89, c = 2 is Montgomery's textbook plan.")
-	r.line("")
-	r.line("1. OC of today's plan: inspect n = %d, accept if at most c = %d defective",
+	r.Line("Invented data: a made-up supplier and lot; the plan n = 89, c = 2 is Montgomery's textbook plan.")
+	r.Line("")
+	r.Line("1. OC of today's plan: inspect n = %d, accept if at most c = %d defective",
 		current.SampleSize, current.AcceptNumber)
-	r.line("  defect rate p\tP(accept), bulk lot\tP(accept), lot of %d", smallLot)
+	r.Line("  defect rate p\tP(accept), bulk lot\tP(accept), lot of %d", smallLot)
 	for _, p := range ocRates {
 		bulk, err := power.AcceptProb(current, p)
 		if err != nil {
@@ -99,54 +99,54 @@ func run(w io.Writer) error {
 		if err != nil {
 			return err
 		}
-		r.line("  p = %.2f\t%.6f\t%.6f  (%d defective)", p, bulk, small, d)
+		r.Line("  p = %.2f\t%.6f\t%.6f  (%d defective)", p, bulk, small, d)
 	}
 
-	r.line("")
-	r.line("2. Rectifying inspection of bulk lots of %d (rejected lots screened in full)", bulkLot)
-	r.line("  defect rate p\tAOQ\tATI per lot")
+	r.Line("")
+	r.Line("2. Rectifying inspection of bulk lots of %d (rejected lots screened in full)", bulkLot)
+	r.Line("  defect rate p\tAOQ\tATI per lot")
 	for _, p := range ocRates[:3] {
 		rc, err := power.Rectify(current, bulkLot, p)
 		if err != nil {
 			return err
 		}
-		r.line("  p = %.2f\t%.6f\t%.1f", p, rc.AOQ, rc.ATI)
+		r.Line("  p = %.2f\t%.6f\t%.1f", p, rc.AOQ, rc.ATI)
 	}
 	lim, err := power.AOQL(current, bulkLot)
 	if err != nil {
 		return err
 	}
-	r.line("  AOQL\t%.6f\tat p = %.4f", lim.AOQL, lim.P)
+	r.Line("  AOQL\t%.6f\tat p = %.4f", lim.AOQL, lim.P)
 
-	r.line("")
-	r.line("3. Smallest plan with producer's risk <= %.2f at AQL %.2f and consumer's risk <= %.2f at RQL %.2f",
+	r.Line("")
+	r.Line("3. Smallest plan with producer's risk <= %.2f at AQL %.2f and consumer's risk <= %.2f at RQL %.2f",
 		producerRisk, aql, consumerRisk, rql)
 	design, err := power.DesignPlan(ctx, aql, rql, power.DesignOptions{ProducerRisk: producerRisk, ConsumerRisk: consumerRisk})
 	if err != nil {
 		return err
 	}
-	r.line("  candidates (smallest n meeting the consumer's risk for each c)")
-	r.line("  plan\tproducer's risk\tconsumer's risk")
+	r.Line("  candidates (smallest n meeting the consumer's risk for each c)")
+	r.Line("  plan\tproducer's risk\tconsumer's risk")
 	for _, c := range design.Candidates {
-		r.line("  n = %d, c = %d\t%.4f\t%.4f", c.Plan.SampleSize, c.Plan.AcceptNumber, c.ProducerRisk, c.ConsumerRisk)
+		r.Line("  n = %d, c = %d\t%.4f\t%.4f", c.Plan.SampleSize, c.Plan.AcceptNumber, c.ProducerRisk, c.ConsumerRisk)
 	}
 	plan := design.Plan
-	r.line("  chosen plan\tn = %d, c = %d", plan.SampleSize, plan.AcceptNumber)
-	r.line("  achieved risks\tproducer's %.4f, consumer's %.4f", design.AchievedProducerRisk, design.AchievedConsumerRisk)
+	r.Line("  chosen plan\tn = %d, c = %d", plan.SampleSize, plan.AcceptNumber)
+	r.Line("  achieved risks\tproducer's %.4f, consumer's %.4f", design.AchievedProducerRisk, design.AchievedConsumerRisk)
 	newLim, err := power.AOQL(plan, bulkLot)
 	if err != nil {
 		return err
 	}
-	r.line("  AOQL, bulk lots\t%.6f\tat p = %.4f", newLim.AOQL, newLim.P)
+	r.Line("  AOQL, bulk lots\t%.6f\tat p = %.4f", newLim.AOQL, newLim.P)
 
-	r.line("")
-	r.line("4. Decision for bulk lot %s (invented)", lotID)
-	r.line("  inspected\t%d brackets", plan.SampleSize)
-	r.line("  defective found\t%d", foundDefective)
+	r.Line("")
+	r.Line("4. Decision for bulk lot %s (invented)", lotID)
+	r.Line("  inspected\t%d brackets", plan.SampleSize)
+	r.Line("  defective found\t%d", foundDefective)
 	if foundDefective <= plan.AcceptNumber {
-		r.line("  decision\taccept the lot (%d <= c = %d)", foundDefective, plan.AcceptNumber)
+		r.Line("  decision\taccept the lot (%d <= c = %d)", foundDefective, plan.AcceptNumber)
 	} else {
-		r.line("  decision\treject the lot (%d > c = %d): screen it or return it", foundDefective, plan.AcceptNumber)
+		r.Line("  decision\treject the lot (%d > c = %d): screen it or return it", foundDefective, plan.AcceptNumber)
 	}
 	ub, err := interval.Proportion(foundDefective, plan.SampleSize, interval.Options{
 		Method: interval.ClopperPearson, Side: interval.UpperBound,
@@ -154,42 +154,10 @@ func run(w io.Writer) error {
 	if err != nil {
 		return err
 	}
-	r.line("  %s upper bound\t%.4f\t(one-sided %.0f%%, on the defect rate)", ub.Method, ub.Upper, 100*ub.Level)
-	r.warnings(ub.Warnings)
-	r.line("  The plan controls the risks over many lots; one accepted sample still allows")
-	r.line("  a defect rate above the AQL, as the upper bound shows. Safety-critical parts need")
-	r.line("  the sampling standard and contract in force and a qualified quality engineer.")
-	return r.flush()
-}
-
-// report writes aligned lines and keeps the first write error.
-type report struct {
-	tw  *tabwriter.Writer
-	err error
-}
-
-func newReport(w io.Writer) *report {
-	return &report{tw: tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)}
-}
-
-// line writes one formatted line; tabs separate aligned columns.
-func (r *report) line(format string, args ...any) {
-	if r.err == nil {
-		_, r.err = fmt.Fprintf(r.tw, format+"\n", args...)
-	}
-}
-
-// warnings writes each warning of a result on its own line.
-func (r *report) warnings(ws []string) {
-	for _, w := range ws {
-		r.line("    warning: %s", w)
-	}
-}
-
-// flush writes out what is buffered and returns the first error.
-func (r *report) flush() error {
-	if r.err != nil {
-		return r.err
-	}
-	return r.tw.Flush()
+	r.Line("  %s upper bound\t%.4f\t(one-sided %.0f%%, on the defect rate)", ub.Method, ub.Upper, 100*ub.Level)
+	r.Warnings(ub.Warnings)
+	r.Line("  The plan controls the risks over many lots; one accepted sample still allows")
+	r.Line("  a defect rate above the AQL, as the upper bound shows. Safety-critical parts need")
+	r.Line("  the sampling standard and contract in force and a qualified quality engineer.")
+	return r.Flush()
 }

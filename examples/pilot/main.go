@@ -38,10 +38,10 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"text/tabwriter"
 	"time"
 
 	"github.com/kofnlab/kofn/binom"
+	"github.com/kofnlab/kofn/examples/internal/report"
 	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/power"
 	"github.com/kofnlab/kofn/test"
@@ -77,20 +77,20 @@ func main() {
 func run(w io.Writer) error {
 	ctx, cancel := context.WithTimeout(context.Background(), time.Minute)
 	defer cancel()
-	r := newReport(w)
+	r := report.New(w)
 
-	r.line("Invented data: a made-up single-arm pilot; no real patients or treatment.")
-	r.line(caution)
-	r.line("")
-	r.line("1. Patients for %.0f%% power: exact binomial test of H0: p = %.2f vs %.2f, one-sided alpha %.2f",
+	r.Line("Invented data: a made-up single-arm pilot; no real patients or treatment.")
+	r.Line(caution)
+	r.Line("")
+	r.Line("1. Patients for %.0f%% power: exact binomial test of H0: p = %.2f vs %.2f, one-sided alpha %.2f",
 		100*target, nullRate, targetRate, alpha)
 	opt := power.OneSampleOptions{Alpha: alpha, Power: target, Alternative: power.Greater}
 	size, err := power.OneSampleN(ctx, nullRate, targetRate, opt)
 	if err != nil {
 		return err
 	}
-	r.warnings(size.Warnings)
-	r.line("  patients\treject H0 if responders >=\tattained size\texact power")
+	r.Warnings(size.Warnings)
+	r.Line("  patients\treject H0 if responders >=\tattained size\texact power")
 	// The test is one-sided (greater), so its acceptance region is
 	// 0..AcceptHi and H0 is rejected from AcceptHi+1 responders on.
 	for n := max(1, size.First-5); n <= size.Stable+3; n++ {
@@ -113,28 +113,28 @@ func run(w io.Writer) error {
 		if mark != "" {
 			row += "\t" + mark
 		}
-		r.line("%s", row)
+		r.Line("%s", row)
 	}
-	r.line("  sample size")
-	r.line("  first n reaching %.2f\t%d\t(power %.4f)", target, size.First, size.FirstPower)
-	r.line("  stable n\t%d\t(power %.4f, every n up to %d keeps it)", size.Stable, size.StablePower, size.Horizon)
-	r.line("  normal approximation\t%d", size.Normal.N)
+	r.Line("  sample size")
+	r.Line("  first n reaching %.2f\t%d\t(power %.4f)", target, size.First, size.FirstPower)
+	r.Line("  stable n\t%d\t(power %.4f, every n up to %d keeps it)", size.Stable, size.StablePower, size.Horizon)
+	r.Line("  normal approximation\t%d", size.Normal.N)
 	planned := size.Stable
 	crit, err := power.OneSamplePower(planned, nullRate, targetRate, opt)
 	if err != nil {
 		return err
 	}
-	r.line("  planned n\t%d\t(success if at least %d respond)", planned, crit.AcceptHi+1)
+	r.Line("  planned n\t%d\t(success if at least %d respond)", planned, crit.AcceptHi+1)
 
-	r.line("")
-	r.line("2. Precision: P(|k/n - %.2f| <= eps) >= %.2f", targetRate, precProb)
+	r.Line("")
+	r.Line("2. Precision: P(|k/n - %.2f| <= eps) >= %.2f", targetRate, precProb)
 	for _, eps := range epsilons {
 		prec, err := power.PrecisionN(ctx, targetRate, eps, power.PrecisionOptions{Target: precProb})
 		if err != nil {
 			return err
 		}
-		r.warnings(prec.Warnings)
-		r.line("  eps = %.2f\tfirst n %d, stable n %d\t(common-practice formula %d)",
+		r.Warnings(prec.Warnings)
+		r.Line("  eps = %.2f\tfirst n %d, stable n %d\t(common-practice formula %d)",
 			eps, prec.First, prec.Stable, prec.Normal.N)
 	}
 	dist, err := binom.New(planned, targetRate)
@@ -142,34 +142,34 @@ func run(w io.Writer) error {
 		return err
 	}
 	for _, eps := range epsilons {
-		r.line("  at n = %d, eps = %.2f\tprobability %.4f", planned, eps, dist.ProportionWithin(eps))
+		r.Line("  at n = %d, eps = %.2f\tprobability %.4f", planned, eps, dist.ProportionWithin(eps))
 	}
 
-	r.line("")
-	r.line("3. Report for an invented outcome: %d of %d responded", responders, planned)
+	r.Line("")
+	r.Line("3. Report for an invented outcome: %d of %d responded", responders, planned)
 	res, err := test.Binomial(responders, planned, nullRate, test.BinomialOptions{
 		Alternative: test.Greater, Level: 1 - alpha,
 	})
 	if err != nil {
 		return err
 	}
-	r.warnings(res.Warnings)
-	r.line("  observed response rate\t%.4f", res.Estimate)
-	r.line("  exact binomial test, one-sided (%s)\tp = %.4f\t%s", res.Alternative, res.PValue, decision(res.PValue))
+	r.Warnings(res.Warnings)
+	r.Line("  observed response rate\t%.4f", res.Estimate)
+	r.Line("  exact binomial test, one-sided (%s)\tp = %.4f\t%s", res.Alternative, res.PValue, decision(res.PValue))
 	if res.Interval != nil {
-		r.line("  one-sided %.0f%% lower bound\t%.4f\t(inverts the test)", 100*res.Interval.Level, res.Interval.Lower)
+		r.Line("  one-sided %.0f%% lower bound\t%.4f\t(inverts the test)", 100*res.Interval.Level, res.Interval.Lower)
 	}
 	for _, m := range []interval.Method{interval.ClopperPearson, interval.Wilson} {
 		iv, err := interval.Proportion(responders, planned, interval.Options{Method: m})
 		if err != nil {
 			return err
 		}
-		r.line("  %s, 95%% two-sided\t[%.4f, %.4f]", iv.Method, iv.Lower, iv.Upper)
-		r.warnings(iv.Warnings)
+		r.Line("  %s, 95%% two-sided\t[%.4f, %.4f]", iv.Method, iv.Lower, iv.Upper)
+		r.Warnings(iv.Warnings)
 	}
-	r.line("")
-	r.line(caution)
-	return r.flush()
+	r.Line("")
+	r.Line(caution)
+	return r.Flush()
 }
 
 // decision reads a one-sided p-value at level alpha.
@@ -178,36 +178,4 @@ func decision(p float64) string {
 		return fmt.Sprintf("below %.2f: rate above %.2f shown", alpha, nullRate)
 	}
 	return fmt.Sprintf("not below %.2f: rate above %.2f not shown", alpha, nullRate)
-}
-
-// report writes aligned lines and keeps the first write error.
-type report struct {
-	tw  *tabwriter.Writer
-	err error
-}
-
-func newReport(w io.Writer) *report {
-	return &report{tw: tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)}
-}
-
-// line writes one formatted line; tabs separate aligned columns.
-func (r *report) line(format string, args ...any) {
-	if r.err == nil {
-		_, r.err = fmt.Fprintf(r.tw, format+"\n", args...)
-	}
-}
-
-// warnings writes each warning of a result on its own line.
-func (r *report) warnings(ws []string) {
-	for _, w := range ws {
-		r.line("    warning: %s", w)
-	}
-}
-
-// flush writes out what is buffered and returns the first error.
-func (r *report) flush() error {
-	if r.err != nil {
-		return r.err
-	}
-	return r.tw.Flush()
 }

@@ -42,9 +42,9 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"text/tabwriter"
 	"time"
 
+	"github.com/kofnlab/kofn/examples/internal/report"
 	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/power"
 	"github.com/kofnlab/kofn/test"
@@ -74,16 +74,16 @@ func main() {
 func run(w io.Writer) error {
 	ctx, cancel := context.WithTimeout(context.Background(), time.Minute)
 	defer cancel()
-	r := newReport(w)
+	r := report.New(w)
 
-	r.line("Invented data: a made-up A/B test of a sign-up flow, not real users.")
-	r.line("")
-	r.line("Sign-up experiment")
-	r.line("  variant A (current form)\t%d of %d signed up", signupsA, visitorsA)
-	r.line("  variant B (shorter form)\t%d of %d signed up", signupsB, visitorsB)
+	r.Line("Invented data: a made-up A/B test of a sign-up flow, not real users.")
+	r.Line("")
+	r.Line("Sign-up experiment")
+	r.Line("  variant A (current form)\t%d of %d signed up", signupsA, visitorsA)
+	r.Line("  variant B (shorter form)\t%d of %d signed up", signupsB, visitorsB)
 
-	r.line("")
-	r.line("1. Sign-up rate of each variant (95%% two-sided)")
+	r.Line("")
+	r.Line("1. Sign-up rate of each variant (95%% two-sided)")
 	for _, v := range []struct {
 		name string
 		k, n int64
@@ -93,24 +93,24 @@ func run(w io.Writer) error {
 			if err != nil {
 				return err
 			}
-			r.line("  %s, %s\t%.4f\t[%.4f, %.4f]", v.name, iv.Method, iv.Estimate, iv.Lower, iv.Upper)
-			r.warnings(iv.Warnings)
+			r.Line("  %s, %s\t%.4f\t[%.4f, %.4f]", v.name, iv.Method, iv.Estimate, iv.Lower, iv.Upper)
+			r.Warnings(iv.Warnings)
 		}
 	}
 
-	r.line("")
-	r.line("2. Lift B - A (95%% two-sided)")
+	r.Line("")
+	r.Line("2. Lift B - A (95%% two-sided)")
 	for _, m := range []interval.DiffMethod{interval.DiffNewcombe, interval.DiffMiettinenNurminen} {
 		iv, err := interval.Difference(signupsB, visitorsB, signupsA, visitorsA, interval.DiffOptions{Method: m})
 		if err != nil {
 			return err
 		}
-		r.line("  %s\t%+.4f\t[%+.4f, %+.4f]\t%s", iv.Method, iv.Estimate, iv.Lower, iv.Upper, excludes(iv, 0))
-		r.warnings(iv.Warnings)
+		r.Line("  %s\t%+.4f\t[%+.4f, %+.4f]\t%s", iv.Method, iv.Estimate, iv.Lower, iv.Upper, excludes(iv, 0))
+		r.Warnings(iv.Warnings)
 	}
 
-	r.line("")
-	r.line("3. Exact tests of equal rates (two-sided)")
+	r.Line("")
+	r.Line("3. Exact tests of equal rates (two-sided)")
 	bos, err := test.Boschloo(ctx, signupsB, visitorsB, signupsA, visitorsA, test.UnconditionalOptions{})
 	if err != nil {
 		return err
@@ -124,22 +124,22 @@ func run(w io.Writer) error {
 		return err
 	}
 	for _, t := range []test.Result{bos, bar, fis} {
-		r.line("  %s\tp = %.4f\t%s", t.Method, t.PValue, verdict(t.PValue, planAlpha))
-		r.warnings(t.Warnings)
+		r.Line("  %s\tp = %.4f\t%s", t.Method, t.PValue, verdict(t.PValue, planAlpha))
+		r.Warnings(t.Warnings)
 	}
 
-	r.line("")
-	r.line("4. Follow-up size: %.0f%% power to detect %.0f%% vs %.0f%%, two-sided alpha %.2f",
+	r.Line("")
+	r.Line("4. Follow-up size: %.0f%% power to detect %.0f%% vs %.0f%%, two-sided alpha %.2f",
 		100*planPower, 100*planA, 100*planB, planAlpha)
 	opt := power.TwoSampleOptions{Alpha: planAlpha, Power: planPower}
 	ns, err := power.TwoSampleNormalN(planA, planB, opt)
 	if err != nil {
 		return err
 	}
-	r.line("  normal approximation\t%d per variant", ns.N)
-	r.line("    formula: %s", ns.Method)
-	r.warnings(ns.Warnings)
-	r.line("  exact power at n per variant\tFisher\tBarnard")
+	r.Line("  normal approximation\t%d per variant", ns.N)
+	r.Line("    formula: %s", ns.Method)
+	r.Warnings(ns.Warnings)
+	r.Line("  exact power at n per variant\tFisher\tBarnard")
 	for _, n := range []int64{ns.N - 20, ns.N, ns.N + 20} {
 		fp, err := power.TwoSamplePower(ctx, n, n, planA, planB, opt)
 		if err != nil {
@@ -151,11 +151,11 @@ func run(w io.Writer) error {
 		if err != nil {
 			return err
 		}
-		r.line("  n = %d\t%.4f\t%.4f", n, fp.Power, bp.Power)
+		r.Line("  n = %d\t%.4f\t%.4f", n, fp.Power, bp.Power)
 	}
-	r.line("  Plan on a difference fixed in advance, not on the observed lift, which")
-	r.line("  overstates the effect when the experiment was picked for looking good.")
-	return r.flush()
+	r.Line("  Plan on a difference fixed in advance, not on the observed lift, which")
+	r.Line("  overstates the effect when the experiment was picked for looking good.")
+	return r.Flush()
 }
 
 // excludes says whether the interval rules out the value x.
@@ -172,36 +172,4 @@ func verdict(p, alpha float64) string {
 		return fmt.Sprintf("below %.2f: evidence that the rates differ", alpha)
 	}
 	return fmt.Sprintf("not below %.2f: no clear difference", alpha)
-}
-
-// report writes aligned lines and keeps the first write error.
-type report struct {
-	tw  *tabwriter.Writer
-	err error
-}
-
-func newReport(w io.Writer) *report {
-	return &report{tw: tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)}
-}
-
-// line writes one formatted line; tabs separate aligned columns.
-func (r *report) line(format string, args ...any) {
-	if r.err == nil {
-		_, r.err = fmt.Fprintf(r.tw, format+"\n", args...)
-	}
-}
-
-// warnings writes each warning of a result on its own line.
-func (r *report) warnings(ws []string) {
-	for _, w := range ws {
-		r.line("    warning: %s", w)
-	}
-}
-
-// flush writes out what is buffered and returns the first error.
-func (r *report) flush() error {
-	if r.err != nil {
-		return r.err
-	}
-	return r.tw.Flush()
 }
