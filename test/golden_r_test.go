@@ -3,6 +3,8 @@ package test
 import (
 	"strings"
 	"testing"
+
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 // TestGoldenR compares with testdata/test_r.tsv, written by
@@ -13,25 +15,25 @@ import (
 // mcnemar.test.
 func TestGoldenR(t *testing.T) {
 	t.Parallel()
-	for _, r := range readGolden(t, "../testdata/test_r.tsv") {
-		what := strings.Join(r, " ")
-		switch r[0] {
+	for _, r := range golden.Read(t, "../testdata/test_r.tsv") {
+		what := strings.Join(r.Fields, " ")
+		switch r.Fields[0] {
 		case "binom":
-			k, n, p0, a := atoi(t, r[1]), atoi(t, r[2]), atof(t, r[3]), alt(t, r[4])
+			k, n, p0, a := r.Int(1), r.Int(2), r.Float(3), alt(t, r.Str(4))
 			got, err := Binomial(k, n, p0, BinomialOptions{Alternative: a})
-			if err != nil || !relClose(got.PValue, atof(t, r[5]), 1e-9) {
+			if err != nil || !relClose(got.PValue, r.Float(5), 1e-9) {
 				t.Errorf("%s: p = %v (%v)", what, got.PValue, err)
 			}
 			cp, _ := Binomial(k, n, p0, BinomialOptions{Alternative: a, Method: ExactCentral})
-			checkInterval(t, what, cp.Interval, atof(t, r[6]), atof(t, r[7]), 1e-9)
+			checkInterval(t, what, cp.Interval, r.Float(6), r.Float(7), 1e-9)
 		case "score1":
-			k, n, p0, a := atoi(t, r[1]), atoi(t, r[2]), atof(t, r[3]), alt(t, r[4])
+			k, n, p0, a := r.Int(1), r.Int(2), r.Float(3), alt(t, r.Str(4))
 			m := Score
-			if r[5] == "TRUE" {
+			if r.Fields[5] == "TRUE" {
 				m = ScoreCC
 			}
 			got, err := Binomial(k, n, p0, BinomialOptions{Alternative: a, Method: m})
-			if err != nil || !relClose(got.PValue, atof(t, r[6]), 1e-9) {
+			if err != nil || !relClose(got.PValue, r.Float(6), 1e-9) {
 				t.Errorf("%s: p = %v (%v)", what, got.PValue, err)
 			}
 			// prop.test shrinks the interval's continuity correction to
@@ -39,36 +41,36 @@ func TestGoldenR(t *testing.T) {
 			// on p0; it is the Wilson interval with continuity correction
 			// (which inverts the corrected score test) only otherwise.
 			if d := float64(k) - float64(n)*p0; m == Score || d >= 0.5 || d <= -0.5 {
-				checkInterval(t, what, got.Interval, atof(t, r[7]), atof(t, r[8]), 1e-9)
+				checkInterval(t, what, got.Interval, r.Float(7), r.Float(8), 1e-9)
 			}
 		case "fisher":
-			k1, n1, k2, n2, a := atoi(t, r[1]), atoi(t, r[2]), atoi(t, r[3]), atoi(t, r[4]), alt(t, r[5])
+			k1, n1, k2, n2, a := r.Int(1), r.Int(2), r.Int(3), r.Int(4), alt(t, r.Str(5))
 			got, err := Fisher(k1, n1, k2, n2, FisherOptions{Alternative: a})
-			if err != nil || !relClose(got.PValue, atof(t, r[6]), 1e-9) {
+			if err != nil || !relClose(got.PValue, r.Float(6), 1e-9) {
 				t.Errorf("%s: p = %v (%v)", what, got.PValue, err)
 			}
 		case "score2":
-			k1, n1, k2, n2, a := atoi(t, r[1]), atoi(t, r[2]), atoi(t, r[3]), atoi(t, r[4]), alt(t, r[5])
+			k1, n1, k2, n2, a := r.Int(1), r.Int(2), r.Int(3), r.Int(4), alt(t, r.Str(5))
 			m := ChiSquare
-			if r[6] == "TRUE" {
+			if r.Fields[6] == "TRUE" {
 				m = ChiSquareYates
 			}
 			got, err := TwoSample(k1, n1, k2, n2, TwoSampleOptions{Alternative: a, Method: m})
 			// Where the exact statistic is 0, R's floating-point cell
 			// arithmetic leaves about 1e-31; the integer numerator gives 0.
-			if w := atof(t, r[7]); w < 1e-20 && got.Statistic < 1e-20 {
-				r[7] = "0"
+			if w := r.Float(7); w < 1e-20 && got.Statistic < 1e-20 {
+				r.Fields[7] = "0"
 			}
-			if err != nil || !relClose(got.Statistic, atof(t, r[7]), 1e-9) || !relClose(got.PValue, atof(t, r[8]), 1e-9) {
+			if err != nil || !relClose(got.Statistic, r.Float(7), 1e-9) || !relClose(got.PValue, r.Float(8), 1e-9) {
 				t.Errorf("%s: X2 = %v, p = %v (%v)", what, got.Statistic, got.PValue, err)
 			}
 		case "mcnemar":
 			m := McNemarAsymptotic
-			if r[3] == "TRUE" {
+			if r.Fields[3] == "TRUE" {
 				m = McNemarAsymptoticCC
 			}
-			got, err := McNemar(atoi(t, r[1]), atoi(t, r[2]), McNemarOptions{Method: m})
-			if err != nil || !relClose(got.Statistic, atof(t, r[4]), 1e-9) || !relClose(got.PValue, atof(t, r[5]), 1e-9) {
+			got, err := McNemar(r.Int(1), r.Int(2), McNemarOptions{Method: m})
+			if err != nil || !relClose(got.Statistic, r.Float(4), 1e-9) || !relClose(got.PValue, r.Float(5), 1e-9) {
 				t.Errorf("%s: X2 = %v, p = %v (%v)", what, got.Statistic, got.PValue, err)
 			}
 		}

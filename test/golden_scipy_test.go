@@ -4,6 +4,8 @@ import (
 	"context"
 	"strings"
 	"testing"
+
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 // TestGoldenSciPy compares with testdata/test_scipy.tsv, written by
@@ -14,24 +16,24 @@ import (
 func TestGoldenSciPy(t *testing.T) {
 	t.Parallel()
 	ctx := context.Background()
-	for _, r := range readGolden(t, "../testdata/test_scipy.tsv") {
-		what := strings.Join(r, " ")
-		switch r[0] {
+	for _, r := range golden.Read(t, "../testdata/test_scipy.tsv") {
+		what := strings.Join(r.Fields, " ")
+		switch r.Fields[0] {
 		case "binom":
-			k, n, p0, a := atoi(t, r[1]), atoi(t, r[2]), atof(t, r[3]), alt(t, r[4])
-			want := atof(t, r[5])
+			k, n, p0, a := r.Int(1), r.Int(2), r.Float(3), alt(t, r.Str(4))
+			want := r.Float(5)
 			got, err := Binomial(k, n, p0, BinomialOptions{Alternative: a, Method: ExactPoint, SkipInterval: true})
 			if err != nil || !relClose(got.PValue, want, 1e-9) {
 				t.Errorf("%s: p = %v (%v)", what, got.PValue, err)
 			}
 			for i, m := range []BinomialMethod{ExactCentral, Score, ScoreCC} {
 				res, _ := Binomial(k, n, p0, BinomialOptions{Alternative: a, Method: m})
-				checkInterval(t, what+" "+m.String(), res.Interval, atof(t, r[6+2*i]), atof(t, r[7+2*i]), 1e-9)
+				checkInterval(t, what+" "+m.String(), res.Interval, r.Float(6+2*i), r.Float(7+2*i), 1e-9)
 			}
 		case "fisher":
-			k1, n1, k2, n2, a := atoi(t, r[1]), atoi(t, r[2]), atoi(t, r[3]), atoi(t, r[4]), alt(t, r[5])
+			k1, n1, k2, n2, a := r.Int(1), r.Int(2), r.Int(3), r.Int(4), alt(t, r.Str(5))
 			got, err := Fisher(k1, n1, k2, n2, FisherOptions{Alternative: a})
-			if want := atof(t, r[6]); err != nil || !relClose(got.PValue, want, 1e-9) {
+			if want := r.Float(6); err != nil || !relClose(got.PValue, want, 1e-9) {
 				t.Errorf("%s: p = %v (%v)", what, got.PValue, err)
 			}
 		case "barnard", "boschloo":
@@ -47,18 +49,18 @@ func TestGoldenSciPy(t *testing.T) {
 			// rows; boschloo_exact, one-sided only, agrees within 1e-6 in
 			// all 520, which is checked too.)
 			got := uncondP(t, ctx, r)
-			want := atof(t, r[7])
-			if got.PValue < want*(1-1e-9) || r[0] == "boschloo" && !relClose(got.PValue, want, 1e-6) {
+			want := r.Float(7)
+			if got.PValue < want*(1-1e-9) || r.Fields[0] == "boschloo" && !relClose(got.PValue, want, 1e-6) {
 				t.Errorf("%s: p = %v against SciPy's %v", what, got.PValue, want)
 			}
-			if !relClose(got.Statistic, atof(t, r[6]), 1e-9) {
+			if !relClose(got.Statistic, r.Float(6), 1e-9) {
 				t.Errorf("%s: statistic %v", what, got.Statistic)
 			}
 		case "barnard_ref", "boschloo_ref":
 			// The reference refines the best three maxima of a 4001-point
 			// grid; measured agreement 6e-14 relative over the 1560 rows.
 			got := uncondP(t, ctx, r)
-			if want := atof(t, r[6]); !relClose(got.PValue, want, 1e-9) {
+			if want := r.Float(6); !relClose(got.PValue, want, 1e-9) {
 				t.Errorf("%s: p = %v at %v (rel %.3g)", what, got.PValue, got.Nuisance, got.PValue/want-1)
 			}
 		}
@@ -66,11 +68,11 @@ func TestGoldenSciPy(t *testing.T) {
 }
 
 // uncondP runs Barnard or Boschloo on a golden row.
-func uncondP(t *testing.T, ctx context.Context, r []string) Result {
+func uncondP(t *testing.T, ctx context.Context, r golden.Row) Result {
 	t.Helper()
-	k1, n1, k2, n2, a := atoi(t, r[1]), atoi(t, r[2]), atoi(t, r[3]), atoi(t, r[4]), alt(t, r[5])
+	k1, n1, k2, n2, a := r.Int(1), r.Int(2), r.Int(3), r.Int(4), alt(t, r.Str(5))
 	f := Barnard
-	if strings.HasPrefix(r[0], "boschloo") {
+	if strings.HasPrefix(r.Fields[0], "boschloo") {
 		f = Boschloo
 	}
 	got, err := f(ctx, k1, n1, k2, n2, UnconditionalOptions{Alternative: a})

@@ -1,54 +1,9 @@
 package test
 
 import (
-	"bufio"
 	"math"
-	"os"
-	"strconv"
-	"strings"
 	"testing"
 )
-
-// readGolden returns the data rows of a golden file, split on tabs.
-func readGolden(t *testing.T, path string) [][]string {
-	t.Helper()
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	var rows [][]string
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if line == "" || strings.HasPrefix(line, "#") {
-			continue
-		}
-		rows = append(rows, strings.Split(line, "\t"))
-	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
-	}
-	return rows
-}
-
-func atoi(t *testing.T, s string) int64 {
-	t.Helper()
-	v, err := strconv.ParseInt(s, 10, 64)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
-}
-
-func atof(t *testing.T, s string) float64 {
-	t.Helper()
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
-}
 
 func alt(t *testing.T, s string) Alternative {
 	t.Helper()

@@ -3,6 +3,8 @@ package test
 import (
 	"strings"
 	"testing"
+
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 // TestGoldenMargin compares the margin tests with testdata/test_margin.tsv,
@@ -12,23 +14,23 @@ import (
 // forms in internal/score, and normal tails from SciPy 1.10.1.
 func TestGoldenMargin(t *testing.T) {
 	t.Parallel()
-	for _, r := range readGolden(t, "../testdata/test_margin.tsv") {
-		what := strings.Join(r, " ")
-		k1, n1, k2, n2 := atoi(t, r[1]), atoi(t, r[2]), atoi(t, r[3]), atoi(t, r[4])
-		null := atof(t, r[5])
+	for _, r := range golden.Read(t, "../testdata/test_margin.tsv") {
+		what := strings.Join(r.Fields, " ")
+		k1, n1, k2, n2 := r.Int(1), r.Int(2), r.Int(3), r.Int(4)
+		null := r.Float(5)
 		m := MiettinenNurminen
-		if r[6] == "FM" {
+		if r.Fields[6] == "FM" {
 			m = FarringtonManning
 		}
-		opt := MarginOptions{Method: m, Alternative: alt(t, r[7])}
+		opt := MarginOptions{Method: m, Alternative: alt(t, r.Str(7))}
 		var got Result
 		var err error
-		if r[0] == "diff" {
+		if r.Fields[0] == "diff" {
 			got, err = DifferenceMargin(k1, n1, k2, n2, null, opt)
 		} else {
 			got, err = RatioMargin(k1, n1, k2, n2, null, opt)
 		}
-		z, p := atof(t, r[8]), atof(t, r[9])
+		z, p := r.Float(8), r.Float(9)
 		if err != nil || !relClose(got.Statistic, z, 1e-9) && abs(got.Statistic-z) > 1e-12 || !relClose(got.PValue, p, 1e-8) {
 			t.Errorf("%s: z = %v, p = %v (%v)", what, got.Statistic, got.PValue, err)
 		}

@@ -6,6 +6,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 // TestAsymptoticTinyP0 checks the score, score-cc and likelihood-ratio log
@@ -16,12 +17,12 @@ import (
 // below the most negative double, never NaN; the interval stays inside [0, 1].
 func TestAsymptoticTinyP0(t *testing.T) {
 	t.Parallel()
-	for _, r := range readGolden(t, "../testdata/test_tinyp0.tsv") {
-		m, err := ParseBinomialMethod(r[0])
+	for _, r := range golden.Read(t, "../testdata/test_tinyp0.tsv") {
+		m, err := ParseBinomialMethod(r.Fields[0])
 		if err != nil {
 			t.Fatal(err)
 		}
-		k, n, p0, a, want := atoi(t, r[1]), atoi(t, r[2]), atof(t, r[3]), alt(t, r[4]), atof(t, r[5])
+		k, n, p0, a, want := r.Int(1), r.Int(2), r.Float(3), alt(t, r.Str(4)), r.Float(5)
 		got, err := Binomial(k, n, p0, BinomialOptions{Method: m, Alternative: a})
 		if err != nil {
 			t.Errorf("%v %d/%d p0=%g %v: %v", m, k, n, p0, a, err)
