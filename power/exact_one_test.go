@@ -6,22 +6,23 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 	"github.com/kofnlab/kofn/internal/onesample"
 )
 
 // oneCaseOptions builds the options of a case in testdata/power_exact_one.tsv.
-func oneCaseOptions(t *testing.T, c map[string]string) (p0, p1 float64, o OneSampleOptions) {
+func oneCaseOptions(t *testing.T, c golden.Case) (p0, p1 float64, o OneSampleOptions) {
 	t.Helper()
 	var err error
-	p0, p1 = atof(t, c["p0"]), atof(t, c["p1"])
-	o.Alpha, o.Power = atof(t, c["alpha"]), atof(t, c["target"])
-	if o.Alternative, err = ParseAlternative(c["3"]); err != nil {
+	p0, p1 = c.Float("p0"), c.Float("p1")
+	o.Alpha, o.Power = c.Float("alpha"), c.Float("target")
+	if o.Alternative, err = ParseAlternative(c.Values["3"]); err != nil {
 		t.Fatal(err)
 	}
-	if o.Method, err = ParseTwoSidedMethod(c["4"]); err != nil {
+	if o.Method, err = ParseTwoSidedMethod(c.Values["4"]); err != nil {
 		t.Fatal(err)
 	}
-	o.Mid = c["mid"] == "1"
+	o.Mid = c.Values["mid"] == "1"
 	return
 }
 
@@ -31,30 +32,30 @@ func oneCaseOptions(t *testing.T, c map[string]string) (p0, p1 float64, o OneSam
 // stable n (for example p0 = 0.5, p1 = 0.75 two-sided: 30 and 35).
 func TestOneSampleGolden(t *testing.T) {
 	t.Parallel()
-	cases, rows := goldenRows(t, "power_exact_one.tsv")
-	byCase := map[string][][]string{}
+	cases, rows := golden.ReadCases(t, "../testdata/power_exact_one.tsv")
+	byCase := map[string][]golden.Row{}
 	for _, r := range rows {
-		byCase[r[0]] = append(byCase[r[0]], r)
+		byCase[r.Fields[0]] = append(byCase[r.Fields[0]], r)
 	}
 	for name, c := range cases {
 		p0, p1, o := oneCaseOptions(t, c)
-		nmax := atoi(t, c["nmax"])
+		nmax := c.Int("nmax")
 		curve, err := OneSampleCurve(context.Background(), p0, p1, nmax, o)
 		if err != nil {
 			t.Fatal(err)
 		}
 		var want, got, wantSize, gotSize []float64
 		for i, r := range byCase[name] {
-			want = append(want, atof(t, r[2]))
+			want = append(want, r.Float(2))
 			got = append(got, curve[i].Power)
-			wantSize = append(wantSize, atof(t, r[3]))
-			ep, err := OneSamplePower(atoi(t, r[1]), p0, p1, o)
+			wantSize = append(wantSize, r.Float(3))
+			ep, err := OneSamplePower(r.Int(1), p0, p1, o)
 			if err != nil {
 				t.Fatal(err)
 			}
 			gotSize = append(gotSize, ep.Size)
 			if d := ep.Power - curve[i].Power; d > 1e-10*ep.Power || -d > 1e-10*ep.Power {
-				t.Errorf("%s n = %s: OneSamplePower %v != curve %v", name, r[1], ep.Power, curve[i].Power)
+				t.Errorf("%s n = %s: OneSamplePower %v != curve %v", name, r.Fields[1], ep.Power, curve[i].Power)
 			}
 		}
 		opt := cmpopts.EquateApprox(1e-9, 0)
@@ -69,8 +70,8 @@ func TestOneSampleGolden(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if ss.First != atoi(t, c["first"]) || ss.Stable != atoi(t, c["stable"]) {
-			t.Errorf("%s: first, stable = %d, %d; want %s, %s", name, ss.First, ss.Stable, c["first"], c["stable"])
+		if ss.First != c.Int("first") || ss.Stable != c.Int("stable") {
+			t.Errorf("%s: first, stable = %d, %d; want %s, %s", name, ss.First, ss.Stable, c.Values["first"], c.Values["stable"])
 		}
 		if ss.First == ss.Stable {
 			t.Errorf("%s: expected a sawtooth case", name)

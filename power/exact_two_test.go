@@ -8,6 +8,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 	"github.com/kofnlab/kofn/test"
 )
 
@@ -16,36 +17,36 @@ import (
 // decide every table: testdata/gen/power_two.py.
 func TestTwoSampleGolden(t *testing.T) {
 	t.Parallel()
-	cases, rows := goldenRows(t, "power_two.tsv")
+	cases, rows := golden.ReadCases(t, "../testdata/power_two.tsv")
 	var want, got []float64
 	for _, r := range rows {
-		tst, err := ParseExactTest(map[string]string{"fisher": "fisher", "barnard": "barnard", "z": "z"}[r[1]])
+		tst, err := ParseExactTest(map[string]string{"fisher": "fisher", "barnard": "barnard", "z": "z"}[r.Fields[1]])
 		if err != nil {
 			t.Fatal(err)
 		}
-		alt, err := ParseAlternative(r[7])
+		alt, err := ParseAlternative(r.Fields[7])
 		if err != nil {
 			t.Fatal(err)
 		}
-		n1, n2 := atoi(t, r[2]), atoi(t, r[3])
-		o := TwoSampleOptions{Test: tst, Alternative: alt, Alpha: atof(t, r[6])}
-		ep, err := TwoSamplePower(context.Background(), n1, n2, atof(t, r[4]), atof(t, r[5]), o)
+		n1, n2 := r.Int(2), r.Int(3)
+		o := TwoSampleOptions{Test: tst, Alternative: alt, Alpha: r.Float(6)}
+		ep, err := TwoSamplePower(context.Background(), n1, n2, r.Float(4), r.Float(5), o)
 		if err != nil {
 			t.Fatal(err)
 		}
-		want = append(want, atof(t, r[8]))
+		want = append(want, r.Float(8))
 		got = append(got, ep.Power)
 	}
 	if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
 		t.Errorf("exact two-sample power (-want +got):\n%s", diff)
 	}
 	c := cases["scan"]
-	ss, err := TwoSampleN(context.Background(), atof(t, c["p1"]), atof(t, c["p2"]), TwoSampleOptions{Alpha: atof(t, c["alpha"]), Power: atof(t, c["target"])})
+	ss, err := TwoSampleN(context.Background(), c.Float("p1"), c.Float("p2"), TwoSampleOptions{Alpha: c.Float("alpha"), Power: c.Float("target")})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if ss.First != atoi(t, c["first"]) || ss.Stable != atoi(t, c["stable"]) {
-		t.Errorf("Fisher scan: first, stable = %d, %d; want %s, %s", ss.First, ss.Stable, c["first"], c["stable"])
+	if ss.First != c.Int("first") || ss.Stable != c.Int("stable") {
+		t.Errorf("Fisher scan: first, stable = %d, %d; want %s, %s", ss.First, ss.Stable, c.Values["first"], c.Values["stable"])
 	}
 }
 

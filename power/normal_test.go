@@ -7,6 +7,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 // Normal-approximation sizes against an independent SciPy implementation
@@ -16,35 +17,35 @@ import (
 // Schuirmann's TOST for equivalence; Connor (1987) for pairs.
 func TestNormalGolden(t *testing.T) {
 	t.Parallel()
-	_, rows := goldenRows(t, "power_normal.tsv")
+	_, rows := golden.ReadCases(t, "../testdata/power_normal.tsv")
 	for _, r := range rows {
-		p1, p2, alpha, pw := atof(t, r[1]), atof(t, r[2]), atof(t, r[3]), atof(t, r[4])
+		p1, p2, alpha, pw := r.Float(1), r.Float(2), r.Float(3), r.Float(4)
 		var alt Alternative
-		if r[5] != "-" {
+		if r.Fields[5] != "-" {
 			var err error
-			if alt, err = ParseAlternative(r[5]); err != nil {
+			if alt, err = ParseAlternative(r.Fields[5]); err != nil {
 				t.Fatal(err)
 			}
 		}
 		var got NormalSize
 		var err error
-		switch r[0] {
+		switch r.Fields[0] {
 		case "one":
 			got, err = OneSampleNormalN(p1, p2, OneSampleOptions{Alpha: alpha, Power: pw, Alternative: alt})
 		case "paired":
 			got, err = PairedNormalN(p1, p2, PairedOptions{Alpha: alpha, Power: pw, Alternative: alt})
 		default:
-			o := TwoSampleOptions{Alpha: alpha, Power: pw, Alternative: alt, Ratio: atof(t, r[6]), Margin: atof(t, r[9])}
-			switch r[0] {
+			o := TwoSampleOptions{Alpha: alpha, Power: pw, Alternative: alt, Ratio: r.Float(6), Margin: r.Float(9)}
+			switch r.Fields[0] {
 			case "ni":
 				o.Hypothesis = NonInferiority
 			case "eq":
 				o.Hypothesis = Equivalence
 			}
-			if r[7] == "unpooled" {
+			if r.Fields[7] == "unpooled" {
 				o.Variance = Unpooled
 			}
-			if r[8] == "none" {
+			if r.Fields[8] == "none" {
 				o.Correction = NoCorrection
 			}
 			got, err = TwoSampleNormalN(p1, p2, o)
@@ -52,11 +53,11 @@ func TestNormalGolden(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%v: %v", r, err)
 		}
-		if diff := cmp.Diff(atof(t, r[10]), got.Real, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
-			t.Errorf("%v (-want +got):\n%s", r[:10], diff)
+		if diff := cmp.Diff(r.Float(10), got.Real, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
+			t.Errorf("%v (-want +got):\n%s", r.Fields[:10], diff)
 		}
-		if got.Power < pw-1e-9 && r[8] != "cps" {
-			t.Errorf("%v: power %v at the rounded n below the target", r[:10], got.Power)
+		if got.Power < pw-1e-9 && r.Fields[8] != "cps" {
+			t.Errorf("%v: power %v at the rounded n below the target", r.Fields[:10], got.Power)
 		}
 	}
 }

@@ -7,6 +7,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 // Exact power of McNemar's exact conditional, mid-p and asymptotic tests
@@ -14,19 +15,19 @@ import (
 // probabilities (SciPy): testdata/gen/power_paired.py.
 func TestPairedGolden(t *testing.T) {
 	t.Parallel()
-	cases, rows := goldenRows(t, "power_paired.tsv")
-	byCase := map[string][][]string{}
+	cases, rows := golden.ReadCases(t, "../testdata/power_paired.tsv")
+	byCase := map[string][]golden.Row{}
 	for _, r := range rows {
-		byCase[r[0]] = append(byCase[r[0]], r)
+		byCase[r.Fields[0]] = append(byCase[r.Fields[0]], r)
 	}
 	for name, c := range cases {
-		p10, p01 := atof(t, c["p10"]), atof(t, c["p01"])
-		o := PairedOptions{Alpha: atof(t, c["alpha"]), Power: atof(t, c["target"]), MaxN: atoi(t, c["nmax"])}
+		p10, p01 := c.Float("p10"), c.Float("p01")
+		o := PairedOptions{Alpha: c.Float("alpha"), Power: c.Float("target"), MaxN: c.Int("nmax")}
 		var err error
-		if o.Alternative, err = ParseAlternative(c["3"]); err != nil {
+		if o.Alternative, err = ParseAlternative(c.Values["3"]); err != nil {
 			t.Fatal(err)
 		}
-		switch c["mid"] {
+		switch c.Values["mid"] {
 		case "1":
 			o.Method = McNemarMidP
 		case "2":
@@ -34,8 +35,8 @@ func TestPairedGolden(t *testing.T) {
 		}
 		var want, got []float64
 		for _, r := range byCase[name] {
-			want = append(want, atof(t, r[2]))
-			ep, err := PairedPower(atoi(t, r[1]), p10, p01, o)
+			want = append(want, r.Float(2))
+			ep, err := PairedPower(r.Int(1), p10, p01, o)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -48,8 +49,8 @@ func TestPairedGolden(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if ss.First != atoi(t, c["first"]) || ss.Stable != atoi(t, c["stable"]) {
-			t.Errorf("%s: first, stable = %d, %d; want %s, %s", name, ss.First, ss.Stable, c["first"], c["stable"])
+		if ss.First != c.Int("first") || ss.Stable != c.Int("stable") {
+			t.Errorf("%s: first, stable = %d, %d; want %s, %s", name, ss.First, ss.Stable, c.Values["first"], c.Values["stable"])
 		}
 		for i, p := range ss.Curve {
 			if d := p.Power - got[i]; d > 1e-12 || d < -1e-12 {

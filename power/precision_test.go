@@ -7,6 +7,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 	"github.com/kofnlab/kofn/interval"
 )
 
@@ -17,41 +18,41 @@ import (
 func TestPrecisionGolden(t *testing.T) {
 	t.Parallel()
 	ctx := context.Background()
-	cases, rows := goldenRows(t, "power_precision.tsv")
+	cases, rows := golden.ReadCases(t, "../testdata/power_precision.tsv")
 	curves := map[string][]float64{}
 	for _, r := range rows {
-		switch r[0] {
+		switch r.Fields[0] {
 		case "within":
-			curves[r[1]] = append(curves[r[1]], atof(t, r[3]))
+			curves[r.Fields[1]] = append(curves[r.Fields[1]], r.Float(3))
 		case "worst":
-			eps, n := atof(t, r[1]), atoi(t, r[2])
+			eps, n := r.Float(1), r.Int(2)
 			w, err := worstWithin(ctx, "test", n, eps, -1)
 			if err != nil {
 				t.Fatal(err)
 			}
-			if diff := cmp.Diff(atof(t, r[3]), w.Prob, cmpopts.EquateApprox(1e-6, 0)); diff != "" {
+			if diff := cmp.Diff(r.Float(3), w.Prob, cmpopts.EquateApprox(1e-6, 0)); diff != "" {
 				t.Errorf("worst case eps %v n %d (-want +got):\n%s", eps, n, diff)
 			}
 		case "ehw":
-			m := map[string]interval.Method{"wilson": interval.Wilson, "clopper-pearson": interval.ClopperPearson}[r[1]]
-			got, err := halfWidthSum(atoi(t, r[3]), atof(t, r[2]), interval.Options{Method: m}, func(h float64) float64 { return h })
+			m := map[string]interval.Method{"wilson": interval.Wilson, "clopper-pearson": interval.ClopperPearson}[r.Fields[1]]
+			got, err := halfWidthSum(r.Int(3), r.Float(2), interval.Options{Method: m}, func(h float64) float64 { return h })
 			if err != nil {
 				t.Fatal(err)
 			}
-			if diff := cmp.Diff(atof(t, r[4]), got, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
-				t.Errorf("expected half-width %v (-want +got):\n%s", r[1:4], diff)
+			if diff := cmp.Diff(r.Float(4), got, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
+				t.Errorf("expected half-width %v (-want +got):\n%s", r.Fields[1:4], diff)
 			}
 		}
 	}
 	for name, c := range cases {
-		p, eps := atof(t, c["p"]), atof(t, c["eps"])
-		o := PrecisionOptions{Target: atof(t, c["target"]), MaxN: atoi(t, c["nmax"])}
+		p, eps := c.Float("p"), c.Float("eps")
+		o := PrecisionOptions{Target: c.Float("target"), MaxN: c.Int("nmax")}
 		r, err := PrecisionN(ctx, p, eps, o)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if r.First != atoi(t, c["first"]) || r.Stable != atoi(t, c["stable"]) {
-			t.Errorf("%s: first, stable = %d, %d; want %s, %s", name, r.First, r.Stable, c["first"], c["stable"])
+		if r.First != c.Int("first") || r.Stable != c.Int("stable") {
+			t.Errorf("%s: first, stable = %d, %d; want %s, %s", name, r.First, r.Stable, c.Values["first"], c.Values["stable"])
 		}
 		var got []float64
 		for _, pt := range r.Curve {

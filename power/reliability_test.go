@@ -7,6 +7,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 // Demonstration sizes, exact bounds and smallest sampling plans against a
@@ -19,35 +20,35 @@ import (
 // the exact search gives the smaller n = 110, c = 3, which meets both risks.
 func TestReliabilityGolden(t *testing.T) {
 	t.Parallel()
-	_, rows := goldenRows(t, "power_reliability.tsv")
+	_, rows := golden.ReadCases(t, "../testdata/power_reliability.tsv")
 	for _, r := range rows {
-		switch r[0] {
+		switch r.Fields[0] {
 		case "demo":
-			d, err := DemonstrationTrials(atof(t, r[1]), atof(t, r[2]), atoi(t, r[3]))
+			d, err := DemonstrationTrials(r.Float(1), r.Float(2), r.Int(3))
 			if err != nil {
 				t.Fatal(err)
 			}
-			if d.Trials != atoi(t, r[4]) {
-				t.Errorf("DemonstrationTrials%v = %d, want %s", r[1:4], d.Trials, r[4])
+			if d.Trials != r.Int(4) {
+				t.Errorf("DemonstrationTrials%v = %d, want %s", r.Fields[1:4], d.Trials, r.Fields[4])
 			}
 			if d.AchievedConfidence < d.Confidence || (d.PreviousConfidence >= d.Confidence) {
-				t.Errorf("%v: achieved %v previous %v", r[1:4], d.AchievedConfidence, d.PreviousConfidence)
+				t.Errorf("%v: achieved %v previous %v", r.Fields[1:4], d.AchievedConfidence, d.PreviousConfidence)
 			}
 		case "bound":
-			got, err := DemonstratedReliability(atoi(t, r[1]), atoi(t, r[2]), atof(t, r[3]))
+			got, err := DemonstratedReliability(r.Int(1), r.Int(2), r.Float(3))
 			if err != nil {
 				t.Fatal(err)
 			}
-			if diff := cmp.Diff(atof(t, r[4]), got, cmpopts.EquateApprox(1e-12, 0)); diff != "" {
-				t.Errorf("DemonstratedReliability%v (-want +got):\n%s", r[1:4], diff)
+			if diff := cmp.Diff(r.Float(4), got, cmpopts.EquateApprox(1e-12, 0)); diff != "" {
+				t.Errorf("DemonstratedReliability%v (-want +got):\n%s", r.Fields[1:4], diff)
 			}
 		case "plan":
-			d, err := DesignPlan(context.Background(), atof(t, r[1]), atof(t, r[2]), DesignOptions{ProducerRisk: atof(t, r[3]), ConsumerRisk: atof(t, r[4])})
+			d, err := DesignPlan(context.Background(), r.Float(1), r.Float(2), DesignOptions{ProducerRisk: r.Float(3), ConsumerRisk: r.Float(4)})
 			if err != nil {
 				t.Fatal(err)
 			}
-			if d.Plan.SampleSize != atoi(t, r[5]) || d.Plan.AcceptNumber != atoi(t, r[6]) {
-				t.Errorf("DesignPlan%v = %+v, want n = %s, c = %s", r[1:5], d.Plan, r[5], r[6])
+			if d.Plan.SampleSize != r.Int(5) || d.Plan.AcceptNumber != r.Int(6) {
+				t.Errorf("DesignPlan%v = %+v, want n = %s, c = %s", r.Fields[1:5], d.Plan, r.Fields[5], r.Fields[6])
 			}
 		}
 	}
