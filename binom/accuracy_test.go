@@ -1,12 +1,10 @@
 package binom
 
 import (
-	"bufio"
 	"math"
-	"os"
-	"strconv"
-	"strings"
 	"testing"
+
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 // goldenCase is one line of testdata/binom_golden.tsv: the natural logs of
@@ -22,39 +20,12 @@ type goldenCase struct {
 
 func readGolden(t *testing.T) []goldenCase {
 	t.Helper()
-	f, err := os.Open("../testdata/binom_golden.tsv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
 	var cases []goldenCase
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || line == "" {
-			continue
+	for _, r := range golden.Read(t, "../testdata/binom_golden.tsv") {
+		if r.Len() != 6 {
+			t.Fatalf("%s: bad golden line %q", r.Pos(), r.Fields)
 		}
-		fs := strings.Split(line, "\t")
-		if len(fs) != 6 {
-			t.Fatalf("bad golden line %q", line)
-		}
-		var c goldenCase
-		var errs [6]error
-		c.n, errs[0] = strconv.ParseInt(fs[0], 10, 64)
-		c.p, errs[1] = strconv.ParseFloat(fs[1], 64)
-		c.k, errs[2] = strconv.ParseInt(fs[2], 10, 64)
-		c.lpmf, errs[3] = strconv.ParseFloat(fs[3], 64)
-		c.lcdf, errs[4] = strconv.ParseFloat(fs[4], 64)
-		c.lsf, errs[5] = strconv.ParseFloat(fs[5], 64)
-		for _, e := range errs {
-			if e != nil {
-				t.Fatalf("golden line %q: %v", line, e)
-			}
-		}
-		cases = append(cases, c)
-	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
+		cases = append(cases, goldenCase{n: r.Int(0), p: r.Float(1), k: r.Int(2), lpmf: r.Float(3), lcdf: r.Float(4), lsf: r.Float(5)})
 	}
 	return cases
 }

@@ -9,6 +9,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 func TestNewRejects(t *testing.T) {
@@ -87,26 +88,22 @@ func TestMoments(t *testing.T) {
 func TestEntropyGolden(t *testing.T) {
 	t.Parallel()
 	rows := 0
-	for _, fs := range goldenRows(t, "binom_extra_entropy.tsv") {
-		line := strings.Join(fs, "\t")
-		want, err := strconv.ParseFloat(fs[4], 64)
-		if err != nil {
-			t.Fatal(err)
-		}
-		n, _ := strconv.ParseInt(fs[1], 10, 64)
+	for _, fs := range golden.Read(t, "../testdata/binom_extra_entropy.tsv") {
+		line := strings.Join(fs.Fields, "\t")
+		want := fs.Float(4)
+		n := fs.Int(1)
 		var got float64
 		var what string
-		switch fs[0] {
+		switch fs.Fields[0] {
 		case "binom":
-			p, _ := strconv.ParseFloat(fs[2], 64)
+			p := fs.Float(2)
 			d, err := New(n, p)
 			if err != nil {
 				t.Fatal(err)
 			}
 			got, what = d.Entropy(), strconv.Quote(line)
 		case "hyper":
-			K, _ := strconv.ParseInt(fs[2], 10, 64)
-			m, _ := strconv.ParseInt(fs[3], 10, 64)
+			K, m := fs.Int(2), fs.Int(3)
 			h, err := NewHyper(n, K, m)
 			if err != nil {
 				t.Fatal(err)

@@ -1,16 +1,13 @@
 package binom
 
 import (
-	"bufio"
 	"errors"
 	"math"
-	"os"
-	"strconv"
-	"strings"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 	"github.com/kofnlab/kofn/internal/xmath"
 )
 
@@ -60,49 +57,14 @@ type hyperRow struct {
 	lp, lcdf, lsur float64
 }
 
-// goldenRows returns the tab-separated fields of each data line of the
-// golden file testdata/<name> (comment lines start with #).
-func goldenRows(t *testing.T, name string) [][]string {
-	t.Helper()
-	f, err := os.Open("../testdata/" + name)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	var rows [][]string
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		if line := sc.Text(); line != "" && !strings.HasPrefix(line, "#") {
-			rows = append(rows, strings.Split(line, "\t"))
-		}
-	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
-	}
-	return rows
-}
-
-// parseFloats parses every field as a float64 (integers included).
-func parseFloats(t *testing.T, fs []string) []float64 {
-	t.Helper()
-	v := make([]float64, len(fs))
-	for i, s := range fs {
-		var err error
-		if v[i], err = strconv.ParseFloat(s, 64); err != nil {
-			t.Fatalf("field %q: %v", s, err)
-		}
-	}
-	return v
-}
-
 func readHyperGolden(t *testing.T) []hyperRow {
 	t.Helper()
 	var rows []hyperRow
-	for _, fs := range goldenRows(t, "hyper_golden.tsv") {
-		if len(fs) != 7 {
-			t.Fatalf("bad golden line %q", fs)
+	for _, fs := range golden.Read(t, "../testdata/hyper_golden.tsv") {
+		if fs.Len() != 7 {
+			t.Fatalf("%s: bad golden line %q", fs.Pos(), fs.Fields)
 		}
-		v := parseFloats(t, fs)
+		v := fs.Floats(0)
 		rows = append(rows, hyperRow{int64(v[0]), int64(v[1]), int64(v[2]), int64(v[3]), v[4], v[5], v[6]})
 	}
 	return rows

@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 func TestNewNoncentralHyperRejects(t *testing.T) {
@@ -38,14 +40,14 @@ func TestNoncentralGolden(t *testing.T) {
 	t.Parallel()
 	const tol = 2e-14
 	rows := 0
-	for _, fs := range goldenRows(t, "binom_extra_noncentral.tsv") {
-		num := parseFloats(t, fs[1:])
+	for _, fs := range golden.Read(t, "../testdata/binom_extra_noncentral.tsv") {
+		num := fs.Floats(1)
 		d, err := NewNoncentralHyper(int64(num[0]), int64(num[1]), int64(num[2]), num[3])
 		if err != nil {
 			t.Fatal(err)
 		}
 		rows++
-		switch fs[0] {
+		switch fs.Fields[0] {
 		case "mom":
 			if got := d.Mean(); math.Abs(got-num[4]) > 1e-14*num[4] {
 				t.Errorf("%v.Mean() = %.17g, want %.17g", d, got, num[4])

@@ -4,6 +4,8 @@ import (
 	"math"
 	"strconv"
 	"testing"
+
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 // TestProportionWithinExample is the worked example of the specification
@@ -58,8 +60,8 @@ func TestProportionWithinSpecial(t *testing.T) {
 func TestProportionWithinGolden(t *testing.T) {
 	t.Parallel()
 	rows := 0
-	for _, fs := range goldenRows(t, "binom_extra_within.tsv") {
-		v := parseFloats(t, fs)
+	for _, fs := range golden.Read(t, "../testdata/binom_extra_within.tsv") {
+		v := fs.Floats(0)
 		rows++
 		n := int64(v[0])
 		d, err := New(n, v[1])
