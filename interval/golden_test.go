@@ -1,56 +1,32 @@
 package interval_test
 
 import (
-	"bufio"
-	"os"
 	"strconv"
-	"strings"
 	"testing"
+
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
-// readGolden returns the tab-separated fields of the non-comment lines of
-// a golden file in ../testdata.
+// readGolden returns the tab-separated fields of the data lines of a
+// golden file in ../testdata (internal/golden, which fails the test on an
+// unreadable or empty file).
 func readGolden(t *testing.T, name string) [][]string {
 	t.Helper()
-	f, err := os.Open("../testdata/" + name)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
 	var rows [][]string
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if line == "" || strings.HasPrefix(line, "#") {
-			continue
-		}
-		rows = append(rows, strings.Split(line, "\t"))
-	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
-	}
-	if len(rows) == 0 {
-		t.Fatalf("%s: no rows", name)
+	for _, r := range golden.Read(t, "../testdata/"+name) {
+		rows = append(rows, r.Fields)
 	}
 	return rows
 }
 
 func atoi(t *testing.T, s string) int64 {
 	t.Helper()
-	v, err := strconv.ParseInt(s, 10, 64)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
+	return golden.Int(t, s)
 }
 
 func atof(t *testing.T, s string) float64 {
 	t.Helper()
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
+	return golden.Float(t, s)
 }
 
 // relErr returns |got - want| / |want| (|got - want| when want = 0).
