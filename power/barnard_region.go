@@ -66,7 +66,7 @@ func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, 
 		}
 	}
 	la := xmath.Log(alpha)
-	opt := test.UnconditionalOptions{Alternative: testAlt(alt)}
+	opt := test.UnconditionalOptions{Alternative: alt}
 	var probeErr error
 	rejected := func(g int) bool { // group g and all more extreme groups are rejected
 		if probeErr != nil {

@@ -30,17 +30,6 @@ func pmfAll(n int64, p float64) []float64 {
 	return w
 }
 
-// testAlt maps a power alternative to the test package's.
-func testAlt(a Alternative) test.Alternative {
-	switch a {
-	case Greater:
-		return test.Greater
-	case Less:
-		return test.Less
-	}
-	return test.TwoSided
-}
-
 // twoRegion is the rejection region of a two-sample test with groups n1,
 // n2, stored per margin s = x1 + x2 as the accepted x1 interval [a[s],
 // b[s]] (Fisher) or per row x1 as the accepted x2 interval (z test).
@@ -114,7 +103,7 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt Alternative) (*twoRegion, error) {
 	r := &twoRegion{n1: n1, n2: n2, a: make([]int64, n1+1), b: make([]int64, n1+1)}
 	la := xmath.Log(alpha)
-	opt := test.TwoSampleOptions{Method: test.ZPooled, Alternative: testAlt(alt)}
+	opt := test.TwoSampleOptions{Method: test.ZPooled, Alternative: alt}
 	ga, gb := int64(0), n2
 	for x1 := int64(0); x1 <= n1; x1++ {
 		if x1&63 == 0 {

@@ -176,11 +176,11 @@ func decide(t *testing.T, tst ExactTest, x1, n1, x2, n2 int64, alt Alternative) 
 	var err error
 	switch tst {
 	case Fisher:
-		r, err = test.Fisher(x1, n1, x2, n2, test.FisherOptions{Alternative: testAlt(alt)})
+		r, err = test.Fisher(x1, n1, x2, n2, test.FisherOptions{Alternative: alt})
 	case ZPooled:
-		r, err = test.TwoSample(x1, n1, x2, n2, test.TwoSampleOptions{Alternative: testAlt(alt)})
+		r, err = test.TwoSample(x1, n1, x2, n2, test.TwoSampleOptions{Alternative: alt})
 	default:
-		r, err = test.Barnard(context.Background(), x1, n1, x2, n2, test.UnconditionalOptions{Alternative: testAlt(alt)})
+		r, err = test.Barnard(context.Background(), x1, n1, x2, n2, test.UnconditionalOptions{Alternative: alt})
 	}
 	if err != nil {
 		t.Fatal(err)

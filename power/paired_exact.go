@@ -70,7 +70,7 @@ func newCondPower(p10, p01, alpha float64, o PairedOptions) *condPower {
 		// Given d, the chi-square test rejects outside an interval of n10
 		// around d/2, decided by test.McNemar; the interval of d seeds d+1.
 		la := xmath.Log(alpha)
-		opt := test.McNemarOptions{Method: test.McNemarAsymptotic, Alternative: testAlt(o.Alternative)}
+		opt := test.McNemarOptions{Method: test.McNemarAsymptotic, Alternative: o.Alternative}
 		ga, gb := int64(0), int64(0)
 		cp.next = func(d int64) (float64, float64) {
 			ok := func(x int64) bool {
