@@ -13,7 +13,7 @@ import (
 )
 
 // Exact two-sample power against an independent enumeration in which
-// SciPy 1.10's fisher_exact, barnard_exact (pooled) and the pooled z
+// SciPy 1.10's Fisher and Barnard (pooled) tests and the pooled z
 // decide every table: testdata/gen/power_two.py.
 func TestTwoSampleGolden(t *testing.T) {
 	t.Parallel()

@@ -8,11 +8,12 @@ import (
 )
 
 // TestGoldenR compares with testdata/test_r.tsv, written by
-// testdata/gen/test_r.R with R 4.2.2 (stats): binom.test (point-probability
-// p-value and Clopper-Pearson interval), one-sample prop.test (score test
-// with and without continuity correction, Wilson intervals), fisher.test,
-// two-sample prop.test (Pearson chi-square with and without Yates) and
-// mcnemar.test.
+// testdata/gen/test_r.R with R 4.2.2 (its stats package): the exact
+// binomial test (point-probability p-value and Clopper-Pearson interval),
+// the one-sample proportion test (score test with and without continuity
+// correction, Wilson intervals), Fisher's exact test, the two-sample
+// proportion test (Pearson chi-square with and without Yates) and
+// McNemar's test.
 func TestGoldenR(t *testing.T) {
 	t.Parallel()
 	for _, r := range golden.Read(t, "../testdata/test_r.tsv") {
@@ -36,7 +37,7 @@ func TestGoldenR(t *testing.T) {
 			if err != nil || !relClose(got.PValue, r.Float(6), 1e-9) {
 				t.Errorf("%s: p = %v (%v)", what, got.PValue, err)
 			}
-			// prop.test shrinks the interval's continuity correction to
+			// R's proportion test shrinks the interval's continuity correction to
 			// |k - n p0| when that is below 1/2, so its interval then depends
 			// on p0; it is the Wilson interval with continuity correction
 			// (which inverts the corrected score test) only otherwise.

@@ -10,9 +10,9 @@ import (
 
 // TestGoldenSciPy compares with testdata/test_scipy.tsv, written by
 // testdata/gen/test_scipy.py with SciPy 1.10.1 (Debian python3-scipy):
-// binomtest p-values and its Clopper-Pearson, Wilson and Wilson
-// continuity-corrected intervals; fisher_exact; barnard_exact and
-// boschloo_exact (one-sided).
+// exact binomial test p-values and its Clopper-Pearson, Wilson and Wilson
+// continuity-corrected intervals; Fisher's exact test; Barnard's and
+// Boschloo's tests (Boschloo one-sided only).
 func TestGoldenSciPy(t *testing.T) {
 	t.Parallel()
 	ctx := context.Background()
@@ -37,7 +37,7 @@ func TestGoldenSciPy(t *testing.T) {
 				t.Errorf("%s: p = %v (%v)", what, got.PValue, err)
 			}
 		case "barnard", "boschloo":
-			// SciPy's barnard_exact compares floating-point statistics
+			// SciPy's Barnard test compares floating-point statistics
 			// without tolerance and so drops tables tied with the observed
 			// one in exact arithmetic (the Mehta and Senchaudhuri 2003 case:
 			// 0.034077 instead of 0.034109), and both functions take the
@@ -45,8 +45,8 @@ func TestGoldenSciPy(t *testing.T) {
 			// only lower their p-value. So here the check is one-sided: ours
 			// is never below theirs. The two-sided check is against the
 			// generator's own exact-order reference (the _ref rows).
-			// (Measured on this file: barnard_exact is lower in 49 of 780
-			// rows; boschloo_exact, one-sided only, agrees within 1e-6 in
+			// (Measured on this file: SciPy's Barnard test is lower in 49 of 780
+			// rows; its Boschloo test, one-sided only, agrees within 1e-6 in
 			// all 520, which is checked too.)
 			got := uncondP(t, ctx, r)
 			want := r.Float(7)

@@ -10,7 +10,7 @@ import (
 
 // TestGoldenSterne compares the interval of the point-probability test
 // (Sterne's) with testdata/test_sterne.tsv, written by
-// testdata/gen/test_sterne.py from SciPy 1.10.1's binomtest on a grid of
+// testdata/gen/test_sterne.py from SciPy 1.10.1's exact binomial test on a grid of
 // 20001 null values with bisection at the outermost transitions, and the
 // gap warning with the gaps that grid sees.
 func TestGoldenSterne(t *testing.T) {

@@ -50,7 +50,7 @@ func (a *Alternative) UnmarshalText(b []byte) error {
 }
 
 // ParseAlternative returns the alternative named s: "two-sided", "less" or
-// "greater" (case-insensitive; "two.sided" and "twosided" are not accepted,
+// "greater" (case-insensitive; other spellings are not accepted,
 // to keep one spelling).
 func ParseAlternative(s string) (Alternative, error) {
 	switch strings.ToLower(strings.TrimSpace(s)) {

@@ -22,7 +22,7 @@ var printed = cmpopts.EquateApprox(0, 5.01e-5)
 // TestRun runs the program and checks its key numbers against independent
 // computations: closed forms for Wilson and Newcombe, gonum's beta quantiles
 // for Clopper-Pearson, exact rational sums for Fisher, the Fleiss formula;
-// SciPy 1.10 (barnard_exact, fisher_exact and an enumeration of Fisher's exact
+// SciPy 1.10 (its Barnard and Fisher tests and an enumeration of Fisher's exact
 // power) and an mpmath inversion of the Miettinen-Nurminen score from
 // ../testdata/reference.tsv; Boschloo's two-sided p-value, for which SciPy
 // uses another definition, against the public API (and its one-sided value
@@ -105,7 +105,7 @@ func TestFleissReference(t *testing.T) {
 }
 
 // TestBoschlooReference checks the one-sided version of the Boschloo test the
-// program uses against SciPy 1.10's boschloo_exact (../testdata/reference.tsv).
+// program uses against SciPy 1.10's Boschloo test (../testdata/reference.tsv).
 func TestBoschlooReference(t *testing.T) {
 	t.Parallel()
 	got, err := test.Boschloo(context.Background(), signupsB, visitorsB, signupsA, visitorsA,

@@ -150,7 +150,7 @@ def wilson_cc(k, n, a):
     return lo, min(hi, F(1))
 
 
-def agresti_coull(k, n, a):
+def adjusted_wald_ac(k, n, a):
     z = zq(a)
     nt = n + z * z
     pt = (k + z * z / 2) / nt
@@ -393,7 +393,7 @@ def main():
                 if n <= 1000:
                     rows.append((case, "mid-p", lev) + midp(k, n, a) + (est,))
             rows.append((case, "Wilson with continuity correction", lev) + wilson_cc(k, n, a) + (est,))
-            rows.append((case, "Agresti-Coull", lev) + agresti_coull(k, n, a) + (est,))
+            rows.append((case, "Agresti-Coull", lev) + adjusted_wald_ac(k, n, a) + (est,))
             rows.append((case, "arcsine", lev) + arcsine(k, n, a) + (est,))
             rows.append((case, "logit", lev) + logit(k, n, a) + (est,))
             if n <= 30:

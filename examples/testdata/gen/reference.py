@@ -102,7 +102,7 @@ def main():
     out.write("# Tools: Python %s, SciPy %s, mpmath %s (Debian packages)\n"
               % (sys.version.split()[0], scipy.__version__, mp.__version__))
     out.write("# Date: %s\n" % datetime.date.today().isoformat())
-    out.write("# SciPy's two-sided boschloo_exact doubles the one-sided p-value, a different\n")
+    out.write("# SciPy's two-sided Boschloo test doubles the one-sided p-value, a different\n")
     out.write("# definition from the test package's two-sided ordering; the one-sided value is given.\n")
     rows = []
 
