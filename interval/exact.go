@@ -174,19 +174,18 @@ func lowerT(m Method, k, n int64, lv level) float64 {
 		if k == n {
 			return endT(la / fn)
 		}
-		f := func(t float64) float64 {
+		// P(X >= k) = I_p(k, n-k+1): tailRoot on ln P(X >= k) - ln a, with
+		// d/dt ln P(X >= k) = k (1-p) b(k; n, p) / P(X >= k), from the Wilson
+		// guess with continuity correction.
+		fk := float64(k)
+		return tailRoot(func(t float64, withH bool) (f, h float64) {
 			p, q := pq(t)
-			return logGE(k, n, p, q) - la
-		}
-		// One Newton step from the Wilson guess: d/dt ln P(X >= k) =
-		// k (1-p) b(k) / P(X >= k), so the search starts close to the root.
-		t0 := logOdds(wilsonCCLower(k, n, lv.z))
-		p, q := pq(t0)
-		lg := logGE(k, n, p, q)
-		if d := float64(k) * q * math.Exp(logPoint(k, n, p, q)-lg); d > 0 && !math.IsInf(lg, 0) {
-			t0 -= math.Max(-2, math.Min(2, (lg-la)/d))
-		}
-		return solveIncreasingStep(f, t0, 1e-4*(1+math.Abs(t0)))
+			lg := logGE(k, n, p, q)
+			if withH {
+				h = fk * q * math.Exp(logPoint(k, n, p, q)-lg)
+			}
+			return lg - la, h
+		}, tailODE{A: fk, B: float64(n) + 1, s: 1}, logOdds(wilsonCCLower(k, n, lv.z)))
 	case MidP:
 		if k == n {
 			return endT((la + math.Ln2) / fn)
