@@ -29,6 +29,13 @@ func logDbinomReal(x, m, p, q float64) float64 {
 	return lc - 0.5*math.Log(x*y/m) - lnSqrt2Pi
 }
 
+// logBetaDensity returns ln(x^a y^b / B(a, b)), the Beta(a, b) density
+// times x y: d/dt I_x(a, b) in the log-odds t of x. It is
+// dbinom(a; a+b, x) a b / (a+b) (see logDbinomReal), with y = 1 - x given.
+func logBetaDensity(a, b, x, y float64) float64 {
+	return logDbinomReal(a, a+b, x, y) + math.Log(a*b/(a+b))
+}
+
 // logBetaCDF returns ln I_x(a, b) = ln P(B <= x) for B ~ Beta(a, b), with
 // y = 1 - x supplied to full precision, x, y in [0, 1]. The smaller tail is
 // evaluated directly,

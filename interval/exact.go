@@ -145,10 +145,16 @@ func exactUpper(m Method, k, n int64, lv level) float64 {
 func jeffreysUpperT(k, n int64, lv level) float64 {
 	a, b := float64(k)+0.5, float64(n-k)+0.5
 	la := math.Log(lv.tail)
-	return solveIncreasing(func(t float64) float64 {
+	// tailRoot on ln a - ln P(B > U), whose derivative in t is the beta
+	// density over the upper tail, betaDensity / P(B > U).
+	return tailRoot(func(t float64, withH bool) (f, h float64) {
 		p, q := pq(t)
-		return la - logBetaUpper(a, b, p, q)
-	}, logOdds(wilsonUpper(k, n, lv.z)))
+		lu := logBetaUpper(a, b, p, q)
+		if withH {
+			h = math.Exp(logBetaDensity(a, b, p, q) - lu)
+		}
+		return la - lu, h
+	}, tailODE{A: a, B: a + b, s: -1}, logOdds(wilsonUpper(k, n, lv.z)))
 }
 
 // endT returns the log-odds of p = e^lp, for a closed-form limit p near 1.
@@ -196,10 +202,14 @@ func lowerT(m Method, k, n int64, lv level) float64 {
 		}, logOdds(wilsonLower(k, n, lv.z)))
 	case Jeffreys:
 		a, b := float64(k)+0.5, float64(n-k)+0.5
-		return solveIncreasing(func(t float64) float64 {
+		return tailRoot(func(t float64, withH bool) (f, h float64) {
 			p, q := pq(t)
-			return logBetaCDF(a, b, p, q) - la
-		}, logOdds(wilsonLower(k, n, lv.z)))
+			lc := logBetaCDF(a, b, p, q)
+			if withH {
+				h = math.Exp(logBetaDensity(a, b, p, q) - lc)
+			}
+			return lc - la, h
+		}, tailODE{A: a, B: a + b, s: 1}, logOdds(wilsonLower(k, n, lv.z)))
 	case LikelihoodRatio:
 		if k == n {
 			return endT(-lv.z * lv.z / (2 * fn))
