@@ -44,7 +44,7 @@ func TestMidPLikelihoodInversion(t *testing.T) {
 	// checked on whichever of p, 1-p is at most 1/2 (see the Clopper-Pearson
 	// inversion test).
 	for _, c := range inversionCases {
-		for _, lev := range []float64{0.5, 0.95, 0.999} {
+		for _, lev := range []float64{0.5, 0.95, 0.999, 0.999999} {
 			a := (1 - lev) / 2
 			iv, err := interval.Proportion(c.k, c.n, interval.Options{Method: interval.MidP, Level: lev})
 			if err != nil {
@@ -142,22 +142,27 @@ func TestJeffreysInversion(t *testing.T) {
 	// DasGupta 2001): checked against gonum's regularized incomplete beta,
 	// whose lgamma-based prefactor is accurate to 1e-10 only for n up to
 	// about 1e4, on the smaller tail; larger n are checked against mpmath
-	// in TestGoldenMpmath.
+	// in TestGoldenMpmath. The level 0.999999 reaches far tails at small n
+	// (where the upper tail of the incomplete beta must not be formed as a
+	// complement). A limit within 1e-6 of 0 or 1 on the side where float64
+	// holds only its distance to the other end (U = 1 - 7.6e-8 for 999/1000
+	// is held to 1.5e-9 relative in 1 - U) is not checked through that
+	// distance.
 	for _, c := range inversionCases {
 		if c.n > 1e4 {
 			continue
 		}
-		for _, lev := range []float64{0.5, 0.95, 0.999} {
+		for _, lev := range []float64{0.5, 0.95, 0.999, 0.999999} {
 			a := (1 - lev) / 2
 			iv, err := interval.Proportion(c.k, c.n, interval.Options{Method: interval.Jeffreys, Level: lev})
 			if err != nil {
 				t.Fatal(err)
 			}
 			aa, bb := float64(c.k)+0.5, float64(c.n-c.k)+0.5
-			if c.k > 0 {
+			if c.k > 0 && iv.Lower < 1-1e-6 {
 				inverts(t, fmt.Sprintf("Jeffreys %d/%d %v lower", c.k, c.n, lev), math.Log(mathext.RegIncBeta(aa, bb, iv.Lower)), a)
 			}
-			if c.k < c.n {
+			if c.k < c.n && iv.Upper < 1-1e-6 {
 				inverts(t, fmt.Sprintf("Jeffreys %d/%d %v upper", c.k, c.n, lev), math.Log(mathext.RegIncBeta(bb, aa, 1-iv.Upper)), a)
 			}
 		}
