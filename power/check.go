@@ -59,12 +59,22 @@ func zAlpha(alpha float64, alt Alternative) float64 {
 	return -zq(alpha)
 }
 
+// maxRealN is the largest sample size the normal-approximation formulas
+// report: 2^53, the largest count float64 holds exactly with all smaller
+// ones. A larger size means an effect too small for any feasible study.
+const maxRealN = 1 << 53
+
 // ceilN rounds a real sample size up to an integer, treating values within
-// 1e-9 relative of an integer as that integer (so 299.0000000001 computed
-// from an exact 299 does not become 300), and never below 1.
+// 1e-9 relative (and at most 1e-6 absolute) of an integer as that integer
+// (so 299.0000000001 computed from an exact 299 does not become 300, while
+// 1e10 + 0.3 still rounds up), and never below 1. NaN, +Inf and sizes over
+// maxRealN give maxRealN + 1; callers reject those with checkRealN.
 func ceilN(x float64) int64 {
+	if !(x <= maxRealN) {
+		return maxRealN + 1
+	}
 	r := math.Round(x)
-	if math.Abs(x-r) <= 1e-9*math.Max(1, r) {
+	if d := math.Abs(x - r); d <= 1e-9*math.Max(1, r) && d <= 1e-6 {
 		x = r
 	}
 	n := int64(math.Ceil(x))
@@ -72,4 +82,16 @@ func ceilN(x float64) int64 {
 		n = 1
 	}
 	return n
+}
+
+// checkRealN rejects a normal-approximation size that is undefined (NaN)
+// or beyond maxRealN, instead of letting it round to a meaningless count.
+func checkRealN(fn string, real float64) error {
+	if math.IsNaN(real) {
+		return argerr.NoSolution(fn, "the normal formula is undefined at these probabilities (the effect is below the resolution of float64)")
+	}
+	if !(real <= maxRealN) {
+		return argerr.TooLarge(fn, "n", real, "exceeds 2^53: the effect is too small for any feasible study")
+	}
+	return nil
 }

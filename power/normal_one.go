@@ -34,6 +34,9 @@ func OneSampleNormalN(p0, p1 float64, o OneSampleOptions) (NormalSize, error) {
 		return NormalSize{}, argerr.NoSolution(fn, "target power below one half with a degenerate p1: the formula gives no positive n")
 	}
 	real := s * s / (d * d)
+	if err := checkRealN(fn, real); err != nil {
+		return NormalSize{}, err
+	}
 	r := NormalSize{Method: "normal approximation (score variance under H0)", Real: real, Uncorrected: real, N: ceilN(real)}
 	r.Power = oneSampleNormalPower(float64(r.N), p0, p1, alpha, o.Alternative)
 	if r.N < 30 {

@@ -285,8 +285,14 @@ func TwoSampleNormalN(p1, p2 float64, o TwoSampleOptions) (NormalSize, error) {
 	if v == 0 {
 		return NormalSize{}, argerr.NoSolution(fn, "both proportions are 0 or 1: the normal variance is zero; use the exact power")
 	}
+	if err := checkRealN(fn, res.Real); err != nil {
+		return NormalSize{}, err
+	}
 	res.N = ceilN(res.Real)
 	res.N2 = ceilN(s.r * float64(res.N))
+	if err := checkRealN(fn, s.r*float64(res.N)); err != nil {
+		return NormalSize{}, err
+	}
 	res.Power = twoNormalPower(float64(res.N), s.r*float64(res.N), s, o.Variance, o.Correction)
 	if res.N < 30 || res.N2 < 30 {
 		res.Warnings = append(res.Warnings, smallSampleWarning)

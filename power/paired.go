@@ -83,6 +83,9 @@ func PairedNormalN(p10, p01 float64, o PairedOptions) (NormalSize, error) {
 		return NormalSize{}, argerr.NoSolution(fn, "the formula gives no positive n (target power below one half with degenerate probabilities)")
 	}
 	real := num * num / (delta * delta)
+	if err := checkRealN(fn, real); err != nil {
+		return NormalSize{}, err
+	}
 	r := NormalSize{Method: "McNemar asymptotic (Connor 1987)", Real: real, Uncorrected: real, N: ceilN(real)}
 	r.Power = pairedNormalPower(float64(r.N), p10, p01, alpha, o.Alternative)
 	if float64(r.N)*psi < 20 {
