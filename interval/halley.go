@@ -14,8 +14,9 @@ import "math"
 // -ln(1 - I_p). One exact evaluation of F and H at a point thus gives the
 // whole Taylor series of F about it from the recurrences for p and H, and
 // the series solves F = ln a to about 1e-14 from a start that is off by a
-// few percent; a second exact evaluation at the solution and a third just
-// past it certify a bracket of width below 1e-12 relative in p.
+// few percent; a second exact evaluation at the solution certifies it by
+// the mean-value theorem (f changes by at least 0.9 H per unit of t near
+// it), to within 2e-13 in t, below 1e-12 relative in p.
 
 // betaRootTol is the largest absolute tolerance in t of tailRoot's
 // certified bracket: a width of 2 betaRootTol in t moves p by at most 4e-13
@@ -29,17 +30,21 @@ const seriesOrder = 16
 type tailODE struct{ A, B, s float64 }
 
 // tailRoot returns the root of f(t) = F(t) - ln a, F increasing, from the
-// guess t0, where eval returns f and, when asked, H = F' at t (the last,
-// certifying point needs f only), and ode gives the
+// guess t0, where eval returns f and, when asked, H = F' at t (a point
+// placed only to close a bracket needs f alone), and ode gives the
 // differential equation of H. Each step is a Taylor-series solve (or,
-// where the series has not converged, a Halley step); the answer is
-// returned only once f has been seen with opposite signs at two points at
-// most 2 betaRootTol apart (and close enough that f changes by at most
-// 1e-12 between them, or a few units in the last place of t) that enclose
-// it. When an evaluation is not finite, H is not positive, or 12
-// evaluations have not certified a root, it returns the root found by
-// solveIncreasingStep (Brent's method on a bracket) from the best point so
-// far.
+// where the series has not converged, a Halley step). The answer is
+// returned only once it is certified to lie within tol of the root, where
+// tol is betaRootTol or less (small enough that f changes by at most 1e-12
+// across it, but at least a few units in the last place of t): by the
+// mean-value theorem at an evaluated point (|f| <= 0.45 H tol, with H's
+// own change over tol bounded through H'/H = A - B p - s H), or by f seen
+// with opposite signs at two points at most 2 tol apart. The tails
+// themselves carry about 1e-13 relative error, which moves the root by
+// about 1e-13 / H in t either way. When an evaluation is not finite, H is
+// not positive, or 12 evaluations have not certified a root, it returns
+// the root found by solveIncreasingStep (Brent's method on a bracket) from
+// the best point so far.
 func tailRoot(eval func(t float64, withH bool) (f, h float64), ode tailODE, t0 float64) float64 {
 	lo, hi := float64(-tMax), float64(tMax) // the root lies in [lo, hi]
 	t := math.Max(-tMax, math.Min(tMax, t0))
@@ -70,6 +75,13 @@ func tailRoot(eval func(t float64, withH bool) (f, h float64), ode tailODE, t0 f
 		tol = math.Max(math.Min(betaRootTol, 5e-13/h), 4*ulp(t))
 		if hi-lo <= 2*tol {
 			return lo + (hi-lo)/2
+		}
+		// Mean-value certificate: over |x - t| <= tol the derivative
+		// H(x) >= H(t) e^(-|H'/H| tol) >= 0.9 h (H'/H = A - B p - s H),
+		// so when |f| <= 0.45 h tol the root lies within |f| / (0.9 h)
+		// <= tol/2 of t, and within tol of the Newton point t - f/h.
+		if p, _ := pq(t); math.Abs(f) <= 0.45*h*tol && math.Abs(ode.A-ode.B*p-ode.s*h)*tol <= 0.1 {
+			return t - f/h
 		}
 		step := ode.step(t, f, h)
 		next := t + step
