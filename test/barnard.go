@@ -118,7 +118,7 @@ func (a zkey) value(n1, n2 int) float64 {
 // Z ordering); Mehta CR, Senchaudhuri P (2003).
 func Barnard(ctx context.Context, k1, n1, k2, n2 int64, opt UnconditionalOptions) (Result, error) {
 	const fn = "test.Barnard"
-	return unconditional(ctx, fn, "Barnard", k1, n1, k2, n2, opt, func(ctx context.Context) (*region, float64, string, error) {
+	return unconditional(ctx, fn, "Barnard", k1, n1, k2, n2, opt, "z", 0, func(ctx context.Context) (*region, float64, error) {
 		a, b := int(n1), int(n2)
 		obs := newZKey(int(k1), int(k2), a, b)
 		var in func(x1, x2 int) bool
@@ -131,6 +131,6 @@ func Barnard(ctx context.Context, k1, n1, k2, n2 int64, opt UnconditionalOptions
 			in = func(x1, x2 int) bool { return cmpAbs(newZKey(x1, x2, a, b), obs) >= 0 }
 		}
 		reg, err := newRegion(ctx, fn, a, b, in)
-		return reg, obs.value(a, b), "z", err
+		return reg, obs.value(a, b), err
 	})
 }

@@ -15,7 +15,8 @@ import (
 // than the tolerance 1e-7 that decides ties). Cost O(n1 n2), with a sort
 // per margin for the point-probability definition.
 func fisherTable(ctx context.Context, fn string, n1, n2 int, alt Alternative, m FisherMethod) ([]float64, error) {
-	lc1, lc2, lcn := logChooseRow(n1), logChooseRow(n2), logChooseRow(n1+n2)
+	lg := logFactorials(n1 + n2)
+	lc1, lc2, lcn := logChooseFrom(lg, n1), logChooseFrom(lg, n2), logChooseFrom(lg, n1+n2)
 	w := n2 + 1
 	out := make([]float64, (n1+1)*w)
 	lf := make([]float64, n1+1)
@@ -111,16 +112,16 @@ func Boschloo(ctx context.Context, k1, n1, k2, n2 int64, opt UnconditionalOption
 	if opt.Alternative == TwoSided && opt.Fisher == FisherCentral {
 		name += " central"
 	}
-	return unconditional(ctx, fn, name, k1, n1, k2, n2, opt, func(ctx context.Context) (*region, float64, string, error) {
+	return unconditional(ctx, fn, name, k1, n1, k2, n2, opt, "Fisher p", 1, func(ctx context.Context) (*region, float64, error) {
 		a, b := int(n1), int(n2)
 		pf, err := fisherTable(ctx, fn, a, b, opt.Alternative, opt.Fisher)
 		if err != nil {
-			return nil, 0, "", err
+			return nil, 0, err
 		}
 		w := b + 1
 		obs := pf[int(k1)*w+int(k2)]
 		thr := obs + logRelTol
 		reg, err := newRegion(ctx, fn, a, b, func(x1, x2 int) bool { return pf[x1*w+x2] <= thr })
-		return reg, math.Exp(obs), "Fisher p", err
+		return reg, math.Exp(obs), err
 	})
 }

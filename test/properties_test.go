@@ -149,8 +149,8 @@ func TestRegionSumsAgree(t *testing.T) {
 	reg, _ := newRegion(context.Background(), "t", n1, n2, func(x1, x2 int) bool { return cmpAbs(newZKey(x1, x2, n1, n2), obs) >= 0 })
 	w := newScratch(n1, n2)
 	for _, pi := range []float64{1e-6, 0.01, 0.2, 0.5, 0.77, 0.999} {
-		a := reg.logProb(w, pi)
-		b := reg.logProbLog(w) // w.l1, w.l2 filled by logProb at pi
+		a := reg.logProbFull(w, pi)
+		b := reg.logProbLog(w) // w.l1, w.l2 filled by logProbFull at pi
 		if math.Abs(a-b) > 1e-12*math.Max(1, math.Abs(a)) {
 			t.Errorf("pi = %v: linear %v, log %v", pi, a, b)
 		}

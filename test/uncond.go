@@ -3,6 +3,7 @@ package test
 import (
 	"context"
 	"math"
+	"sort"
 
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/onesample"
@@ -41,7 +42,8 @@ type UnconditionalOptions struct {
 type region struct {
 	n1, n2   int
 	pre, suf []int
-	inner    [][3]int // {x1, a, b}: x2 in [a, b] strictly inside the row
+	inner    [][3]int // {x1, a, b}: x2 in [a, b] strictly inside the row, in order of x1
+	runAt    []int    // inner[runAt[x1]:runAt[x1+1]] are the runs of row x1 (nil without runs)
 	in00     bool     // the table (0, 0) belongs to the region
 	inNN     bool     // the table (n1, n2) belongs to the region
 	lc1, lc2 []float64
@@ -81,20 +83,42 @@ func newRegion(ctx context.Context, fn string, n1, n2 int, in func(x1, x2 int) b
 	}
 	r.in00 = in(0, 0)
 	r.inNN = in(n1, n2)
-	r.lc1 = logChooseRow(n1)
-	r.lc2 = logChooseRow(n2)
+	if len(r.inner) > 0 {
+		r.runAt = make([]int, n1+2)
+		for _, run := range r.inner {
+			r.runAt[run[0]+1]++
+		}
+		for x1 := 1; x1 <= n1+1; x1++ {
+			r.runAt[x1] += r.runAt[x1-1]
+		}
+	}
+	lg := logFactorials(max(n1, n2))
+	r.lc1 = logChooseFrom(lg, n1)
+	r.lc2 = logChooseFrom(lg, n2)
 	return r, nil
 }
 
 // logChooseRow returns ln C(n, x) for x = 0..n, from lgamma (absolute
 // error about 1e-13 at n = 2000, far below what the p-value needs).
 func logChooseRow(n int) []float64 {
+	return logChooseFrom(logFactorials(n), n)
+}
+
+// logFactorials returns ln x! for x = 0..n (one lgamma per entry).
+func logFactorials(n int) []float64 {
+	lg := make([]float64, n+1)
+	for x := range lg {
+		lg[x], _ = math.Lgamma(float64(x + 1))
+	}
+	return lg
+}
+
+// logChooseFrom returns ln C(n, x) for x = 0..n from a table of ln x! that
+// reaches at least n.
+func logChooseFrom(lg []float64, n int) []float64 {
 	c := make([]float64, n+1)
-	ln, _ := math.Lgamma(float64(n + 1))
-	for x := 0; x <= n; x++ {
-		a, _ := math.Lgamma(float64(x + 1))
-		b, _ := math.Lgamma(float64(n - x + 1))
-		c[x] = ln - a - b
+	for x := range c {
+		c[x] = lg[n] - lg[x] - lg[n-x]
 	}
 	return c
 }
@@ -115,12 +139,139 @@ func newScratch(n1, n2 int) *scratch {
 	}
 }
 
+// windowCut is the depth, in natural-log units below the largest term, at
+// which the windowed sum of logProbBound stops: terms of a binomial PMF
+// below e^-60 of its mode (beyond about 11 standard deviations) are left
+// out, and the error bound of the sum accounts for them.
+const windowCut = 60
+
+// window fills e[x] = P(X = x) / P(X = mode) for X ~ Bin(n, pi),
+// 0 < pi < 1, on the range [lo, hi] around the mode floor((n+1) pi)
+// outside of which every term is below e^-windowCut, and returns the range
+// and m = ln P(X = mode). The terms come from the ratio of neighbours,
+//
+//	P(X = x+1) / P(X = x) = (n - x) pi / ((x + 1) (1 - pi)),
+//
+// one product per term (relative error about 2e-16 per step, so below 1e-11
+// across the at most about 22 sqrt(n pi (1-pi)) + 2 terms of the range);
+// the PMF is log-concave, so the range ends where the terms first fall
+// below the cut.
+func window(e, lc []float64, n int, pi, lp, lq float64) (lo, hi int, m float64) {
+	mode := min(n, int(float64(n+1)*pi))
+	m = lc[mode] + float64(mode)*lp + float64(n-mode)*lq
+	cut := math.Exp(-windowCut)
+	r := pi / (1 - pi)
+	e[mode] = 1
+	lo, hi = mode, mode
+	for v := 1.0; lo > 0; {
+		v *= float64(lo) / (float64(n-lo+1) * r)
+		if v < cut {
+			break
+		}
+		lo--
+		e[lo] = v
+	}
+	for v := 1.0; hi < n; {
+		v *= float64(n-hi) * r / float64(hi+1)
+		if v < cut {
+			break
+		}
+		hi++
+		e[hi] = v
+	}
+	return lo, hi, m
+}
+
 // logProb returns ln P(region) when X1 ~ Bin(n1, pi) and X2 ~ Bin(n2, pi)
-// independently. It first sums in linear space, each PMF scaled by its
-// largest term (n1 + n2 exponentials and one logarithm); when the scaled
-// sum falls below 1e-250, where terms that underflowed could matter, it
-// repeats the sum in log space (logProbLog), where nothing underflows.
+// independently: the windowed sum of logProbBound where its error bound is
+// below 1e-10 of the value, otherwise the sum over all tables of
+// logProbFull.
 func (r *region) logProb(w *scratch, pi float64) float64 {
+	if v, exact := r.logProbBound(w, pi); exact {
+		return v
+	}
+	return r.logProbFull(w, pi)
+}
+
+// logProbBound returns ln P(region) from the tables inside the windows of
+// both PMFs (see window), in linear space scaled by the two modes, at a
+// cost of O(sqrt(n1) + sqrt(n2)) plus the interior runs of the rows in the
+// window. The terms left out add at most
+//
+//	D1 (S2 + D2) + S1 D2,  Di = (ni + 1) e^-windowCut,
+//
+// to the scaled sum, where Si is the scaled sum of PMF i over its window.
+// When that bound is at most 1e-10 of the sum, the value is returned with
+// exact = true (relative error below 1e-10 from the window); otherwise
+// exact = false and the value is an upper bound, ln(sum + bound).
+func (r *region) logProbBound(w *scratch, pi float64) (v float64, exact bool) {
+	switch {
+	case pi <= 0:
+		return logIf(r.in00), true
+	case pi >= 1:
+		return logIf(r.inNN), true
+	}
+	lp, lq := xmath.Log(pi), math.Log1p(-pi)
+	lo1, hi1, m1 := window(w.term, r.lc1, r.n1, pi, lp, lq)
+	lo2, hi2, m2 := window(w.sufM, r.lc2, r.n2, pi, lp, lq)
+	// term and sufM hold the scaled PMFs of X1 and X2, preS[c] the sum of
+	// the scaled PMF of X2 over [lo2, c] and sufS[c] over [c, hi2].
+	acc := 0.0
+	for x := lo2; x <= hi2; x++ {
+		acc += w.sufM[x]
+		w.preS[x] = acc
+	}
+	s2 := acc
+	acc = 0
+	for x := hi2; x >= lo2; x-- {
+		acc += w.sufM[x]
+		w.sufS[x] = acc
+	}
+	total, s1 := 0.0, 0.0
+	for x1 := lo1; x1 <= hi1; x1++ {
+		t := 0.0
+		if c := min(r.pre[x1], hi2); c >= lo2 {
+			t = w.preS[c]
+		}
+		if c := max(r.suf[x1], lo2); c <= hi2 {
+			t += w.sufS[c]
+		}
+		if r.runAt != nil {
+			for _, run := range r.inner[r.runAt[x1]:r.runAt[x1+1]] {
+				for x2 := max(run[1], lo2); x2 <= min(run[2], hi2); x2++ {
+					t += w.sufM[x2]
+				}
+			}
+		}
+		e := w.term[x1]
+		s1 += e
+		total += e * t
+	}
+	d1 := float64(r.n1+1) * math.Exp(-windowCut)
+	d2 := float64(r.n2+1) * math.Exp(-windowCut)
+	if lo1 == 0 && hi1 == r.n1 {
+		d1 = 0
+	}
+	if lo2 == 0 && hi2 == r.n2 {
+		d2 = 0
+	}
+	bound := d1*(s2+d2) + (s1+d1)*d2
+	if bound <= 1e-10*total && total >= 1e-250 {
+		return math.Min(0, m1+m2+math.Log(total)), true
+	}
+	if total+bound == 0 {
+		return math.Inf(-1), false
+	}
+	return math.Min(0, m1+m2+math.Log(total+bound)), false
+}
+
+// logProbFull is ln P(region) summed over all tables. It first sums in
+// linear space, each PMF scaled by its largest term (n1 + n2 exponentials
+// and one logarithm); when the scaled sum falls below 1e-250, where terms
+// that underflowed could matter, it repeats the sum in log space
+// (logProbLog), where nothing underflows. Cost O(n1 + n2) plus the
+// interior runs.
+func (r *region) logProbFull(w *scratch, pi float64) float64 {
 	switch {
 	case pi <= 0:
 		return logIf(r.in00)
@@ -176,7 +327,7 @@ func (r *region) logProb(w *scratch, pi float64) float64 {
 	return r.logProbLog(w)
 }
 
-// logProbLog is logProb in log space, for w.l1 and w.l2 already filled:
+// logProbLog is logProbFull in log space, for w.l1 and w.l2 already filled:
 // for each row the prefix and suffix tails of X2 come from cumulative sums
 // held as (max, scaled sum) pairs, so nothing underflows.
 func (r *region) logProbLog(w *scratch) float64 {
@@ -245,16 +396,28 @@ func logIf(b bool) float64 {
 // where it is attained. The function is a polynomial in pi whose peaks have
 // widths of order sqrt(pi (1-pi) / (n1+n2)), so it is first evaluated on a
 // grid equally spaced in arcsin(sqrt(pi)) with about 8 sqrt(n1+n2) points
-// (at least 64), fine enough that no peak falls between grid points; every
-// grid point that is a local maximum within 2% of the best is then refined
-// by golden-section search on its two neighbouring cells, to 1e-7 in pi (so
-// the supremum is located to better than 1e-6).
+// (at least 64), fine enough that no peak falls between grid points. Grid
+// values come from the windowed sums of logProbBound (O(sqrt(n1) +
+// sqrt(n2)) each); a point whose windowed sum is only an upper bound is
+// summed in full only if that bound comes within 2% of the best value
+// found, so the grid costs O(n1 + n2) in all. Every grid point that is a
+// local maximum within 2% of the best (the first point of a flat run
+// counting once) is then refined by golden-section search on its two
+// neighbouring cells, to 1e-7 in pi (so the supremum is located to better
+// than 1e-6), best candidates first and at most maxRefine of them. A grid
+// value of ln 1 = 0 is the supremum itself and ends the search.
 func (r *region) supremum(ctx context.Context, fn string, lo, hi float64) (logP, at float64, err error) {
 	w := newScratch(r.n1, r.n2)
 	g := int(math.Max(64, 8*math.Sqrt(float64(r.n1+r.n2))))
 	t0, t1 := math.Asin(math.Sqrt(lo)), math.Asin(math.Sqrt(hi))
 	xs := make([]float64, g+1)
 	vs := make([]float64, g+1)
+	exact := make([]bool, g+1)
+	for _, x := range []float64{lo, hi} {
+		if v, _ := r.logProbBound(w, x); v >= 0 && (x == 0 || x == 1) {
+			return 0, x, nil // the end point where the region is certain
+		}
+	}
 	best, bestAt := math.Inf(-1), lo
 	for i := 0; i <= g; i++ {
 		if i%16 == 0 {
@@ -270,19 +433,50 @@ func (r *region) supremum(ctx context.Context, fn string, lo, hi float64) (logP,
 		case g:
 			x = hi
 		}
-		xs[i], vs[i] = x, r.logProb(w, x)
-		if vs[i] > best {
+		xs[i] = x
+		vs[i], exact[i] = r.logProbBound(w, x)
+		if exact[i] && vs[i] > best {
 			best, bestAt = vs[i], x
+			if best >= 0 {
+				return 0, x, nil
+			}
 		}
 	}
 	// A peak rises above its best grid point by well under 0.1% at this
 	// grid density (measured: 0.04% at n1 = n2 = 100), so only grid maxima
-	// within 2% of the best can hold the supremum.
-	cut := best - 0.02
+	// within 2% of the best can hold the supremum. Upper bounds below that
+	// cut are left as they are: they cannot hold the supremum and do not
+	// change which points above the cut are local maxima.
 	for i := 0; i <= g; i++ {
-		if vs[i] < cut || (i > 0 && vs[i-1] > vs[i]) || (i < g && vs[i+1] > vs[i]) {
+		if exact[i] || vs[i] < best-0.02 {
 			continue
 		}
+		if i%16 == 0 {
+			if err := argerr.Canceled(fn, ctx); err != nil {
+				return 0, 0, err
+			}
+		}
+		vs[i], exact[i] = r.logProbFull(w, xs[i]), true
+		if vs[i] > best {
+			best, bestAt = vs[i], xs[i]
+		}
+	}
+	if best >= 0 {
+		return 0, bestAt, nil
+	}
+	cut := best - 0.02
+	var cand []int
+	for i := 0; i <= g; i++ {
+		if vs[i] < cut || (i > 0 && vs[i-1] >= vs[i]) || (i < g && vs[i+1] > vs[i]) {
+			continue
+		}
+		cand = append(cand, i)
+	}
+	sort.Slice(cand, func(a, b int) bool { return vs[cand[a]] > vs[cand[b]] })
+	if len(cand) > maxRefine {
+		cand = cand[:maxRefine]
+	}
+	for _, i := range cand {
 		if err := argerr.Canceled(fn, ctx); err != nil {
 			return 0, 0, err
 		}
@@ -294,6 +488,12 @@ func (r *region) supremum(ctx context.Context, fn string, lo, hi float64) (logP,
 	}
 	return best, bestAt, nil
 }
+
+// maxRefine is the largest number of grid maxima that supremum refines.
+// Distinct peaks within 2% of the best are few (the region's probability
+// is a sum of a few smooth tail probabilities); the cap only stops a
+// function that is flat to rounding from costing a search per grid point.
+const maxRefine = 32
 
 // goldenMax maximizes f on [a, b] by golden-section search until the
 // bracket is narrower than tol, returning the best point seen.
@@ -321,9 +521,23 @@ func goldenMax(f func(float64) float64, a, b, tol float64) (float64, float64) {
 
 // unconditional runs the common part of Barnard and Boschloo: argument
 // checks, the region, the supremum (over the Berger-Boos interval when
-// asked) and the result.
+// asked) and the result. statName names the ordering statistic, and
+// emptyStat is its value for every table when a sample is empty.
+//
+// Two shapes have the exact answer p = 1 without a search:
+//   - an empty sample (n1 = 0 or n2 = 0): then every table has the same
+//     statistic (Barnard's Z numerator x1 n2 - x2 n1 is 0; Fisher's
+//     hypergeometric law given the margin is a point mass, so every
+//     Fisher p-value is 1), every table is as extreme as the observed one
+//     and P(region) = 1 for every pi;
+//   - the region holds the table (0, 0) and the range of pi reaches 0, or
+//     holds (n1, n2) and the range reaches 1: that table has probability
+//     1 at the end point, so the supremum is 1 there (supremum checks the
+//     end points first). This covers no successes (or no failures) in both
+//     samples, whose statistic is that of (0, 0) (or (n1, n2)) itself, and
+//     every one-sided test whose observed table points the other way.
 func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64, opt UnconditionalOptions,
-	build func(ctx context.Context) (*region, float64, string, error)) (Result, error) {
+	statName string, emptyStat float64, build func(ctx context.Context) (*region, float64, error)) (Result, error) {
 	if err := checkTwo(fn, k1, n1, k2, n2); err != nil {
 		return Result{}, err
 	}
@@ -342,30 +556,49 @@ func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64,
 	if ctx == nil {
 		ctx = context.Background()
 	}
-	reg, stat, statName, err := build(ctx)
-	if err != nil {
-		return Result{}, err
-	}
-	lo, hi := 0.0, 1.0
-	if g := opt.BergerBoos; g > 0 {
-		s, n := k1+k2, n1+n2
-		lp := func(p float64) float64 { return binomialLogP(ExactCentral, s, n, p, TwoSided) }
-		lo, hi, _, _ = invert(lp, xmath.Log(g), float64(s)/float64(n), TwoSided, false)
+	if opt.BergerBoos > 0 {
 		method += " (Berger-Boos)"
 	}
-	lp, at, err := reg.supremum(ctx, fn, lo, hi)
-	if err != nil {
-		return Result{}, err
-	}
-	if g := opt.BergerBoos; g > 0 {
-		lp = math.Min(0, xmath.LogAddExp(lp, xmath.Log(g))) // ln min(1, p + gamma)
+	var lp, at, stat float64
+	if n1 == 0 || n2 == 0 {
+		stat = emptyStat // p = 1 exactly, attained at every pi; 0 reported
+	} else {
+		reg, s, err := build(ctx)
+		if err != nil {
+			return Result{}, err
+		}
+		stat = s
+		lo, hi := 0.0, 1.0
+		if g := opt.BergerBoos; g > 0 {
+			s, n := k1+k2, n1+n2
+			lp := func(p float64) float64 { return binomialLogP(ExactCentral, s, n, p, TwoSided) }
+			lo, hi, _, _ = invert(lp, xmath.Log(g), float64(s)/float64(n), TwoSided, false)
+			switch s {
+			case 0:
+				lo = 0 // the Clopper-Pearson interval of 0 successes starts at 0
+			case n:
+				hi = 1
+			}
+		}
+		lp, at, err = reg.supremum(ctx, fn, lo, hi)
+		if err != nil {
+			return Result{}, err
+		}
+		if g := opt.BergerBoos; g > 0 {
+			lp = math.Min(0, xmath.LogAddExp(lp, xmath.Log(g))) // ln min(1, p + gamma)
+		}
 	}
 	res := newResult(method, opt.Alternative, lp)
 	res.Statistic, res.StatisticName = stat, statName
 	res.Estimate = diffEstimate(k1, n1, k2, n2)
 	res.Nuisance = at
-	if n1 == 0 || n2 == 0 {
+	switch {
+	case n1 == 0 || n2 == 0:
 		res.Warnings = append(res.Warnings, "an empty sample: the data carry no information on p1 - p2")
+	case k1+k2 == 0:
+		res.Warnings = append(res.Warnings, "no successes in either sample: the data carry no information on p1 - p2, and p = 1")
+	case k1 == n1 && k2 == n2:
+		res.Warnings = append(res.Warnings, "no failures in either sample: the data carry no information on p1 - p2, and p = 1")
 	}
 	return res, nil
 }
