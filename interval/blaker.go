@@ -16,11 +16,17 @@ import (
 // The acceptability lies between the observed tail P(X >= k) and twice
 // it, so the limit lies between the two-sided Clopper-Pearson limit at the
 // same level and the one-sided one at tail alpha; it is found there by
-// Brent's method on ln(acceptability) - ln(alpha) in the log-odds; the
-// acceptability is a step function of the opposite tail's index with
-// continuous pieces, so the limit is found to 1e-15 relative whether it
-// falls inside a piece or at a jump. The acceptability test is two-sided:
-// one-sided Blaker bounds are the Clopper-Pearson ones.
+// blakerSearch, which works piece by piece on the acceptability (smooth
+// between the integer steps of its opposite-tail index, with jumps at the
+// steps), to 1e-15 relative in the log-odds whether the limit falls inside
+// a piece or at a jump. Where the acceptability crosses alpha more than
+// once in that range (the Blaker confidence set need not be an interval),
+// the search returns one of the crossings; in every case checked it was
+// the outermost, the limit of the set's hull: for every k of n <= 120 at
+// levels 0.5, 0.8, 0.95 and 0.99 no p below it on a 400-point grid down to
+// the Clopper-Pearson limit is accepted (TestBlakerHull checks n <= 30). The
+// acceptability test is two-sided: one-sided Blaker bounds are the
+// Clopper-Pearson ones.
 func blakerLowerT(k, n int64, lv level) float64 {
 	tcp := lowerT(ClopperPearson, k, n, lv)
 	if lv.side != TwoSided {

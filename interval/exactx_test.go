@@ -168,3 +168,40 @@ func TestJeffreysInversion(t *testing.T) {
 		}
 	}
 }
+
+func TestBlakerHull(t *testing.T) {
+	if testing.Short() {
+		t.Skip("acceptability scan")
+	}
+	t.Parallel()
+	// Blaker (2000): the confidence set {p : acceptability >= alpha} need
+	// not be an interval (for 18 of 19 at level 0.5 it has a gap); the
+	// reported limits are those of its hull, so no p between the
+	// Clopper-Pearson lower limit and the Blaker lower limit is accepted
+	// (checked on a grid; the upper limit is the mirror image).
+	for n := int64(1); n <= 30; n++ {
+		for k := int64(1); k <= n; k++ {
+			for _, lev := range []float64{0.5, 0.8, 0.95, 0.99} {
+				iv, err := interval.Proportion(k, n, interval.Options{Method: interval.Blaker, Level: lev})
+				if err != nil {
+					t.Fatal(err)
+				}
+				cp, _ := interval.Proportion(k, n, interval.Options{Method: interval.ClopperPearson, Level: lev})
+				if !(iv.Lower*(1-1e-9) > cp.Lower) {
+					continue // nothing between
+				}
+				for i := 1; i < 50; i++ {
+					p := cp.Lower + (iv.Lower*(1-1e-9)-cp.Lower)*float64(i)/50
+					v, err := onesample.LogAcceptability(k, n, p, false)
+					if err != nil {
+						t.Fatal(err)
+					}
+					if v >= math.Log(1-lev) {
+						t.Errorf("Blaker %d/%d level %v: lower limit %v, but p = %v below it is accepted", k, n, lev, iv.Lower, p)
+						break
+					}
+				}
+			}
+		}
+	}
+}
