@@ -36,3 +36,22 @@ func TestBlakerRegionMatches(t *testing.T) {
 		}
 	}
 }
+
+// FuzzBlakerRegion checks the guided search against LogAcceptability for
+// any guess, including guesses outside 0..n.
+func FuzzBlakerRegion(f *testing.F) {
+	f.Add(int64(37), int64(1000), 0.03, int64(20), int64(36))
+	f.Add(int64(0), int64(1), 0.5, int64(-5), int64(9))
+	f.Fuzz(func(t *testing.T, k, n int64, p float64, ga, gb int64) {
+		if n < 1 || n > 1e6 || k < 0 || k > n || !(p > 0 && p < 1) {
+			return
+		}
+		want, err := LogAcceptability(k, n, p, false)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, _, got := BlakerRegion(k, n, p, ga, gb); got != want {
+			t.Errorf("BlakerRegion(%d, %d, %v, %d, %d) = %v, LogAcceptability %v", k, n, p, ga, gb, got, want)
+		}
+	})
+}
