@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/binom"
+	"github.com/kofnlab/kofn/internal/root"
 )
 
 // Blaker's acceptability of p0 given k of n (LogAcceptability without the
@@ -107,27 +108,24 @@ func (m *memo) slot(j int64) int {
 }
 
 // cdf returns ln P(X <= j).
-func (m *memo) cdf(j int64) float64 {
-	i := m.slot(j)
-	if i < 0 {
-		return m.d.LogCDF(j)
-	}
-	if math.IsNaN(m.lo[i]) {
-		m.lo[i] = m.d.LogCDF(j)
-	}
-	return m.lo[i]
-}
+func (m *memo) cdf(j int64) float64 { return m.get(j, &m.lo, func() float64 { return m.d.LogCDF(j) }) }
 
 // surv returns ln P(X > j) = ln P(X >= j+1).
 func (m *memo) surv(j int64) float64 {
-	i := m.slot(j + 1)
+	return m.get(j+1, &m.up, func() float64 { return m.d.LogSurvival(j) })
+}
+
+// get returns the cached value for j in vals, computing it with eval on
+// first use (or every time when the cache is full).
+func (m *memo) get(j int64, vals *[48]float64, eval func() float64) float64 {
+	i := m.slot(j)
 	if i < 0 {
-		return m.d.LogSurvival(j)
+		return eval()
 	}
-	if math.IsNaN(m.up[i]) {
-		m.up[i] = m.d.LogSurvival(j)
+	if math.IsNaN(vals[i]) {
+		vals[i] = eval()
 	}
-	return m.up[i]
+	return vals[i]
 }
 
 // smaller is smallerTail through the cache.
@@ -151,16 +149,11 @@ func edge(in func(int64) bool, j0, dir int64) int64 {
 	for step := int64(2); in(out); step *= 2 {
 		inside, out = out, j0+dir*step
 	}
-	// in(inside) is true, in(out) false; bisect between them.
-	for out-inside > 1 || inside-out > 1 {
-		mid := inside + (out-inside)/2
-		if in(mid) {
-			inside = mid
-		} else {
-			out = mid
-		}
+	// in(inside) is true, in(out) false; the boundary lies between them.
+	if dir > 0 {
+		return root.SmallestInt(func(j int64) bool { return !in(j) }, inside+1, out-1) - 1
 	}
-	return inside
+	return root.SmallestInt(in, out+1, inside-1)
 }
 
 // entry returns the first j reached from from towards to with in(j) true,
@@ -182,13 +175,9 @@ func entry(in func(int64) bool, from, to int64) int64 {
 		}
 		out = j
 	}
-	for out-inside > 1 || inside-out > 1 {
-		mid := out + (inside-out)/2
-		if in(mid) {
-			inside = mid
-		} else {
-			out = mid
-		}
+	// in(out) is false, in(inside) true; the boundary lies between them.
+	if dir > 0 {
+		return root.SmallestInt(in, out+1, inside-1)
 	}
-	return inside
+	return root.SmallestInt(func(j int64) bool { return !in(j) }, inside+1, out-1) - 1
 }
