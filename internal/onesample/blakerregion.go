@@ -21,21 +21,8 @@ import (
 // rounding (1e-13 relative), the other exceeds 1/2 and is not evaluated.
 // Arguments are not validated: 0 <= j <= n, p0 in [0, 1].
 func BlakerLogTail(n int64, p0 float64, j int64) float64 {
-	return smallerTail(binom.Dist{N: n, P: p0}, j)
-}
-
-// smallerTail is BlakerLogTail for the distribution d: blakerOrder's e(j).
-func smallerTail(d binom.Dist, j int64) float64 {
-	const half = -math.Ln2 - 1e-9
-	lo := d.LogCDF(j)
-	if lo < half {
-		return lo
-	}
-	up := d.LogSurvival(j - 1)
-	if up < half {
-		return up
-	}
-	return math.Min(lo, up)
+	m := memo{d: binom.Dist{N: n, P: p0}}
+	return m.smaller(j)
 }
 
 // LogOutside returns ln P(X < a or X > b) under Binomial(n, p0): Blaker's
@@ -128,7 +115,9 @@ func (m *memo) get(j int64, vals *[48]float64, eval func() float64) float64 {
 	return vals[i]
 }
 
-// smaller is smallerTail through the cache.
+// smaller returns blakerOrder's e(j) = min(ln P(X <= j), ln P(X >= j))
+// through the cache, evaluating the second tail only when the first is
+// not clearly below 1/2 (see BlakerLogTail).
 func (m *memo) smaller(j int64) float64 {
 	const half = -math.Ln2 - 1e-9
 	lo := m.cdf(j)
