@@ -106,11 +106,22 @@ func (a zkey) value(n1, n2 int) float64 {
 // Result: Statistic is z ("z"), Estimate p1 - p2, Null 0, Nuisance the pi
 // of the supremum.
 //
+// Special cases, exact without a search (derived on unconditional): an
+// empty sample (n1 = 0 or n2 = 0) gives p = 1 with a warning, since every
+// table then has Z = 0; a region holding the table (0, 0) (or (n1, n2))
+// gives p = 1 attained at pi = 0 (or 1), which covers no successes (or no
+// failures) in both samples (also warned) and a one-sided test whose
+// observed z points the other way.
+//
 // Errors: invalid counts, an unknown alternative, BergerBoos outside
 // {0} and (0, 0.5), (n1+1)(n2+1) > MaxUnconditionalTables (ErrTooLarge),
 // a cancelled ctx (wrapping ctx.Err()).
 //
-// Cost: about 1 ms at n1 = n2 = 100, 15 ms at 500 x 500 (benchmarks).
+// Cost: O(n1 n2) for the region plus O(n1 + n2) for the supremum (each of
+// its O(sqrt(n1 + n2)) grid points costs O(sqrt(n1) + sqrt(n2)) by the
+// windowed sums of logProbBound), so the size limit bounds the time: about
+// 0.4 ms at n1 = n2 = 100, 30 ms at 2000 x 2000, 0.35 s at 1e6 x 1
+// (benchmarks, two loaded cores).
 //
 // Sources: Barnard GA (1947), Significance tests for 2x2 tables,
 // Biometrika 34:123-138; Suissa S, Shuster JJ (1985), Exact unconditional
