@@ -49,8 +49,12 @@ func tailRoot(eval func(t float64, withH bool) (f, h float64), ode tailODE, t0 f
 	lo, hi := float64(-tMax), float64(tMax) // the root lies in [lo, hi]
 	t := math.Max(-tMax, math.Min(tMax, t0))
 	tol, closing := betaRootTol, false
+	hNext := math.NaN() // H at t from the last series solve, if any
 	for i := 0; i < 12; i++ {
-		f, h := eval(t, !closing)
+		f, h := eval(t, !closing && !(hNext > 0))
+		if hNext > 0 {
+			h = hNext // the series' H, to about 1e-14 relative
+		}
 		if f == 0 {
 			return t
 		}
@@ -83,16 +87,19 @@ func tailRoot(eval func(t float64, withH bool) (f, h float64), ode tailODE, t0 f
 		if p, _ := pq(t); math.Abs(f) <= 0.45*h*tol && math.Abs(ode.A-ode.B*p-ode.s*h)*tol <= 0.1 {
 			return t - f/h
 		}
-		step := ode.step(t, f, h)
+		step, hs := ode.step(t, f, h)
+		hNext = hs
 		next := t + step
 		closing = math.Abs(step) < tol
 		if closing {
 			// t is within tol of the root: step just past it to the other
 			// side to close the bracket.
 			next = t + math.Copysign(tol, step) + step
+			hNext = math.NaN()
 		}
 		if !(next > lo && next < hi) {
 			next = lo + (hi-lo)/2
+			hNext = math.NaN()
 		}
 		t = next
 	}
@@ -110,8 +117,9 @@ func tailRoot(eval func(t float64, withH bool) (f, h float64), ode tailODE, t0 f
 // summed until the terms at twice Halley's step fall below 1e-17 |f|, and
 // Newton's method on f + sum_j H_j d^(j+1)/(j+1) = 0 from d0. Where the
 // series does not converge so (at most seriesOrder terms) Halley's step is
-// taken, clamped to +-2.
-func (o tailODE) step(t, f, h float64) float64 {
+// taken, clamped to +-2. hAt is the series' H at t + d (NaN after a
+// Halley step): the next point needs no density evaluation of its own.
+func (o tailODE) step(t, f, h float64) (d, hAt float64) {
 	p0, q0 := pq(t)
 	c0 := o.A - o.B*p0
 	h1 := h * (c0 - o.s*h)
@@ -121,7 +129,7 @@ func (o tailODE) step(t, f, h float64) float64 {
 	}
 	halley = math.Max(-2, math.Min(2, halley))
 	if math.Abs(halley) < 1e-5 {
-		return halley
+		return halley, math.NaN()
 	}
 	var pc, hc [seriesOrder + 1]float64
 	pc[0], hc[0], pc[1], hc[1] = p0, h, p0*q0, h1
@@ -146,9 +154,9 @@ func (o tailODE) step(t, f, h float64) float64 {
 		rj *= r
 	}
 	if m == seriesOrder && math.Abs(hc[m])*rj >= 1e-17*math.Abs(f) {
-		return halley
+		return halley, math.NaN()
 	}
-	d := halley
+	d = halley
 	for it := 0; it < 8; it++ {
 		g, dg := 0.0, 0.0
 		for j := m; j >= 0; j-- {
@@ -157,7 +165,7 @@ func (o tailODE) step(t, f, h float64) float64 {
 		}
 		g = f + g*d
 		if !(dg > 0) {
-			return halley
+			return halley, math.NaN()
 		}
 		nd := d - g/dg
 		done := math.Abs(nd-d) <= 1e-16*math.Abs(nd)
@@ -167,9 +175,12 @@ func (o tailODE) step(t, f, h float64) float64 {
 		}
 	}
 	if !(math.Abs(d) <= r) { // outside the radius the terms were checked at
-		return halley
+		return halley, math.NaN()
 	}
-	return d
+	for j := m; j >= 0; j-- {
+		hAt = hAt*d + hc[j]
+	}
+	return d, hAt
 }
 
 // ulp returns the spacing of float64 values at x.
