@@ -62,10 +62,15 @@ func cornfield(iv *Interval, k1, n1, k2, n2 int64, lv level, midp bool) error {
 
 // cmle returns the conditional maximum-likelihood estimate of the odds
 // ratio: the psi with E[X; psi] = k1, 0 when k1 is the smallest possible
-// value and +Inf when it is the largest. The mean increases strictly in
+// value and +Inf when it is the largest; NaN when the margins allow only one
+// table, so that the conditional likelihood is flat. The mean increases strictly in
 // psi; the root is found by Brent's method on ln psi to 1e-15 relative.
 func cmle(k1, n1, k2, n2, lo, hi int64, guess float64) float64 {
 	switch {
+	case lo == hi:
+		// The margins allow one table only: the conditional likelihood is
+		// flat and no estimate exists.
+		return math.NaN()
 	case k1 <= lo:
 		return 0
 	case k1 >= hi:
@@ -81,7 +86,9 @@ func cmle(k1, n1, k2, n2, lo, hi int64, guess float64) float64 {
 // psi at which the mean of Fisher's noncentral hypergeometric distribution
 // of k1 given the table's margins equals k1 (Cornfield 1956; Agresti 2002,
 // section 3.6.4, recalled). It is 0 when k1 is the smallest count the
-// margins allow and +Inf when it is the largest. It is shrunk toward 1
+// margins allow and +Inf when it is the largest. When the margins allow one
+// table only (no successes, or no failures, in both groups together) the
+// conditional likelihood is flat and no estimate exists: ErrNoSolution. It is shrunk toward 1
 // relative to the sample odds ratio in small tables. Accuracy 1e-15
 // relative; cost O(standard deviation of k1) per evaluation, about 40
 // evaluations.
@@ -94,6 +101,9 @@ func OddsRatioCMLE(k1, n1, k2, n2 int64) (float64, error) {
 		return math.NaN(), argerr.TooLarge(fn, "n1 + n2", n1+n2, "exceeds 2^53")
 	}
 	lo, hi := conditional(k1, n1, k2, n2, 1).Support()
+	if lo == hi {
+		return math.NaN(), argerr.NoSolution(fn, "the margins allow one table only (k1 + k2 = 0 or k1 + k2 = n1 + n2): the conditional likelihood is flat and has no maximum")
+	}
 	a, b, c, d := float64(k1), float64(n1-k1), float64(k2), float64(n2-k2)
 	return cmle(k1, n1, k2, n2, lo, hi, ((a+0.5)*(d+0.5))/((b+0.5)*(c+0.5))), nil
 }

@@ -117,6 +117,12 @@ func Difference(k1, n1, k2, n2 int64, opt DiffOptions) (Interval, error) {
 		}
 		h := z*math.Sqrt(v) + cc
 		iv.Lower, iv.Upper = c-h, c+h
+		if v == 0 && opt.Method != DiffAgrestiCaffo {
+			// Both samples are all successes or all failures: the
+			// estimated variance is 0 and the interval has no width
+			// beyond the continuity correction.
+			iv.warn(opt.Method.String() + ": estimated variance 0 (each sample is all successes or all failures); the interval's width is only the continuity correction, if any: use the Newcombe or a score method")
+		}
 		iv.sided(-1, 1)
 		iv.clipRange(-1, 1)
 	case DiffMee, DiffMiettinenNurminen:
