@@ -60,7 +60,10 @@ var versusCmd = &Command{
 			"observed. boschloo: the unconditional exact test ordered by Fisher's p-value, uniformly more " +
 			"powerful than Fisher's; barnard: the unconditional exact test ordered by the pooled z statistic. " +
 			"The unconditional tests take the supremum over the common proportion and are limited to " +
-			"(N1+1)(N2+1) <= 4100000 tables.",
+			"(N1+1)(N2+1) <= 4100000 tables. Two-sided Boschloo orders tables by Fisher's two-sided p-value; " +
+			"some other software instead doubles the one-sided Boschloo p-value (1/1 against 0/1: 1 here, 0.5 " +
+			"there), so compare one-sided values. An empty group, or no successes (no failures) in both groups, " +
+			"gives p = 1 exactly.",
 		Assumptions: "Two independent groups of independent trials.",
 		Examples: []string{"versus 7/15 12/15 side=low", "versus 7/15 12/15 side=low method=barnard",
 			"versus 17/40 9/38 method=boschloo"},

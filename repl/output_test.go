@@ -103,3 +103,32 @@ func TestChartSeveralSeries(t *testing.T) {
 		t.Errorf("render:\n%s\nwant:\n%s", got, want)
 	}
 }
+
+// TestJSONFlagOnOneCommand: "--json" on a line prints that command's
+// result as JSON, the same object as with json=on, and leaves the setting
+// off for the next command. The Wilson limits are those of Newcombe (1998),
+// single proportion, Table II for 81/263 (0.2553, 0.3662).
+func TestJSONFlagOnOneCommand(t *testing.T) {
+	t.Parallel()
+	s, out, errw := testSession()
+	if err := s.Run(context.Background(), "bounds 81/263 --json"); err != nil {
+		t.Fatalf("%v %s", err, errw.String())
+	}
+	var got struct {
+		Command string
+		Result  struct{ Lower, Upper float64 }
+	}
+	if err := json.Unmarshal(out.Bytes(), &got); err != nil {
+		t.Fatalf("not one JSON object: %v\n%s", err, out.String())
+	}
+	if got.Command != "bounds" || got.Result.Lower < 0.25525 || got.Result.Lower > 0.25535 || got.Result.Upper < 0.36615 || got.Result.Upper > 0.36625 {
+		t.Errorf("got %+v", got)
+	}
+	if s.Set.JSON {
+		t.Error("--json changed the session setting")
+	}
+	out.Reset()
+	if err := s.Run(context.Background(), "bounds 81/263"); err != nil || strings.HasPrefix(out.String(), "{") {
+		t.Errorf("the next command printed JSON: %q %v", out.String(), err)
+	}
+}

@@ -52,8 +52,14 @@ func NewSession(out, errw io.Writer) *Session {
 func (s *Session) Run(ctx context.Context, line string) error {
 	s.lineNo++
 	words := splitLine(line)
+	words, once := takeJSONFlag(words)
 	if len(words) == 0 {
 		return nil
+	}
+	if once && !s.Set.JSON && !strings.EqualFold(words[0], "set") {
+		// --json anywhere on the line: this command's result as JSON.
+		s.Set.JSON = true
+		defer func() { s.Set.JSON = false }()
 	}
 	c, err := s.exec(ctx, line, words)
 	if err != nil {
@@ -65,6 +71,20 @@ func (s *Session) Run(ctx context.Context, line string) error {
 	}
 	s.print(words[0], c)
 	return nil
+}
+
+// takeJSONFlag removes every "--json" word from a command line and reports
+// whether there was one.
+func takeJSONFlag(words []string) ([]string, bool) {
+	out, found := words[:0:0], false
+	for _, w := range words {
+		if strings.EqualFold(w, "--json") {
+			found = true
+			continue
+		}
+		out = append(out, w)
+	}
+	return out, found
 }
 
 // exec parses and runs one command, returning the finished call.
