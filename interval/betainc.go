@@ -16,14 +16,14 @@ import (
 
 const lnSqrt2Pi = 0.91893853320467274178032973640562
 
-// logDbinomReal returns the logarithm of the binomial density extended to
+// logBinomDensityReal returns the logarithm of the binomial density extended to
 // real x in (0, m),
 //
 //	Gamma(m+1) / (Gamma(x+1) Gamma(m-x+1)) p^x q^(m-x),
 //
 // in Loader's form se(m) - se(x) - se(m-x) - D(x, mp) - D(m-x, mq)
 // (xmath.StirlingError se, xmath.Deviance D) - (1/2) ln(2 pi x (m-x)/m), with q = 1-p given.
-func logDbinomReal(x, m, p, q float64) float64 {
+func logBinomDensityReal(x, m, p, q float64) float64 {
 	y := m - x
 	lc := xmath.StirlingError(m) - xmath.StirlingError(x) - xmath.StirlingError(y) - xmath.Deviance(x, m*p) - xmath.Deviance(y, m*q)
 	return lc - 0.5*math.Log(x*y/m) - lnSqrt2Pi
@@ -31,16 +31,16 @@ func logDbinomReal(x, m, p, q float64) float64 {
 
 // logBetaDensity returns ln(x^a y^b / B(a, b)), the Beta(a, b) density
 // times x y: d/dt I_x(a, b) in the log-odds t of x. It is
-// dbinom(a; a+b, x) a b / (a+b) (see logDbinomReal), with y = 1 - x given.
+// f(a; a+b, x) a b / (a+b), f the binomial density of logBinomDensityReal, with y = 1 - x given.
 func logBetaDensity(a, b, x, y float64) float64 {
-	return logDbinomReal(a, a+b, x, y) + math.Log(a*b/(a+b))
+	return logBinomDensityReal(a, a+b, x, y) + math.Log(a*b/(a+b))
 }
 
 // logBetaCDF returns ln I_x(a, b) = ln P(B <= x) for B ~ Beta(a, b), with
 // y = 1 - x supplied to full precision, x, y in [0, 1]. The smaller tail is
 // evaluated directly,
 //
-//	I_x(a, b) = x^a y^b / (a B(a, b)) * cf = dbinom(a; a+b, x) * b/(a+b) * cf,
+//	I_x(a, b) = x^a y^b / (a B(a, b)) * cf = f(a; a+b, x) * b/(a+b) * cf,
 //
 // with the continued fraction cf (which converges fast for x below the
 // mean-like point (a+1)/(a+b+2)); the larger as ln(1 - smaller). Accuracy
@@ -60,7 +60,7 @@ func logBetaCDF(a, b, x, y float64) float64 {
 
 // logBetaDirect returns ln I_x(a, b) by the continued fraction; see logBetaCDF.
 func logBetaDirect(a, b, x, y float64) float64 {
-	return logDbinomReal(a, a+b, x, y) + math.Log(b/(a+b)) + math.Log(betaFraction(a, b, x))
+	return logBinomDensityReal(a, a+b, x, y) + math.Log(b/(a+b)) + math.Log(betaFraction(a, b, x))
 }
 
 // betaFraction evaluates the continued fraction for I_x(a, b),
@@ -139,7 +139,7 @@ func logBetaUpper(a, b, x, y float64) float64 {
 			break
 		}
 	}
-	lower := logDbinomReal(a, a+b, x, y) + math.Log(b/(a+b)) + math.Log(sum)
+	lower := logBinomDensityReal(a, a+b, x, y) + math.Log(b/(a+b)) + math.Log(sum)
 	up := xmath.Log1mExp(math.Min(lower, 0))
 	if x >= 1e-3 && !(up > math.Log(1e-3)) {
 		return logBetaDirect(b, a, y, x)

@@ -101,7 +101,7 @@ var logRelTol = math.Log1p(1e-7)
 // twice the smaller conditional tail) and the supremum is taken of that
 // two-sided region. Other software commonly defines the two-sided
 // Boschloo p-value instead as twice the smaller one-sided Boschloo
-// p-value, capped at 1 (SciPy's boschloo_exact does so, as reported; not
+// p-value, capped at 1 (SciPy's Boschloo function does so, as reported; not
 // recomputed by this package's tests). The two can differ a lot at small
 // n: for 1/1 vs 0/1 this function gives 1 (every table's two-sided Fisher
 // p-value is 1), twice the one-sided value gives 2 x 0.25 = 0.5. A user
