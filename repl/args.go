@@ -23,12 +23,12 @@ type option struct {
 	used              bool
 }
 
-// Args holds the words of one command line after the verb: positional
+// argSet holds the words of one command line after the verb: positional
 // words in order and name=value options. Getters read and check values,
 // returning an *InputError that names the token; Check reports options the
 // command never read.
-type Args struct {
-	cmd  *Command
+type argSet struct {
+	cmd  *command
 	pos  []string
 	opts []*option
 }
@@ -36,8 +36,8 @@ type Args struct {
 // parseArgs sorts the words after the verb into positional words and
 // options, rejecting options the command does not know (with the nearest
 // known name) and options given twice.
-func parseArgs(cmd *Command, words []string) (*Args, error) {
-	a := &Args{cmd: cmd}
+func parseArgs(cmd *command, words []string) (*argSet, error) {
+	a := &argSet{cmd: cmd}
 	if cmd.raw {
 		a.pos = words
 		return a, nil
@@ -81,10 +81,10 @@ func unknownHint(word string, known []string) string {
 }
 
 // Len returns the number of positional words.
-func (a *Args) Len() int { return len(a.pos) }
+func (a *argSet) Len() int { return len(a.pos) }
 
 // Pos returns positional word i ("" when absent).
-func (a *Args) Pos(i int) string {
+func (a *argSet) Pos(i int) string {
 	if i < len(a.pos) {
 		return a.pos[i]
 	}
@@ -92,7 +92,7 @@ func (a *Args) Pos(i int) string {
 }
 
 // lookup returns the option named name and marks it used.
-func (a *Args) lookup(name string) *option {
+func (a *argSet) lookup(name string) *option {
 	for _, o := range a.opts {
 		if o.name == name {
 			o.used = true
@@ -103,10 +103,10 @@ func (a *Args) lookup(name string) *option {
 }
 
 // Has reports whether option name was given.
-func (a *Args) Has(name string) bool { return a.lookup(name) != nil }
+func (a *argSet) Has(name string) bool { return a.lookup(name) != nil }
 
 // Str returns the raw value of option name, or def.
-func (a *Args) Str(name, def string) string {
+func (a *argSet) Str(name, def string) string {
 	if o := a.lookup(name); o != nil {
 		return o.value
 	}
@@ -122,7 +122,7 @@ func wrap(o *option, err error) error {
 }
 
 // Float returns option name as a finite decimal, or def.
-func (a *Args) Float(name string, def float64) (float64, error) {
+func (a *argSet) Float(name string, def float64) (float64, error) {
 	o := a.lookup(name)
 	if o == nil {
 		return def, nil
@@ -132,7 +132,7 @@ func (a *Args) Float(name string, def float64) (float64, error) {
 }
 
 // Prob returns option name as a probability in [0, 1], or def.
-func (a *Args) Prob(name string, def float64) (float64, error) {
+func (a *argSet) Prob(name string, def float64) (float64, error) {
 	o := a.lookup(name)
 	if o == nil {
 		return def, nil
@@ -142,7 +142,7 @@ func (a *Args) Prob(name string, def float64) (float64, error) {
 }
 
 // OpenProb returns option name as a probability strictly inside (0, 1), or def.
-func (a *Args) OpenProb(name string, def float64) (float64, error) {
+func (a *argSet) OpenProb(name string, def float64) (float64, error) {
 	o := a.lookup(name)
 	if o == nil {
 		return def, nil
@@ -152,7 +152,7 @@ func (a *Args) OpenProb(name string, def float64) (float64, error) {
 }
 
 // Count returns option name as a whole number >= 0, or def.
-func (a *Args) Count(name string, def int64) (int64, error) {
+func (a *argSet) Count(name string, def int64) (int64, error) {
 	o := a.lookup(name)
 	if o == nil {
 		return def, nil
@@ -162,7 +162,7 @@ func (a *Args) Count(name string, def int64) (int64, error) {
 }
 
 // Range returns option name as lo..hi (or a single count), or def, def.
-func (a *Args) Range(name string, def int64) (lo, hi int64, err error) {
+func (a *argSet) Range(name string, def int64) (lo, hi int64, err error) {
 	o := a.lookup(name)
 	if o == nil {
 		return def, def, nil
@@ -173,7 +173,7 @@ func (a *Args) Range(name string, def int64) (lo, hi int64, err error) {
 
 // Choice returns option name as one of the allowed words (case-insensitive),
 // or def.
-func (a *Args) Choice(name, def string, allowed ...string) (string, error) {
+func (a *argSet) Choice(name, def string, allowed ...string) (string, error) {
 	o := a.lookup(name)
 	if o == nil {
 		return def, nil
@@ -188,7 +188,7 @@ func (a *Args) Choice(name, def string, allowed ...string) (string, error) {
 }
 
 // KN returns positional word i as a count pair k/n.
-func (a *Args) KN(i int, what string) (k, n int64, err error) {
+func (a *argSet) KN(i int, what string) (k, n int64, err error) {
 	if i >= len(a.pos) {
 		return 0, 0, &InputError{Token: a.cmd.Name, Reason: "needs " + what + "; usage: " + a.cmd.Usage}
 	}
@@ -196,7 +196,7 @@ func (a *Args) KN(i int, what string) (k, n int64, err error) {
 }
 
 // Want checks the number of positional words against [min, max].
-func (a *Args) Want(min, max int) error {
+func (a *argSet) Want(min, max int) error {
 	if len(a.pos) < min {
 		return &InputError{Token: a.cmd.Name, Reason: "needs more arguments; usage: " + a.cmd.Usage}
 	}
@@ -208,7 +208,7 @@ func (a *Args) Want(min, max int) error {
 
 // Check reports an option the command accepted but did not use in this
 // form of the call (for example a two-sample method on a one-sample call).
-func (a *Args) Check() error {
+func (a *argSet) Check() error {
 	for _, o := range a.opts {
 		if !o.used {
 			return inputErr(o.word, "does not apply to this use of "+a.cmd.Name+"; see help "+a.cmd.Name)
@@ -218,7 +218,7 @@ func (a *Args) Check() error {
 }
 
 // Need checks that every named option was given.
-func (a *Args) Need(names ...string) error {
+func (a *argSet) Need(names ...string) error {
 	for _, name := range names {
 		if a.lookup(name) == nil {
 			return &InputError{Token: a.cmd.Name, Reason: "needs " + name + "=; usage: " + a.cmd.Usage}
@@ -228,7 +228,7 @@ func (a *Args) Need(names ...string) error {
 }
 
 // Counts reads the named options, all required, as whole numbers >= 0.
-func (a *Args) Counts(names ...string) ([]int64, error) {
+func (a *argSet) Counts(names ...string) ([]int64, error) {
 	if err := a.Need(names...); err != nil {
 		return nil, err
 	}

@@ -19,59 +19,48 @@ import (
 type rowSpec struct {
 	In      []string // input count columns, e.g. k, n
 	Out     []string // result columns
-	prepare func(c *Call) (rowFunc, error)
+	prepare func(c *call) (rowFunc, error)
 }
 
 // rowFunc computes the result columns of one row from its counts.
 type rowFunc func(ctx context.Context, counts []int64) ([]float64, error)
 
-func init() { register(eachCmd) }
-
-var eachCmd = &Command{
-	Name:    "each",
-	Group:   "data",
-	Summary: "apply an interval or test to every row of a CSV file of counts, writing CSV",
-	Usage:   "each FILE|- VERB [verb options] [to=FILE]",
-	Options: []Opt{{Name: "to", Doc: "write the CSV to this file instead of the screen"}},
-	Help: Help{
-		Computes: "Reads a CSV file (or standard input for -) with one set of counts per row, applies VERB " +
-			"with the given options to each row, and streams CSV out: the input columns, then the result " +
-			"columns, then an error column that is empty when the row worked. The first row is a header if " +
-			"it is not all numbers; the count columns are then found by name (k,n for one group; k1,n1,k2,n2 " +
-			"for two; a,b,c,d for pairs), and other columns pass through; without a header the counts are " +
-			"the first columns. A row that fails does not stop the run, but the command reports failure. " +
-			"The output is CSV whatever the json setting; numbers are written in full precision. " +
-			"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
-			"input: kofn -c 'each - check p=0.3' < visits.csv.",
-		Methods:     "", // filled with the row verbs once all are registered
-		Assumptions: "Each row is a separate analysis: no correction for testing many rows is applied.",
-		Examples:    []string{"each - check p=0.3", "each - flips method=exact"},
-		Sources:     "RFC 4180 (CSV).",
-	},
-	Run: runEach,
-	raw: true,
-}
-
-// rowVerbs lists the verbs that have a row form.
-func rowVerbs() []string {
-	var out []string
-	for _, n := range commandNames() {
-		if registry[n].Row != nil {
-			out = append(out, n)
-		}
+func eachCommand() *command {
+	return &command{
+		Name:    "each",
+		Group:   "data",
+		Summary: "apply an interval or test to every row of a CSV file of counts, writing CSV",
+		Usage:   "each FILE|- VERB [verb options] [to=FILE]",
+		Options: []opt{{Name: "to", Doc: "write the CSV to this file instead of the screen"}},
+		Help: helpText{
+			Computes: "Reads a CSV file (or standard input for -) with one set of counts per row, applies VERB " +
+				"with the given options to each row, and streams CSV out: the input columns, then the result " +
+				"columns, then an error column that is empty when the row worked. The first row is a header if " +
+				"it is not all numbers; the count columns are then found by name (k,n for one group; k1,n1,k2,n2 " +
+				"for two; a,b,c,d for pairs), and other columns pass through; without a header the counts are " +
+				"the first columns. A row that fails does not stop the run, but the command reports failure. " +
+				"The output is CSV whatever the json setting; numbers are written in full precision. " +
+				"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
+				"input: kofn -c 'each - check p=0.3' < visits.csv.",
+			Methods:     "", // filled by newTable with the row verbs
+			Assumptions: "Each row is a separate analysis: no correction for testing many rows is applied.",
+			Examples:    []string{"each - check p=0.3", "each - flips method=exact"},
+			Sources:     "RFC 4180 (CSV).",
+		},
+		Run: runEach,
+		raw: true,
 	}
-	return out
 }
 
-func runEach(c *Call) error {
+func runEach(c *call) error {
 	words := c.Args.pos
 	if len(words) < 2 {
 		return &InputError{Token: "each", Reason: "needs a file (or -) and a verb; usage: " + c.Args.cmd.Usage}
 	}
 	file, verbWord := words[0], strings.ToLower(words[1])
-	verb := registry[verbWord]
+	verb := c.S.cmds.get(verbWord)
 	if verb == nil || verb.Row == nil {
-		return inputErr(words[1], "cannot run on rows"+unknownHint(verbWord, rowVerbs()))
+		return inputErr(words[1], "cannot run on rows"+unknownHint(verbWord, c.S.cmds.rowVerbs()))
 	}
 	var rest []string
 	to := ""
@@ -89,7 +78,7 @@ func runEach(c *Call) error {
 	if len(args.pos) > 0 {
 		return inputErr(args.pos[0], "is not an option; the counts come from the file's rows")
 	}
-	vc := &Call{Ctx: c.Ctx, S: c.S, Args: args}
+	vc := &call{Ctx: c.Ctx, S: c.S, Args: args}
 	fn, err := verb.Row.prepare(vc)
 	if err != nil {
 		return err
@@ -258,11 +247,11 @@ func rowCounts(rec []string, idx []int, counts []int64) error {
 	return nil
 }
 
-// rowVerbList describes the row verbs and their count columns.
-func rowVerbList() string {
+// rowVerbList describes the row verbs of t and their count columns.
+func rowVerbList(t *table) string {
 	var parts []string
-	for _, n := range rowVerbs() {
-		parts = append(parts, n+" ("+strings.Join(registry[n].Row.In, ",")+")")
+	for _, n := range t.rowVerbs() {
+		parts = append(parts, n+" ("+strings.Join(t.get(n).Row.In, ",")+")")
 	}
 	return strings.Join(parts, ", ")
 }

@@ -85,14 +85,14 @@ func benchRows(cols []string, n int) []byte {
 
 // benchmarkEach measures the batch path per row (ns/row metric).
 func benchmarkEach(b *testing.B, verb string, rows int) {
-	spec := registry[strings.Fields(verb)[0]].Row
+	spec := tbl.byName[strings.Fields(verb)[0]].Row
 	data := benchRows(spec.In, rows)
-	args, err := parseArgs(registry[strings.Fields(verb)[0]], strings.Fields(verb)[1:])
+	args, err := parseArgs(tbl.byName[strings.Fields(verb)[0]], strings.Fields(verb)[1:])
 	if err != nil {
 		b.Fatal(err)
 	}
 	s, _, _ := testSession()
-	fn, err := spec.prepare(&Call{Ctx: context.Background(), S: s, Args: args})
+	fn, err := spec.prepare(&call{Ctx: context.Background(), S: s, Args: args})
 	if err != nil {
 		b.Fatal(err)
 	}

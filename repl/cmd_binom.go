@@ -7,36 +7,36 @@ import (
 	"github.com/kofnlab/kofn/binom"
 )
 
-func init() { register(spreadCmd, tailCmd, cutCmd) }
-
-var optN = Opt{Name: "n", Doc: "number of trials"}
-var optP = Opt{Name: "p", Doc: "success probability per trial, in [0, 1] (0.3 or 30%)"}
+var optN = opt{Name: "n", Doc: "number of trials"}
+var optP = opt{Name: "p", Doc: "success probability per trial, in [0, 1] (0.3 or 30%)"}
 
 const sourcesBinom = "Loader C (2000), Fast and accurate computation of binomial probabilities; " +
 	"the incomplete beta representation of the tails, e.g. Abramowitz M, Stegun IA (1964), Handbook of Mathematical Functions, 26.5.24."
 
-var spreadCmd = &Command{
-	Name:    "spread",
-	Group:   "distribution",
-	Summary: "the sampling distribution of k (and k/n) in n trials, with a plot",
-	Usage:   "spread n=N p=P [k=LO..HI] [level=L] [within=D]",
-	Options: []Opt{optN, optP, {Name: "k", Doc: "range of k to plot, like 0..20 (default: where the probability is)"}, optLevel,
-		{Name: "within", Doc: "a distance D: print the chance that k/n lands within D of p"}},
-	Help: Help{
-		Computes: "The binomial distribution of the number of successes k in n independent trials with " +
-			"success probability p: mean, standard deviation, mode, skewness, the central range of k holding " +
-			"at least the level of probability, and a plot of P(X = k). The same numbers divided by n describe " +
-			"the sample proportion k/n. within=D adds the exact chance that k/n lands within D of p, " +
-			"P(|k/n - p| <= D), boundaries included and decided on the decimals as written.",
-		Assumptions: "Independent trials with one common success probability.",
-		Examples:    []string{"spread n=40 p=0.3", "spread n=1000 p=0.02 level=99%", "spread n=20 p=0.5 k=0..20", "spread n=50 p=0.3 within=0.1"},
-		Sources:     sourcesBinom,
-	},
-	Run: runSpread,
+func spreadCommand() *command {
+	return &command{
+		Name:    "spread",
+		Group:   "distribution",
+		Summary: "the sampling distribution of k (and k/n) in n trials, with a plot",
+		Usage:   "spread n=N p=P [k=LO..HI] [level=L] [within=D]",
+		Options: []opt{optN, optP, {Name: "k", Doc: "range of k to plot, like 0..20 (default: where the probability is)"}, optLevel,
+			{Name: "within", Doc: "a distance D: print the chance that k/n lands within D of p"}},
+		Help: helpText{
+			Computes: "The binomial distribution of the number of successes k in n independent trials with " +
+				"success probability p: mean, standard deviation, mode, skewness, the central range of k holding " +
+				"at least the level of probability, and a plot of P(X = k). The same numbers divided by n describe " +
+				"the sample proportion k/n. within=D adds the exact chance that k/n lands within D of p, " +
+				"P(|k/n - p| <= D), boundaries included and decided on the decimals as written.",
+			Assumptions: "Independent trials with one common success probability.",
+			Examples:    []string{"spread n=40 p=0.3", "spread n=1000 p=0.02 level=99%", "spread n=20 p=0.5 k=0..20", "spread n=50 p=0.3 within=0.1"},
+			Sources:     sourcesBinom,
+		},
+		Run: runSpread,
+	}
 }
 
 // distArgs reads n= and p= and builds the distribution.
-func distArgs(a *Args) (binom.Dist, error) {
+func distArgs(a *argSet) (binom.Dist, error) {
 	if err := a.Need("n", "p"); err != nil {
 		return binom.Dist{}, err
 	}
@@ -75,7 +75,7 @@ type spreadResult struct {
 	Mass           []massBin `json:"mass"`
 }
 
-func runSpread(c *Call) error {
+func runSpread(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err
@@ -142,22 +142,24 @@ func runSpread(c *Call) error {
 	return nil
 }
 
-var tailCmd = &Command{
-	Name:    "tail",
-	Group:   "distribution",
-	Summary: "point and tail probabilities of k successes in n trials",
-	Usage:   "tail K/N p=P   or   tail LO..HI/N p=P",
-	Options: []Opt{optP},
-	Help: Help{
-		Computes: "For K/N: P(X = K), P(X <= K), P(X >= K), P(X < K) and P(X > K) for X binomial with n = N " +
-			"and success probability p. For LO..HI/N: P(LO <= X <= HI). Each tail is computed directly in log " +
-			"space, never as 1 minus the other, so tiny tails keep their digits; values below 1e-300 print as a " +
-			"power of ten.",
-		Assumptions: "Independent trials with one common success probability.",
-		Examples:    []string{"tail 17/40 p=0.3", "tail 0/299 p=1%", "tail 10..20/40 p=0.3", "tail 900/1000 p=0.5"},
-		Sources:     sourcesBinom,
-	},
-	Run: runTail,
+func tailCommand() *command {
+	return &command{
+		Name:    "tail",
+		Group:   "distribution",
+		Summary: "point and tail probabilities of k successes in n trials",
+		Usage:   "tail K/N p=P   or   tail LO..HI/N p=P",
+		Options: []opt{optP},
+		Help: helpText{
+			Computes: "For K/N: P(X = K), P(X <= K), P(X >= K), P(X < K) and P(X > K) for X binomial with n = N " +
+				"and success probability p. For LO..HI/N: P(LO <= X <= HI). Each tail is computed directly in log " +
+				"space, never as 1 minus the other, so tiny tails keep their digits; values below 1e-300 print as a " +
+				"power of ten.",
+			Assumptions: "Independent trials with one common success probability.",
+			Examples:    []string{"tail 17/40 p=0.3", "tail 0/299 p=1%", "tail 10..20/40 p=0.3", "tail 900/1000 p=0.5"},
+			Sources:     sourcesBinom,
+		},
+		Run: runTail,
+	}
 }
 
 type tailResult struct {
@@ -198,7 +200,7 @@ func (s *Session) ge() string {
 	return "≥"
 }
 
-func runTail(c *Call) error {
+func runTail(c *call) error {
 	a := c.Args
 	if err := a.Want(1, 1); err != nil {
 		return err
@@ -263,23 +265,25 @@ func runTail(c *Call) error {
 	return nil
 }
 
-var cutCmd = &Command{
-	Name:    "cut",
-	Group:   "distribution",
-	Summary: "cut-off counts: the k that a tail probability q falls at",
-	Usage:   "cut n=N p=P q=Q   or   cut n=N p=P logq=L",
-	Options: []Opt{optN, optP, {Name: "q", Doc: "tail probability, in [0, 1]"},
-		{Name: "logq", Doc: "the natural log of the tail probability, for tails below 1e-300 (like -2000)"}},
-	Help: Help{
-		Computes: "The lower cut-off: the smallest k with P(X <= k) >= q; and the upper cut-off: the smallest k " +
-			"with P(X > k) <= q. With the actual tail probabilities at those counts, which differ from q because " +
-			"k is discrete. A quality engineer's question: with 200 parts at a 2% defect rate, above how many " +
-			"defects is a lot unusual at the 1% level?",
-		Assumptions: "Independent trials with one common success probability.",
-		Examples:    []string{"cut n=200 p=0.02 q=0.01", "cut n=40 p=0.3 q=5%", "cut n=100000 p=0.5 logq=-2000"},
-		Sources:     sourcesBinom,
-	},
-	Run: runCut,
+func cutCommand() *command {
+	return &command{
+		Name:    "cut",
+		Group:   "distribution",
+		Summary: "cut-off counts: the k that a tail probability q falls at",
+		Usage:   "cut n=N p=P q=Q   or   cut n=N p=P logq=L",
+		Options: []opt{optN, optP, {Name: "q", Doc: "tail probability, in [0, 1]"},
+			{Name: "logq", Doc: "the natural log of the tail probability, for tails below 1e-300 (like -2000)"}},
+		Help: helpText{
+			Computes: "The lower cut-off: the smallest k with P(X <= k) >= q; and the upper cut-off: the smallest k " +
+				"with P(X > k) <= q. With the actual tail probabilities at those counts, which differ from q because " +
+				"k is discrete. A quality engineer's question: with 200 parts at a 2% defect rate, above how many " +
+				"defects is a lot unusual at the 1% level?",
+			Assumptions: "Independent trials with one common success probability.",
+			Examples:    []string{"cut n=200 p=0.02 q=0.01", "cut n=40 p=0.3 q=5%", "cut n=100000 p=0.5 logq=-2000"},
+			Sources:     sourcesBinom,
+		},
+		Run: runCut,
+	}
 }
 
 type cutResult struct {
@@ -294,7 +298,7 @@ type cutResult struct {
 	LowerFound bool     `json:"lower_found"`
 }
 
-func runCut(c *Call) error {
+func runCut(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err

@@ -7,36 +7,36 @@ import (
 	"github.com/kofnlab/kofn/interval"
 )
 
-func init() { register(coverCmd) }
-
-var coverCmd = &Command{
-	Name:    "cover",
-	Group:   "intervals",
-	Summary: "exact coverage of interval methods against p (or against n), with a plot",
-	Usage:   "cover n=N|LO..HI [p=P] [method=M1,M2,...] [level=L] [bound=two|lower|upper] [points=G]",
-	Options: []Opt{
-		{Name: "n", Doc: "trials; LO..HI with p= plots coverage against n"},
-		{Name: "p", Doc: "a true proportion: coverage at that p (or against n)"},
-		{Name: "method", Doc: "one or more bounds methods, separated by commas (default: the bounds default)", Values: boundsMethods},
-		optLevel, optBound,
-		{Name: "points", Doc: "grid points over p in (0, 1) for the sweep (default 1000)"},
-	},
-	Help: Help{
-		Computes: "The exact coverage probability of one-proportion interval methods: the chance, summed over " +
-			"every possible count k weighted by its binomial probability, that the interval from k contains " +
-			"the true p; and the expected width. Without p= it sweeps p over a grid in (0, 1) and reports the " +
-			"lowest and the mean coverage, plotting the lowest coverage in each column against p; with p= " +
-			"and n=LO..HI it plots coverage against n, the sawtooth Brown, Cai and DasGupta (2001) describe. " +
-			"Exact methods never fall below the level; approximate ones dip below it at some p.",
-		Methods:     "Any bounds method; several can be compared, e.g. method=wald,wilson,clopper-pearson.",
-		Assumptions: "Closed intervals; coverage is computed, not simulated.",
-		Examples: []string{"cover n=30 method=wald,wilson,clopper-pearson", "cover n=30 p=0.2 method=wald",
-			"cover n=20..120 p=0.005 method=wald", "cover n=50 method=jeffreys level=90%"},
-		Sources: "Brown LD, Cai TT, DasGupta A (2001), Interval estimation for a binomial proportion, Statistical " +
-			"Science 16:101-133 (Wald coverage 0.946 at p = 0.2, n = 30; 0.945 at n = 591 and 0.792 at n = 592 " +
-			"for p = 0.005); Newcombe RG (1998), Statistics in Medicine 17:857-872.",
-	},
-	Run: runCover,
+func coverCommand() *command {
+	return &command{
+		Name:    "cover",
+		Group:   "intervals",
+		Summary: "exact coverage of interval methods against p (or against n), with a plot",
+		Usage:   "cover n=N|LO..HI [p=P] [method=M1,M2,...] [level=L] [bound=two|lower|upper] [points=G]",
+		Options: []opt{
+			{Name: "n", Doc: "trials; LO..HI with p= plots coverage against n"},
+			{Name: "p", Doc: "a true proportion: coverage at that p (or against n)"},
+			{Name: "method", Doc: "one or more bounds methods, separated by commas (default: the bounds default)", Values: boundsMethods},
+			optLevel, optBound,
+			{Name: "points", Doc: "grid points over p in (0, 1) for the sweep (default 1000)"},
+		},
+		Help: helpText{
+			Computes: "The exact coverage probability of one-proportion interval methods: the chance, summed over " +
+				"every possible count k weighted by its binomial probability, that the interval from k contains " +
+				"the true p; and the expected width. Without p= it sweeps p over a grid in (0, 1) and reports the " +
+				"lowest and the mean coverage, plotting the lowest coverage in each column against p; with p= " +
+				"and n=LO..HI it plots coverage against n, the sawtooth Brown, Cai and DasGupta (2001) describe. " +
+				"Exact methods never fall below the level; approximate ones dip below it at some p.",
+			Methods:     "Any bounds method; several can be compared, e.g. method=wald,wilson,clopper-pearson.",
+			Assumptions: "Closed intervals; coverage is computed, not simulated.",
+			Examples: []string{"cover n=30 method=wald,wilson,clopper-pearson", "cover n=30 p=0.2 method=wald",
+				"cover n=20..120 p=0.005 method=wald", "cover n=50 method=jeffreys level=90%"},
+			Sources: "Brown LD, Cai TT, DasGupta A (2001), Interval estimation for a binomial proportion, Statistical " +
+				"Science 16:101-133 (Wald coverage 0.946 at p = 0.2, n = 30; 0.945 at n = 591 and 0.792 at n = 592 " +
+				"for p = 0.005); Newcombe RG (1998), Statistics in Medicine 17:857-872.",
+		},
+		Run: runCover,
+	}
 }
 
 type coverResult struct {
@@ -49,7 +49,7 @@ type coverMethod struct {
 	Points  []interval.Performance    `json:"points"`
 }
 
-func runCover(c *Call) error {
+func runCover(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err
@@ -155,7 +155,7 @@ func belowLevel(cov, level float64) string {
 
 // methodList reads method= as a comma-separated list of bounds methods
 // (default: the session's bounds method).
-func methodList(c *Call) ([]string, error) {
+func methodList(c *call) ([]string, error) {
 	def := c.S.Set.Methods["bounds"]
 	if def == "" {
 		def = boundsMethods[0]

@@ -6,33 +6,33 @@ import (
 	"github.com/kofnlab/kofn/binom"
 )
 
-func init() { register(urnCmd) }
-
-var urnCmd = &Command{
-	Name:    "urn",
-	Group:   "distribution",
-	Summary: "drawing without replacement: the hypergeometric distribution, with tails at k",
-	Usage:   "urn total=N marked=M draws=D [k=K] [odds=PSI]",
-	Options: []Opt{
-		{Name: "total", Doc: "items in the population (a lot, a deck, a panel)"},
-		{Name: "marked", Doc: "how many of them are successes (defective, eligible, ...)"},
-		{Name: "draws", Doc: "items drawn without replacement"},
-		{Name: "k", Doc: "a count of marked items in the draw: print its point and tail probabilities"},
-		{Name: "odds", Doc: "an odds ratio psi: Fisher's noncentral hypergeometric (biased drawing; 1 is the plain urn)"},
-	},
-	Help: Help{
-		Computes: "The hypergeometric distribution of the number of marked items among draws items taken " +
-			"without replacement from total items of which marked are marked: mean, standard deviation, the " +
-			"possible range, the most likely count and a plot; with k=, P(X = k), P(X <= k) and P(X >= k). It " +
-			"is the exact model for inspecting a sample from a finite lot, and the distribution behind " +
-			"Fisher's exact test for a 2x2 table with fixed margins. odds=PSI gives Fisher's noncentral " +
-			"hypergeometric distribution instead: the same table when its odds ratio is PSI, the distribution " +
-			"behind the exact conditional (Cornfield) interval for an odds ratio.",
-		Assumptions: "Every subset of draws items is equally likely to be drawn.",
-		Examples:    []string{"urn total=500 marked=25 draws=50", "urn total=500 marked=25 draws=50 k=0", "urn total=30 marked=19 draws=15 odds=2 k=12"},
-		Sources:     "Johnson NL, Kemp AW, Kotz S (2005), Univariate Discrete Distributions, 3rd ed., chapter 6 (section 6.11 for the noncentral form); Fisher RA (1935), J. Roy. Statist. Soc. 98:39-82.",
-	},
-	Run: runUrn,
+func urnCommand() *command {
+	return &command{
+		Name:    "urn",
+		Group:   "distribution",
+		Summary: "drawing without replacement: the hypergeometric distribution, with tails at k",
+		Usage:   "urn total=N marked=M draws=D [k=K] [odds=PSI]",
+		Options: []opt{
+			{Name: "total", Doc: "items in the population (a lot, a deck, a panel)"},
+			{Name: "marked", Doc: "how many of them are successes (defective, eligible, ...)"},
+			{Name: "draws", Doc: "items drawn without replacement"},
+			{Name: "k", Doc: "a count of marked items in the draw: print its point and tail probabilities"},
+			{Name: "odds", Doc: "an odds ratio psi: Fisher's noncentral hypergeometric (biased drawing; 1 is the plain urn)"},
+		},
+		Help: helpText{
+			Computes: "The hypergeometric distribution of the number of marked items among draws items taken " +
+				"without replacement from total items of which marked are marked: mean, standard deviation, the " +
+				"possible range, the most likely count and a plot; with k=, P(X = k), P(X <= k) and P(X >= k). It " +
+				"is the exact model for inspecting a sample from a finite lot, and the distribution behind " +
+				"Fisher's exact test for a 2x2 table with fixed margins. odds=PSI gives Fisher's noncentral " +
+				"hypergeometric distribution instead: the same table when its odds ratio is PSI, the distribution " +
+				"behind the exact conditional (Cornfield) interval for an odds ratio.",
+			Assumptions: "Every subset of draws items is equally likely to be drawn.",
+			Examples:    []string{"urn total=500 marked=25 draws=50", "urn total=500 marked=25 draws=50 k=0", "urn total=30 marked=19 draws=15 odds=2 k=12"},
+			Sources:     "Johnson NL, Kemp AW, Kotz S (2005), Univariate Discrete Distributions, 3rd ed., chapter 6 (section 6.11 for the noncentral form); Fisher RA (1935), J. Roy. Statist. Soc. 98:39-82.",
+		},
+		Run: runUrn,
+	}
 }
 
 type urnResult struct {
@@ -67,7 +67,7 @@ type urnDist interface {
 
 // urnArgs reads total=, marked= and draws=, checking that neither count
 // exceeds the total.
-func urnArgs(a *Args) (total, marked, draws int64, err error) {
+func urnArgs(a *argSet) (total, marked, draws int64, err error) {
 	v, err := a.Counts("total", "marked", "draws")
 	if err != nil {
 		return 0, 0, 0, err
@@ -81,7 +81,7 @@ func urnArgs(a *Args) (total, marked, draws int64, err error) {
 	return total, marked, draws, nil
 }
 
-func runUrn(c *Call) error {
+func runUrn(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err

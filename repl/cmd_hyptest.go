@@ -6,35 +6,6 @@ import (
 	"github.com/kofnlab/kofn/test"
 )
 
-func init() {
-	register(checkCmd, flipsCmd)
-	// The row form leaves out the inverted interval, which costs about a
-	// hundred p-values; each ROWS bounds gives intervals.
-	checkCmd.Row = &rowSpec{In: []string{"k", "n"}, Out: []string{"estimate", "p_value"},
-		prepare: func(c *Call) (rowFunc, error) {
-			p0, o, _, err := checkSetup(c)
-			o.SkipInterval = true
-			return func(_ context.Context, v []int64) ([]float64, error) {
-				r, err := test.Binomial(v[0], v[1], p0, o)
-				if err != nil {
-					return nil, err
-				}
-				return []float64{r.Estimate, r.PValue}, nil
-			}, err
-		}}
-	flipsCmd.Row = &rowSpec{In: []string{"a", "b", "c", "d"}, Out: []string{"estimate", "p_value"},
-		prepare: func(c *Call) (rowFunc, error) {
-			o, _, err := flipsSetup(c)
-			return func(_ context.Context, v []int64) ([]float64, error) {
-				r, err := test.McNemar(v[1], v[2], o)
-				if err != nil {
-					return nil, err
-				}
-				return []float64{r.Estimate, r.PValue}, nil
-			}, err
-		}}
-}
-
 var binomialTestMethods = enumWords(func(m test.BinomialMethod) string { return m.String() })
 var mcnemarMethods = enumWords(func(m test.McNemarMethod) string {
 	s := m.String()
@@ -46,33 +17,36 @@ var mcnemarMethods = enumWords(func(m test.McNemarMethod) string {
 
 const cautionSides = "side=high or side=low is honest only when the direction was fixed before the data were seen."
 
-var optTestSide = Opt{Name: "side", Doc: "two (default): the proportion differs; high: it is higher; low: it is lower", Values: sideWords}
+var optTestSide = opt{Name: "side", Doc: "two (default): the proportion differs; high: it is higher; low: it is lower", Values: sideWords}
 
-var checkCmd = &Command{
-	Name:    "check",
-	Group:   "tests",
-	Summary: "test one proportion against a stated value p, with the interval that inverts the test",
-	Usage:   "check K/N p=P [method=M] [side=two|high|low] [level=L]",
-	Methods: binomialTestMethods,
-	Options: []Opt{optP, optMethod("test", binomialTestMethods), optTestSide, optLevel},
-	Help: Help{
-		Computes: "The p-value for H0: the success probability equals p, from K successes in N trials, and " +
-			"the confidence interval made of the values of p the same test does not reject. " + cautionSides,
-		Methods: "Exact tests: point-probability (default; two-sided p-value sums the outcomes no more likely " +
-			"than the one observed; inverts to Sterne's interval), central (twice the smaller tail; inverts to " +
-			"Clopper-Pearson), Blaker (Blaker 2000), each also as mid-p. Large-sample tests: score (inverts to " +
-			"Wilson), score-cc (with continuity correction), likelihood-ratio.",
-		Assumptions: "Independent trials with one common success probability; the large-sample tests need " +
-			"n p and n (1-p) of about 5 or more (common practice).",
-		Examples: []string{"check 17/40 p=0.3", "check 3/50 p=0.15 side=low method=central", "check 81/263 p=0.25 method=score"},
-		Sources: "Sterne TE (1954), Biometrika 41:275-278; Clopper CJ, Pearson ES (1934), Biometrika 26:404-413; " +
-			"Blaker H (2000), Canadian Journal of Statistics 28:783-798; Lancaster HO (1961), JASA 56:223-234 (mid-p).",
-	},
-	Run: runCheck,
+func checkCommand() *command {
+	return &command{
+		Name:    "check",
+		Group:   "tests",
+		Summary: "test one proportion against a stated value p, with the interval that inverts the test",
+		Usage:   "check K/N p=P [method=M] [side=two|high|low] [level=L]",
+		Methods: binomialTestMethods,
+		Options: []opt{optP, optMethod("test", binomialTestMethods), optTestSide, optLevel},
+		Help: helpText{
+			Computes: "The p-value for H0: the success probability equals p, from K successes in N trials, and " +
+				"the confidence interval made of the values of p the same test does not reject. " + cautionSides,
+			Methods: "Exact tests: point-probability (default; two-sided p-value sums the outcomes no more likely " +
+				"than the one observed; inverts to Sterne's interval), central (twice the smaller tail; inverts to " +
+				"Clopper-Pearson), Blaker (Blaker 2000), each also as mid-p. Large-sample tests: score (inverts to " +
+				"Wilson), score-cc (with continuity correction), likelihood-ratio.",
+			Assumptions: "Independent trials with one common success probability; the large-sample tests need " +
+				"n p and n (1-p) of about 5 or more (common practice).",
+			Examples: []string{"check 17/40 p=0.3", "check 3/50 p=0.15 side=low method=central", "check 81/263 p=0.25 method=score"},
+			Sources: "Sterne TE (1954), Biometrika 41:275-278; Clopper CJ, Pearson ES (1934), Biometrika 26:404-413; " +
+				"Blaker H (2000), Canadian Journal of Statistics 28:783-798; Lancaster HO (1961), JASA 56:223-234 (mid-p).",
+		},
+		Run: runCheck,
+		Row: checkRow(),
+	}
 }
 
 // testSide reads side= as a test alternative.
-func testSide(a *Args) (test.Alternative, string, error) {
+func testSide(a *argSet) (test.Alternative, string, error) {
 	w, err := a.Choice("side", "two", sideWords...)
 	if err != nil {
 		return 0, "", err
@@ -87,7 +61,7 @@ func testSide(a *Args) (test.Alternative, string, error) {
 }
 
 // checkSetup reads the options of check.
-func checkSetup(c *Call) (p0 float64, o test.BinomialOptions, sideText string, err error) {
+func checkSetup(c *call) (p0 float64, o test.BinomialOptions, sideText string, err error) {
 	a := c.Args
 	if err = a.Need("p"); err != nil {
 		return
@@ -107,7 +81,7 @@ func checkSetup(c *Call) (p0 float64, o test.BinomialOptions, sideText string, e
 	return
 }
 
-func runCheck(c *Call) error {
+func runCheck(c *call) error {
 	a := c.Args
 	if err := a.Want(1, 1); err != nil {
 		return err
@@ -134,7 +108,7 @@ func runCheck(c *Call) error {
 
 // testRows writes the common rows of a test result: p-value, statistic,
 // inverted interval, warnings.
-func testRows(s *Session, b *Block, r test.Result, what string) {
+func testRows(s *Session, b *block, r test.Result, what string) {
 	b.Row("p-value", s.logNum(r.LogPValue))
 	b.Row("statistic", r.StatisticName+" = "+s.stat(r.Statistic))
 	if r.Interval != nil {
@@ -143,31 +117,34 @@ func testRows(s *Session, b *Block, r test.Result, what string) {
 	b.Warn(r.Warnings...)
 }
 
-var flipsCmd = &Command{
-	Name:    "flips",
-	Group:   "tests",
-	Summary: "paired yes/no data: test whether the two answers differ (McNemar)",
-	Usage:   "flips A B C D [method=M] [side=two|high|low]",
-	Methods: mcnemarMethods,
-	Options: []Opt{optMethod("test", mcnemarMethods), optTestSide},
-	Help: Help{
-		Computes: "For n pairs each scored yes/no twice (before and after, two raters, two tests on one " +
-			"sample), the counts A B C D in reading order: A both yes, B yes then no, C no then yes, D both no. " +
-			"Tests H0: the chance of a yes is the same the first and the second time, which depends only on " +
-			"the pairs that flipped (B and C). side=high claims the first yes-rate is higher. " + cautionSides,
-		Methods: "McNemar mid-p (default: closest to the nominal size in Fagerland et al. 2013), exact " +
-			"(conditional binomial; never exceeds the size), asymptotic (chi-square), asymptotic-cc (with " +
-			"Edwards' continuity correction).",
-		Assumptions: "Pairs are independent of each other; each pair is scored twice on the same scale.",
-		Examples:    []string{"flips 1 1 7 12", "flips 30 12 4 54 method=exact"},
-		Sources: "McNemar Q (1947), Psychometrika 12:153-157; Fagerland MW, Lydersen S, Laake P (2013), BMC " +
-			"Medical Research Methodology 13:91.",
-	},
-	Run: runFlips,
+func flipsCommand() *command {
+	return &command{
+		Name:    "flips",
+		Group:   "tests",
+		Summary: "paired yes/no data: test whether the two answers differ (McNemar)",
+		Usage:   "flips A B C D [method=M] [side=two|high|low]",
+		Methods: mcnemarMethods,
+		Options: []opt{optMethod("test", mcnemarMethods), optTestSide},
+		Help: helpText{
+			Computes: "For n pairs each scored yes/no twice (before and after, two raters, two tests on one " +
+				"sample), the counts A B C D in reading order: A both yes, B yes then no, C no then yes, D both no. " +
+				"Tests H0: the chance of a yes is the same the first and the second time, which depends only on " +
+				"the pairs that flipped (B and C). side=high claims the first yes-rate is higher. " + cautionSides,
+			Methods: "McNemar mid-p (default: closest to the nominal size in Fagerland et al. 2013), exact " +
+				"(conditional binomial; never exceeds the size), asymptotic (chi-square), asymptotic-cc (with " +
+				"Edwards' continuity correction).",
+			Assumptions: "Pairs are independent of each other; each pair is scored twice on the same scale.",
+			Examples:    []string{"flips 1 1 7 12", "flips 30 12 4 54 method=exact"},
+			Sources: "McNemar Q (1947), Psychometrika 12:153-157; Fagerland MW, Lydersen S, Laake P (2013), BMC " +
+				"Medical Research Methodology 13:91.",
+		},
+		Run: runFlips,
+		Row: flipsRow(),
+	}
 }
 
 // pairCounts reads the four cell counts A B C D of a paired table.
-func pairCounts(a *Args) ([4]int64, error) {
+func pairCounts(a *argSet) ([4]int64, error) {
 	var cells [4]int64
 	if err := a.Want(4, 4); err != nil {
 		return cells, err
@@ -183,7 +160,7 @@ func pairCounts(a *Args) ([4]int64, error) {
 }
 
 // flipsSetup reads the options of flips.
-func flipsSetup(c *Call) (o test.McNemarOptions, sideText string, err error) {
+func flipsSetup(c *call) (o test.McNemarOptions, sideText string, err error) {
 	m, err := c.Method()
 	if err != nil {
 		return
@@ -193,7 +170,7 @@ func flipsSetup(c *Call) (o test.McNemarOptions, sideText string, err error) {
 	return
 }
 
-func runFlips(c *Call) error {
+func runFlips(c *call) error {
 	a := c.Args
 	cells, err := pairCounts(a)
 	if err != nil {
@@ -215,4 +192,37 @@ func runFlips(c *Call) error {
 	b.Row("flipped", count(cells[1]+cells[2]), "estimate (B - C)/(B + C) = "+s.num(r.Estimate))
 	testRows(s, b, r, "")
 	return nil
+}
+
+// checkRow is the row form of check for each. It leaves out the inverted
+// interval, which costs about a hundred p-values; each ROWS bounds gives
+// intervals.
+func checkRow() *rowSpec {
+	return &rowSpec{In: []string{"k", "n"}, Out: []string{"estimate", "p_value"},
+		prepare: func(c *call) (rowFunc, error) {
+			p0, o, _, err := checkSetup(c)
+			o.SkipInterval = true
+			return func(_ context.Context, v []int64) ([]float64, error) {
+				r, err := test.Binomial(v[0], v[1], p0, o)
+				if err != nil {
+					return nil, err
+				}
+				return []float64{r.Estimate, r.PValue}, nil
+			}, err
+		}}
+}
+
+// flipsRow is the row form of flips for each.
+func flipsRow() *rowSpec {
+	return &rowSpec{In: []string{"a", "b", "c", "d"}, Out: []string{"estimate", "p_value"},
+		prepare: func(c *call) (rowFunc, error) {
+			o, _, err := flipsSetup(c)
+			return func(_ context.Context, v []int64) ([]float64, error) {
+				r, err := test.McNemar(v[1], v[2], o)
+				if err != nil {
+					return nil, err
+				}
+				return []float64{r.Estimate, r.PValue}, nil
+			}, err
+		}}
 }

@@ -5,14 +5,15 @@ import (
 	"github.com/kofnlab/kofn/power"
 )
 
-// Exact precision planning: margin by=chance|width|assurance.
-func init() {
+// addExactMargin adds the exact precision plans to margin:
+// by=chance|width|assurance (run by marginExact).
+func addExactMargin(marginCmd *command) {
 	marginCmd.Usage = "margin d=D [p=P] [level=L] [by=formula|chance|width|assurance] [method=M] [want=W]"
 	marginCmd.Options = append(marginCmd.Options,
-		Opt{Name: "by", Doc: "formula (default): z^2 p(1-p)/d^2; chance: exact chance that k/n lands within d; width: expected half-width of an interval; assurance: chance the half-width is at most d", Values: []string{"formula", "chance", "width", "assurance"}},
-		Opt{Name: "method", Doc: "by=width or assurance: the interval method (as bounds)", Values: boundsMethods},
-		Opt{Name: "want", Doc: "by=chance: the chance wanted (default: the level); by=assurance: the assurance wanted (default 0.8)"},
-		Opt{Name: "upto", Doc: "largest n searched"})
+		opt{Name: "by", Doc: "formula (default): z^2 p(1-p)/d^2; chance: exact chance that k/n lands within d; width: expected half-width of an interval; assurance: chance the half-width is at most d", Values: []string{"formula", "chance", "width", "assurance"}},
+		opt{Name: "method", Doc: "by=width or assurance: the interval method (as bounds)", Values: boundsMethods},
+		opt{Name: "want", Doc: "by=chance: the chance wanted (default: the level); by=assurance: the assurance wanted (default 0.8)"},
+		opt{Name: "upto", Doc: "largest n searched"})
 	marginCmd.Help.Computes += " by=chance finds the n for which k/n lands within d of p with at least the " +
 		"wanted chance, computed exactly (a sawtooth in n: the first and the safe n are given); without p= " +
 		"the worst case over every p. by=width finds the n whose interval (method=, level=) has expected " +
@@ -20,10 +21,11 @@ func init() {
 	marginCmd.Help.Examples = append(marginCmd.Help.Examples, "margin d=0.05 p=0.3 by=chance", "margin d=0.1 by=chance",
 		"margin d=0.05 p=0.2 by=width method=clopper-pearson", "margin d=0.05 p=0.2 by=assurance")
 	marginCmd.Help.Sources += " Exact precision: binom.ProportionWithin; interval widths from package interval."
-	marginRun = marginExact
 }
 
-func marginExact(c *Call, d, p, level float64) (bool, error) {
+// marginExact runs the exact forms of margin (by=...) and reports whether
+// it did.
+func marginExact(c *call, d, p, level float64) (bool, error) {
 	a := c.Args
 	by, err := a.Choice("by", "formula", "formula", "chance", "width", "assurance")
 	if err != nil || by == "formula" {

@@ -8,8 +8,6 @@ import (
 	"github.com/kofnlab/kofn/power"
 )
 
-func init() { register(detectCmd, sizeCmd) }
-
 // oneSampleMethods are the method words of the one-sample planning forms:
 // the exact test's two-sided definitions, their mid-p variants, and the
 // normal approximation.
@@ -51,7 +49,7 @@ var twoSampleWords = struct{ variance, correction, hypothesis []string }{
 	enumWords(func(v power.Hypothesis) string { return v.String() }),
 }
 
-var planOptions = []Opt{
+var planOptions = []opt{
 	{Name: "p", Doc: "one sample: the proportion under H0"},
 	{Name: "truth", Doc: "one sample: the true proportion the study should detect"},
 	{Name: "p1", Doc: "two groups: the proportion in group 1"},
@@ -72,55 +70,62 @@ const planSources = "Exact binomial power by enumeration of the rejection region
 	"56:149-155); Fleiss JL (1981), Statistical Methods for Rates and Proportions, 2nd ed.; Casagrande JT, Pike " +
 	"MC, Smith PG (1978), Biometrics 34:483-486; Connor RJ (1987), Biometrics 43:207-211 (paired)."
 
-var detectCmd = &Command{
-	Name:    "detect",
-	Group:   "planning",
-	Summary: "power: the chance a study of n trials detects a given effect; n=LO..HI plots the sawtooth",
-	Usage:   "detect n=N|LO..HI (p=P0 truth=P1 | p1=P1 p2=P2 [n2=N2] | yn=A ny=B) [alpha=A] [side=S] [method=M]",
-	Options: append([]Opt{{Name: "n", Doc: "trials (one sample), group 1 size (two groups) or pairs; LO..HI for a curve"},
-		{Name: "n2", Doc: "two groups: size of group 2 (default: n)"}}, planOptions...),
-	Help: Help{
-		Computes: "The probability that a test at level alpha rejects H0 when the truth is as stated. One " +
-			"sample (p, truth): the exact binomial test's power, by summing the true distribution over the " +
-			"rejection region, with the attained size and the counts that do not reject. Two groups (p1, p2): " +
-			"the power of the comparison. Paired (yn, ny): the power of McNemar's test. With n=LO..HI the power is drawn against n: exact power is a sawtooth, because " +
-			"adding a trial can shrink the rejection region.",
-		Methods: "One sample: exact with the point-probability (default), central or blaker two-sided " +
-			"definition, their -mid-p variants, or normal. Two groups: normal (default), Fleiss' formula with " +
-			"pooled or unpooled null variance and the Casagrande-Pike-Smith correction; or the exact power of " +
-			"fisher, barnard or z (pooled z test) by enumerating both binomials, limited to (n1+1)(n2+1) <= " +
-			"4100000 tables. Paired: McNemar exact (default), mid-p, or asymptotic (Connor's formula).",
-		Assumptions: "Independent trials; fixed n; the stated truth is the effect worth detecting.",
-		Examples: []string{"detect n=40 p=0.3 truth=0.5", "detect n=10..120 p=0.3 truth=0.5",
-			"detect n=474 p1=0.05 p2=0.10", "detect n=60 p1=0.2 p2=0.5 method=fisher", "detect n=100 yn=0.15 ny=0.05"},
-		Sources: planSources,
-	},
-	Run: runDetect,
+// planMethodsHelp is the Methods section of detect and size.
+const planMethodsHelp = "One sample: exact with the point-probability (default), central or blaker two-sided " +
+	"definition, their -mid-p variants, or normal. Two groups: normal (default), Fleiss' formula with " +
+	"pooled or unpooled null variance and the Casagrande-Pike-Smith correction; or the exact power of " +
+	"fisher, barnard or z (pooled z test) by enumerating both binomials, limited to (n1+1)(n2+1) <= " +
+	"4100000 tables. Paired: McNemar exact (default), mid-p, or asymptotic (Connor's formula)."
+
+func detectCommand() *command {
+	return &command{
+		Name:    "detect",
+		Group:   "planning",
+		Summary: "power: the chance a study of n trials detects a given effect; n=LO..HI plots the sawtooth",
+		Usage:   "detect n=N|LO..HI (p=P0 truth=P1 | p1=P1 p2=P2 [n2=N2] | yn=A ny=B) [alpha=A] [side=S] [method=M]",
+		Options: append([]opt{{Name: "n", Doc: "trials (one sample), group 1 size (two groups) or pairs; LO..HI for a curve"},
+			{Name: "n2", Doc: "two groups: size of group 2 (default: n)"}}, planOptions...),
+		Help: helpText{
+			Computes: "The probability that a test at level alpha rejects H0 when the truth is as stated. One " +
+				"sample (p, truth): the exact binomial test's power, by summing the true distribution over the " +
+				"rejection region, with the attained size and the counts that do not reject. Two groups (p1, p2): " +
+				"the power of the comparison. Paired (yn, ny): the power of McNemar's test. With n=LO..HI the power is drawn against n: exact power is a sawtooth, because " +
+				"adding a trial can shrink the rejection region.",
+			Methods:     planMethodsHelp,
+			Assumptions: "Independent trials; fixed n; the stated truth is the effect worth detecting.",
+			Examples: []string{"detect n=40 p=0.3 truth=0.5", "detect n=10..120 p=0.3 truth=0.5",
+				"detect n=474 p1=0.05 p2=0.10", "detect n=60 p1=0.2 p2=0.5 method=fisher", "detect n=100 yn=0.15 ny=0.05"},
+			Sources: planSources,
+		},
+		Run: runDetect,
+	}
 }
 
-var sizeCmd = &Command{
-	Name:    "size",
-	Group:   "planning",
-	Summary: "sample size for a target power (exact sawtooth-aware for one sample)",
-	Usage:   "size (p=P0 truth=P1 | p1=P1 p2=P2 [ratio=R] | yn=A ny=B) [power=0.8] [alpha=A] [side=S] [method=M]",
-	Options: append([]Opt{{Name: "power", Doc: "target power (default 0.8)"},
-		{Name: "ratio", Doc: "two groups: n2/n1 (default 1)"},
-		{Name: "upto", Doc: "largest n searched (one sample and paired exact searches)"}}, planOptions...),
-	Help: Help{
-		Computes: "The number of trials (per group, or pairs) that gives the target power. One sample: the " +
-			"exact search reports the first n whose power reaches the target and the n from which every larger " +
-			"n keeps it (they differ because exact power is a sawtooth in n), beside the normal-approximation " +
-			"n, with a plot of the sawtooth. Two groups: Fleiss' formula with the Casagrande-Pike-Smith " +
-			"continuity correction by default, also for non-inferiority and equivalence margins, or an exact " +
-			"search on the enumerated power of fisher, barnard or z. Paired: an exact search on McNemar's " +
-			"test (default), or Connor's formula with method=asymptotic.",
-		Methods:     detectCmd.Help.Methods,
-		Assumptions: "Independent trials; the stated truth is the smallest effect worth detecting.",
-		Examples: []string{"size p=0.3 truth=0.5", "size p1=0.05 p2=0.10", "size p1=0.05 p2=0.10 correction=none",
-			"size p1=0.2 p2=0.5 method=fisher", "size yn=0.15 ny=0.05 power=90%"},
-		Sources: planSources + " Fleiss (1981) Table A.3 gives 474 per group for 0.05 against 0.10.",
-	},
-	Run: runSize,
+func sizeCommand() *command {
+	return &command{
+		Name:    "size",
+		Group:   "planning",
+		Summary: "sample size for a target power (exact sawtooth-aware for one sample)",
+		Usage:   "size (p=P0 truth=P1 | p1=P1 p2=P2 [ratio=R] | yn=A ny=B) [power=0.8] [alpha=A] [side=S] [method=M]",
+		Options: append([]opt{{Name: "power", Doc: "target power (default 0.8)"},
+			{Name: "ratio", Doc: "two groups: n2/n1 (default 1)"},
+			{Name: "upto", Doc: "largest n searched (one sample and paired exact searches)"}}, planOptions...),
+		Help: helpText{
+			Computes: "The number of trials (per group, or pairs) that gives the target power. One sample: the " +
+				"exact search reports the first n whose power reaches the target and the n from which every larger " +
+				"n keeps it (they differ because exact power is a sawtooth in n), beside the normal-approximation " +
+				"n, with a plot of the sawtooth. Two groups: Fleiss' formula with the Casagrande-Pike-Smith " +
+				"continuity correction by default, also for non-inferiority and equivalence margins, or an exact " +
+				"search on the enumerated power of fisher, barnard or z. Paired: an exact search on McNemar's " +
+				"test (default), or Connor's formula with method=asymptotic.",
+			Methods:     planMethodsHelp,
+			Assumptions: "Independent trials; the stated truth is the smallest effect worth detecting.",
+			Examples: []string{"size p=0.3 truth=0.5", "size p1=0.05 p2=0.10", "size p1=0.05 p2=0.10 correction=none",
+				"size p1=0.2 p2=0.5 method=fisher", "size yn=0.15 ny=0.05 power=90%"},
+			Sources: planSources + " Fleiss (1981) Table A.3 gives 474 per group for 0.05 against 0.10.",
+		},
+		Run: runSize,
+	}
 }
 
 // planForm is the design a planning command was called for.
@@ -147,7 +152,7 @@ type planInputs struct {
 	pair         power.PairedOptions
 }
 
-func planArgs(c *Call) (planInputs, error) {
+func planArgs(c *call) (planInputs, error) {
 	a := c.Args
 	var in planInputs
 	var err error
@@ -304,7 +309,7 @@ type detectResult struct {
 	Curve  []power.NPower    `json:"curve,omitempty"`
 }
 
-func runDetect(c *Call) error {
+func runDetect(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err
@@ -451,7 +456,7 @@ type sizeResult struct {
 	Normal *power.NormalSize `json:"normal,omitempty"`
 }
 
-func runSize(c *Call) error {
+func runSize(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err
@@ -529,7 +534,7 @@ func runSize(c *Call) error {
 // exactSizeRows writes an exact sample size search: the first and the
 // safe n, the attained size and the normal-approximation n, and plots the
 // sawtooth around them.
-func exactSizeRows(c *Call, b *Block, r power.ExactSize, target float64, what string) {
+func exactSizeRows(c *call, b *block, r power.ExactSize, target float64, what string) {
 	s := c.S
 	c.Data(sizeResult{Exact: &r})
 	b.Row("method", r.Test)
@@ -565,7 +570,7 @@ func exactSizeRows(c *Call, b *Block, r power.ExactSize, target float64, what st
 }
 
 // normalRows writes a normal-approximation sample size.
-func normalRows(s *Session, b *Block, r power.NormalSize, unit string) {
+func normalRows(s *Session, b *block, r power.NormalSize, unit string) {
 	b.Row("method", r.Method)
 	if r.N2 > 0 {
 		b.Row("n", count(r.N)+" and "+count(r.N2), "group 1 and group 2")

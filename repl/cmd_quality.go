@@ -6,29 +6,27 @@ import (
 	"github.com/kofnlab/kofn/power"
 )
 
-func init() { register(marginCmd, proveCmd, acceptCmd) }
-
-var marginCmd = &Command{
-	Name:    "margin",
-	Group:   "planning",
-	Summary: "trials needed for a margin of error d on a proportion (precision planning)",
-	Usage:   "margin d=D [p=P] [level=L]",
-	Options: []Opt{{Name: "d", Doc: "margin of error: the half-width wanted, like 0.03"},
-		{Name: "p", Doc: "the proportion expected (default 0.5, the worst case)"}, optLevel},
-	Help: Help{
-		Computes: "The number of trials n for which the normal-approximation interval around k/n has " +
-			"half-width d at the level: n = z^2 p (1-p) / d^2, rounded up. It is a planning formula (common " +
-			"practice); near 0 or 1 or at small n the actual interval differs, so check the plan with bounds.",
-		Assumptions: "Simple random sampling from a large population; p is a guess (0.5 is the safe choice).",
-		Examples:    []string{"margin d=0.03", "margin d=0.02 p=0.1 level=99%"},
-		Sources:     "Textbook margin-of-error formula (common practice), e.g. Cochran WG (1977), Sampling Techniques, 3rd ed., section 4.4.",
-	},
-	Run: runMargin,
+func marginCommand() *command {
+	cmd := &command{
+		Name:    "margin",
+		Group:   "planning",
+		Summary: "trials needed for a margin of error d on a proportion (precision planning)",
+		Usage:   "margin d=D [p=P] [level=L]",
+		Options: []opt{{Name: "d", Doc: "margin of error: the half-width wanted, like 0.03"},
+			{Name: "p", Doc: "the proportion expected (default 0.5, the worst case)"}, optLevel},
+		Help: helpText{
+			Computes: "The number of trials n for which the normal-approximation interval around k/n has " +
+				"half-width d at the level: n = z^2 p (1-p) / d^2, rounded up. It is a planning formula (common " +
+				"practice); near 0 or 1 or at small n the actual interval differs, so check the plan with bounds.",
+			Assumptions: "Simple random sampling from a large population; p is a guess (0.5 is the safe choice).",
+			Examples:    []string{"margin d=0.03", "margin d=0.02 p=0.1 level=99%"},
+			Sources:     "Textbook margin-of-error formula (common practice), e.g. Cochran WG (1977), Sampling Techniques, 3rd ed., section 4.4.",
+		},
+		Run: runMargin,
+	}
+	addExactMargin(cmd)
+	return cmd
 }
-
-// marginRun, when set, handles the exact forms of margin (by=...); it
-// reports whether it did.
-var marginRun func(c *Call, d, p, level float64) (bool, error)
 
 type marginResult struct {
 	N     int64   `json:"n"`
@@ -37,7 +35,7 @@ type marginResult struct {
 	Level float64 `json:"level"`
 }
 
-func runMargin(c *Call) error {
+func runMargin(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err
@@ -57,10 +55,8 @@ func runMargin(c *Call) error {
 	if err != nil {
 		return err
 	}
-	if marginRun != nil {
-		if done, err := marginRun(c, d, p, level); done || err != nil {
-			return err
-		}
+	if done, err := marginExact(c, d, p, level); done || err != nil {
+		return err
 	}
 	n, err := power.MarginOfErrorN(p, d, level)
 	if err != nil {
@@ -72,27 +68,29 @@ func runMargin(c *Call) error {
 	return nil
 }
 
-var proveCmd = &Command{
-	Name:    "prove",
-	Group:   "planning",
-	Summary: "reliability demonstration: trials needed, or reliability shown by a test",
-	Usage:   "prove rel=R conf=C [fails=F]   or   prove n=N conf=C [fails=F]",
-	Options: []Opt{{Name: "rel", Doc: "reliability to demonstrate (chance a unit works), like 0.99"},
-		{Name: "conf", Doc: "confidence, like 0.95 or 95%"},
-		{Name: "fails", Doc: "failures allowed (default 0)"},
-		{Name: "n", Doc: "trials run (to find the reliability they demonstrate)"}},
-	Help: Help{
-		Computes: "With rel=: the smallest number of trials n such that seeing at most fails failures " +
-			"demonstrates reliability rel at confidence conf: P(X <= fails; n, 1 - rel) <= 1 - conf (with no " +
-			"failures this is the success-run formula n = ln(1 - conf)/ln(rel)). With n=: the reliability a " +
-			"test of n trials with fails failures demonstrates, the one-sided exact (Clopper-Pearson) lower " +
-			"bound; with no failures (1 - conf)^(1/n), which the rule of three approximates.",
-		Assumptions: "Independent trials of identical units under representative conditions.",
-		Examples:    []string{"prove rel=0.99 conf=0.95", "prove rel=0.95 conf=0.9 fails=2", "prove n=30 conf=0.9"},
-		Sources: "Success-run formula (common practice); Hanley JA, Lippman-Hand A (1983), If nothing goes " +
-			"wrong, is everything all right? JAMA 249:1743-1745; Clopper CJ, Pearson ES (1934), Biometrika 26:404-413.",
-	},
-	Run: runProve,
+func proveCommand() *command {
+	return &command{
+		Name:    "prove",
+		Group:   "planning",
+		Summary: "reliability demonstration: trials needed, or reliability shown by a test",
+		Usage:   "prove rel=R conf=C [fails=F]   or   prove n=N conf=C [fails=F]",
+		Options: []opt{{Name: "rel", Doc: "reliability to demonstrate (chance a unit works), like 0.99"},
+			{Name: "conf", Doc: "confidence, like 0.95 or 95%"},
+			{Name: "fails", Doc: "failures allowed (default 0)"},
+			{Name: "n", Doc: "trials run (to find the reliability they demonstrate)"}},
+		Help: helpText{
+			Computes: "With rel=: the smallest number of trials n such that seeing at most fails failures " +
+				"demonstrates reliability rel at confidence conf: P(X <= fails; n, 1 - rel) <= 1 - conf (with no " +
+				"failures this is the success-run formula n = ln(1 - conf)/ln(rel)). With n=: the reliability a " +
+				"test of n trials with fails failures demonstrates, the one-sided exact (Clopper-Pearson) lower " +
+				"bound; with no failures (1 - conf)^(1/n), which the rule of three approximates.",
+			Assumptions: "Independent trials of identical units under representative conditions.",
+			Examples:    []string{"prove rel=0.99 conf=0.95", "prove rel=0.95 conf=0.9 fails=2", "prove n=30 conf=0.9"},
+			Sources: "Success-run formula (common practice); Hanley JA, Lippman-Hand A (1983), If nothing goes " +
+				"wrong, is everything all right? JAMA 249:1743-1745; Clopper CJ, Pearson ES (1934), Biometrika 26:404-413.",
+		},
+		Run: runProve,
+	}
 }
 
 type proveResult struct {
@@ -102,7 +100,7 @@ type proveResult struct {
 	Reliability float64 `json:"reliability"`
 }
 
-func runProve(c *Call) error {
+func runProve(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err
@@ -162,38 +160,40 @@ func runProve(c *Call) error {
 	return nil
 }
 
-var acceptCmd = &Command{
-	Name:    "accept",
-	Group:   "planning",
-	Summary: "acceptance sampling by attributes: a plan's OC curve, AOQ and ATI, or design a plan",
-	Usage:   "accept n=N c=C [at=P] [lot=L]   or   accept aql=P1 rql=P2 [producer=A] [consumer=B]",
-	Options: []Opt{
-		{Name: "n", Doc: "items inspected from each lot"},
-		{Name: "c", Doc: "acceptance number: the lot is accepted with at most c defectives"},
-		{Name: "at", Doc: "a defect rate at which to report the acceptance probability"},
-		{Name: "lot", Doc: "lot size, for rectifying inspection (AOQ, ATI, AOQL)"},
-		{Name: "defectives", Doc: "with lot=: defectives in the lot, for the exact finite-lot (hypergeometric) acceptance chance"},
-		{Name: "aql", Doc: "design: acceptable quality level (defect rate that should pass)"},
-		{Name: "rql", Doc: "design: rejectable quality level (defect rate that should fail)"},
-		{Name: "producer", Doc: "design: largest chance of rejecting a lot at the AQL (default 0.05)"},
-		{Name: "consumer", Doc: "design: largest chance of accepting a lot at the RQL (default 0.10)"},
-		{Name: "upto", Doc: "design: largest n searched"},
-	},
-	Help: Help{
-		Computes: "For a single sampling plan (inspect n items, accept the lot with at most c defectives): " +
-			"the operating characteristic, the chance of accepting a lot against its defect rate (binomial, " +
-			"for large lots), drawn as a curve; at= gives its value at one rate; lot= adds rectifying " +
-			"inspection: average outgoing quality (AOQ) and average total inspection (ATI) at the rate, and the " +
-			"average outgoing quality limit (AOQL); lot= with defectives= gives the exact acceptance chance for " +
-			"that finite lot (hypergeometric, type A). With aql= and rql=: the plan with the smallest n that " +
-			"meets both risks, found by an exact search; adding lot= designs for isolated lots of that size " +
-			"(hypergeometric, type A) instead of a process.",
-		Assumptions: "Lots much larger than the sample (binomial model); items defective independently.",
-		Examples:    []string{"accept n=89 c=2", "accept n=89 c=2 at=0.01 lot=10000", "accept aql=0.01 rql=0.05"},
-		Sources: "Montgomery DC, Introduction to Statistical Quality Control, chapter on single sampling " +
-			"plans for attributes (n = 89, c = 2); Schilling EG, Neubauer DV (2009), Acceptance Sampling in Quality Control, 2nd ed.",
-	},
-	Run: runAccept,
+func acceptCommand() *command {
+	return &command{
+		Name:    "accept",
+		Group:   "planning",
+		Summary: "acceptance sampling by attributes: a plan's OC curve, AOQ and ATI, or design a plan",
+		Usage:   "accept n=N c=C [at=P] [lot=L]   or   accept aql=P1 rql=P2 [producer=A] [consumer=B]",
+		Options: []opt{
+			{Name: "n", Doc: "items inspected from each lot"},
+			{Name: "c", Doc: "acceptance number: the lot is accepted with at most c defectives"},
+			{Name: "at", Doc: "a defect rate at which to report the acceptance probability"},
+			{Name: "lot", Doc: "lot size, for rectifying inspection (AOQ, ATI, AOQL)"},
+			{Name: "defectives", Doc: "with lot=: defectives in the lot, for the exact finite-lot (hypergeometric) acceptance chance"},
+			{Name: "aql", Doc: "design: acceptable quality level (defect rate that should pass)"},
+			{Name: "rql", Doc: "design: rejectable quality level (defect rate that should fail)"},
+			{Name: "producer", Doc: "design: largest chance of rejecting a lot at the AQL (default 0.05)"},
+			{Name: "consumer", Doc: "design: largest chance of accepting a lot at the RQL (default 0.10)"},
+			{Name: "upto", Doc: "design: largest n searched"},
+		},
+		Help: helpText{
+			Computes: "For a single sampling plan (inspect n items, accept the lot with at most c defectives): " +
+				"the operating characteristic, the chance of accepting a lot against its defect rate (binomial, " +
+				"for large lots), drawn as a curve; at= gives its value at one rate; lot= adds rectifying " +
+				"inspection: average outgoing quality (AOQ) and average total inspection (ATI) at the rate, and the " +
+				"average outgoing quality limit (AOQL); lot= with defectives= gives the exact acceptance chance for " +
+				"that finite lot (hypergeometric, type A). With aql= and rql=: the plan with the smallest n that " +
+				"meets both risks, found by an exact search; adding lot= designs for isolated lots of that size " +
+				"(hypergeometric, type A) instead of a process.",
+			Assumptions: "Lots much larger than the sample (binomial model); items defective independently.",
+			Examples:    []string{"accept n=89 c=2", "accept n=89 c=2 at=0.01 lot=10000", "accept aql=0.01 rql=0.05"},
+			Sources: "Montgomery DC, Introduction to Statistical Quality Control, chapter on single sampling " +
+				"plans for attributes (n = 89, c = 2); Schilling EG, Neubauer DV (2009), Acceptance Sampling in Quality Control, 2nd ed.",
+		},
+		Run: runAccept,
+	}
 }
 
 type acceptResult struct {
@@ -209,14 +209,14 @@ type acceptResult struct {
 	OC            []power.Point   `json:"oc"`
 }
 
-func runAccept(c *Call) error {
+func runAccept(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err
 	}
 	s := c.S
 	var r acceptResult
-	var b *Block
+	var b *block
 	if a.Has("aql") || a.Has("rql") {
 		if err := a.Need("aql", "rql"); err != nil {
 			return err

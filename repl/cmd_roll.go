@@ -10,29 +10,29 @@ import (
 	"github.com/kofnlab/kofn/binom"
 )
 
-func init() { register(rollCmd) }
-
-var rollCmd = &Command{
-	Name:    "roll",
-	Group:   "distribution",
-	Summary: "simulate: draw random counts from a binomial (or an urn) to see the chance variation",
-	Usage:   "roll n=N p=P [times=T] [seed=S]   or   roll total=N marked=M draws=D [times=T] [seed=S]",
-	Options: []Opt{optN, optP,
-		{Name: "total", Doc: "urn: items in the population"}, {Name: "marked", Doc: "urn: marked items"},
-		{Name: "draws", Doc: "urn: items drawn without replacement"},
-		{Name: "times", Doc: "how many random counts to draw (default 20, at most 1000000)"},
-		{Name: "seed", Doc: "a whole number that makes the draws repeatable (default: from the clock, and printed)"}},
-	Help: Help{
-		Computes: "Random counts k from the binomial with n trials and success probability p (or from the " +
-			"hypergeometric urn), as many as times=, with their average and spread beside the exact mean and " +
-			"standard deviation. Useful to see how much k/n moves by chance alone. The draws come from a PCG " +
-			"generator seeded by seed=; the same seed gives the same draws.",
-		Assumptions: "Independent trials with one common success probability (or a random draw from the urn).",
-		Examples:    []string{"roll n=40 p=0.3 seed=7", "roll n=1000000 p=0.001 times=5 seed=1", "roll total=500 marked=25 draws=50 times=10 seed=3"},
-		Sources: "Hörmann W (1993), The generation of binomial random variates, J. Statist. Comput. Simul. " +
-			"46:101-110; Kachitvichyanukul V, Schmeiser BW (1985), J. Statist. Comput. Simul. 22:127-145.",
-	},
-	Run: runRoll,
+func rollCommand() *command {
+	return &command{
+		Name:    "roll",
+		Group:   "distribution",
+		Summary: "simulate: draw random counts from a binomial (or an urn) to see the chance variation",
+		Usage:   "roll n=N p=P [times=T] [seed=S]   or   roll total=N marked=M draws=D [times=T] [seed=S]",
+		Options: []opt{optN, optP,
+			{Name: "total", Doc: "urn: items in the population"}, {Name: "marked", Doc: "urn: marked items"},
+			{Name: "draws", Doc: "urn: items drawn without replacement"},
+			{Name: "times", Doc: "how many random counts to draw (default 20, at most 1000000)"},
+			{Name: "seed", Doc: "a whole number that makes the draws repeatable (default: from the clock, and printed)"}},
+		Help: helpText{
+			Computes: "Random counts k from the binomial with n trials and success probability p (or from the " +
+				"hypergeometric urn), as many as times=, with their average and spread beside the exact mean and " +
+				"standard deviation. Useful to see how much k/n moves by chance alone. The draws come from a PCG " +
+				"generator seeded by seed=; the same seed gives the same draws.",
+			Assumptions: "Independent trials with one common success probability (or a random draw from the urn).",
+			Examples:    []string{"roll n=40 p=0.3 seed=7", "roll n=1000000 p=0.001 times=5 seed=1", "roll total=500 marked=25 draws=50 times=10 seed=3"},
+			Sources: "Hörmann W (1993), The generation of binomial random variates, J. Statist. Comput. Simul. " +
+				"46:101-110; Kachitvichyanukul V, Schmeiser BW (1985), J. Statist. Comput. Simul. 22:127-145.",
+		},
+		Run: runRoll,
+	}
 }
 
 type rollResult struct {
@@ -45,7 +45,7 @@ type rollResult struct {
 	ExactStdDev float64 `json:"exact_std_dev"`
 }
 
-func runRoll(c *Call) error {
+func runRoll(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err

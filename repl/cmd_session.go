@@ -3,72 +3,59 @@ package repl
 import (
 	"sort"
 	"strconv"
-	"sync"
 )
 
-func init() {
-	register(setCmd, quitCmd)
+func setCommand() *command {
+	return &command{
+		Name:    "set",
+		Group:   "session",
+		Summary: "show or change session settings (level, digits, json, plot, width, default methods)",
+		Usage:   "set [name=value ...]",
+		Options: nil, // filled by newTable with settingOptions
+		Help: helpText{
+			Computes: "Shows the session settings, or changes them for the rest of the session. " +
+				"level is the confidence level used when a command gets no level= (0.95 or 95%); " +
+				"digits the significant digits printed (1 to 15); json=on prints one JSON object per command; " +
+				"plot=ascii draws plots with plain characters; width the plot width in columns. " +
+				"A command name as setting (for example bounds=jeffreys) sets that command's default method.",
+			Examples: []string{"set", "set level=90% digits=3", "set level=0.95 digits=4"},
+		},
+		Run: runSet,
+	}
 }
 
-var setCmd = &Command{
-	Name:    "set",
-	Group:   "session",
-	Summary: "show or change session settings (level, digits, json, plot, width, default methods)",
-	Usage:   "set [name=value ...]",
-	Options: nil, // filled by settingOptions at first use
-	Help: Help{
-		Computes: "Shows the session settings, or changes them for the rest of the session. " +
-			"level is the confidence level used when a command gets no level= (0.95 or 95%); " +
-			"digits the significant digits printed (1 to 15); json=on prints one JSON object per command; " +
-			"plot=ascii draws plots with plain characters; width the plot width in columns. " +
-			"A command name as setting (for example bounds=jeffreys) sets that command's default method.",
-		Examples: []string{"set", "set level=90% digits=3", "set level=0.95 digits=4"},
-	},
-}
-
-var quitCmd = &Command{
-	Name:    "quit",
-	Group:   "session",
-	Summary: "leave the shell (Ctrl-D does the same)",
-	Usage:   "quit",
-	Help:    Help{Computes: "Ends the session."},
-	Run: func(c *Call) error {
-		if err := c.Args.Want(0, 0); err != nil {
-			return err
-		}
-		return errQuit
-	},
+func quitCommand() *command {
+	return &command{
+		Name:    "quit",
+		Group:   "session",
+		Summary: "leave the shell (Ctrl-D does the same)",
+		Usage:   "quit",
+		Help:    helpText{Computes: "Ends the session."},
+		Run: func(c *call) error {
+			if err := c.Args.Want(0, 0); err != nil {
+				return err
+			}
+			return errQuit
+		},
+	}
 }
 
 // settingOptions lists the options of set: the fixed settings and one per
-// command that has methods.
-func settingOptions() []Opt {
-	opts := []Opt{
+// command of t that has methods.
+func settingOptions(t *table) []opt {
+	opts := []opt{
 		{Name: "level", Doc: "confidence level, in (0, 1) or as a percentage"},
 		{Name: "digits", Doc: "significant digits printed, 1 to 15"},
 		{Name: "json", Doc: "on: one JSON object per command; off: text blocks", Values: []string{"on", "off"}},
 		{Name: "plot", Doc: "blocks (Unicode) or ascii", Values: []string{"blocks", "ascii"}},
 		{Name: "width", Doc: "plot width in columns, 20 to 400"},
 	}
-	for _, name := range commandNames() {
-		if m := registry[name].Methods; len(m) > 0 {
-			opts = append(opts, Opt{Name: name, Doc: "default method of " + name, Values: m})
+	for _, name := range t.names {
+		if m := t.get(name).Methods; len(m) > 0 {
+			opts = append(opts, opt{Name: name, Doc: "default method of " + name, Values: m})
 		}
 	}
 	return opts
-}
-
-func init() { setCmd.Run = runSet }
-
-// settingsOnce fills the options of set once every command is registered
-// (init order across files is not to be relied on).
-var settingsOnce sync.Once
-
-func prepareSettings() {
-	settingsOnce.Do(func() {
-		setCmd.Options = settingOptions()
-		eachCmd.Help.Methods = "Verbs that run on rows, with the columns they read: " + rowVerbList() + ". Any method of the verb."
-	})
 }
 
 // settingsView is the JSON form of the settings.
@@ -81,7 +68,7 @@ type settingsView struct {
 	Methods map[string]string `json:"methods"`
 }
 
-func runSet(c *Call) error {
+func runSet(c *call) error {
 	if err := c.Args.Want(0, 0); err != nil {
 		return err
 	}
@@ -119,8 +106,8 @@ func runSet(c *Call) error {
 	} else {
 		next.Width = int(w)
 	}
-	for _, name := range commandNames() {
-		cmd := registry[name]
+	for _, name := range c.S.cmds.names {
+		cmd := c.S.cmds.get(name)
 		if len(cmd.Methods) == 0 {
 			continue
 		}
@@ -131,7 +118,7 @@ func runSet(c *Call) error {
 		}
 	}
 	c.S.Set = next
-	c.Data(settingsView{next.Level, next.Digits, next.JSON, plotStyle(next.ASCII), next.Width, next.effectiveMethods()})
+	c.Data(settingsView{next.Level, next.Digits, next.JSON, plotStyle(next.ASCII), next.Width, next.effectiveMethods(c.S.cmds)})
 	title := "session settings"
 	if len(a.opts) > 0 {
 		title = "changed settings"
@@ -150,7 +137,7 @@ func runSet(c *Call) error {
 			b.Row(r.name, r.value, r.doc)
 		}
 	}
-	ms := next.effectiveMethods()
+	ms := next.effectiveMethods(c.S.cmds)
 	names := make([]string, 0, len(ms))
 	for n := range ms {
 		names = append(names, n)
@@ -164,12 +151,12 @@ func runSet(c *Call) error {
 	return nil
 }
 
-// effectiveMethods returns the default method of every command with
+// effectiveMethods returns the default method of every command of t with
 // methods: the session's choice or the command's own default.
-func (st Settings) effectiveMethods() map[string]string {
+func (st Settings) effectiveMethods(t *table) map[string]string {
 	out := map[string]string{}
-	for _, name := range commandNames() {
-		cmd := registry[name]
+	for _, name := range t.names {
+		cmd := t.get(name)
 		if len(cmd.Methods) == 0 {
 			continue
 		}

@@ -2,80 +2,53 @@ package repl
 
 import (
 	"context"
+	"slices"
 
 	"github.com/kofnlab/kofn/test"
 )
 
-func init() {
-	register(versusCmd)
-	versusCmd.Row = &rowSpec{In: []string{"k1", "n1", "k2", "n2"}, Out: []string{"difference", "p_value"},
-		prepare: func(c *Call) (rowFunc, error) {
-			run, _, _, err := versusSetup(c)
-			return func(ctx context.Context, v []int64) ([]float64, error) {
-				r, err := run(ctx, v[0], v[1], v[2], v[3])
-				if err != nil {
-					return nil, err
-				}
-				return []float64{r.Estimate, r.PValue}, nil
-			}, err
-		}}
-}
-
 // versusMethods are the two-sample test words: Fisher's conditional test
-// in its two-sided definitions and mid-p forms, and the unconditional
-// exact tests.
-var versusMethods = []string{"fisher", "fisher-central", "fisher-mid-p", "fisher-central-mid-p", "boschloo", "barnard"}
+// in its two-sided definitions and mid-p forms, the unconditional exact
+// tests, then the large-sample tests (cmd_versus_asym.go).
+var versusMethods = append([]string{"fisher", "fisher-central", "fisher-mid-p", "fisher-central-mid-p", "boschloo", "barnard"},
+	asymptoticTwoMethods...)
 
-// versusExtra holds further two-sample tests by method word, each
-// returning the test to run for an alternative (see addVersusMethods).
-var versusExtra = map[string]func(alt test.Alternative) func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error){}
-
-// addVersusMethods adds tests to versus: their words, the option's
-// choices and the session default's choices follow.
-func addVersusMethods(words []string, f func(word string, alt test.Alternative) func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error)) {
-	for _, w := range words {
-		versusMethods = append(versusMethods, w)
-		versusExtra[w] = func(alt test.Alternative) func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error) {
-			return f(w, alt)
-		}
+func versusCommand() *command {
+	return &command{
+		Name:    "versus",
+		Group:   "tests",
+		Summary: "test whether two groups' proportions differ (Fisher, Boschloo, Barnard)",
+		Usage:   "versus K1/N1 K2/N2 [method=M] [side=two|high|low] [berger-boos=G]",
+		Methods: versusMethods,
+		Options: []opt{optMethod("test", versusMethods),
+			{Name: "side", Doc: "two (default); high: group 1's proportion is higher; low: it is lower", Values: sideWords},
+			{Name: "berger-boos", Doc: "Boschloo and Barnard: restrict the nuisance supremum to a 1-G interval and add G (G in (0, 0.5), 0.001 is usual)"}},
+		Help: helpText{
+			Computes: "The p-value for H0: both groups share one success probability, from K1 of N1 and K2 of " +
+				"N2. side=high claims group 1's proportion is higher. " + cautionSides,
+			Methods: "fisher (default): Fisher's exact test conditional on the margins, two-sided by point " +
+				"probability; fisher-central doubles the smaller tail; -mid-p forms halve the tables as extreme as " +
+				"observed. boschloo: the unconditional exact test ordered by Fisher's p-value, uniformly more " +
+				"powerful than Fisher's; barnard: the unconditional exact test ordered by the pooled z statistic. " +
+				"The unconditional tests take the supremum over the common proportion and are limited to " +
+				"(N1+1)(N2+1) <= 4100000 tables. Two-sided Boschloo orders tables by Fisher's two-sided p-value; " +
+				"some other software instead doubles the one-sided Boschloo p-value (1/1 against 0/1: 1 here, 0.5 " +
+				"there), so compare one-sided values. An empty group, or no successes (no failures) in both groups, " +
+				"gives p = 1 exactly." + asymptoticVersusHelp,
+			Assumptions: "Two independent groups of independent trials.",
+			Examples: []string{"versus 7/15 12/15 side=low", "versus 7/15 12/15 side=low method=barnard",
+				"versus 17/40 9/38 method=boschloo"},
+			Sources: "Fisher RA (1935), The Design of Experiments; Boschloo RD (1970), Statistica Neerlandica " +
+				"24:1-35; Barnard GA (1947), Biometrika 34:123-138; Mehta CR, Senchaudhuri P (2003), Conditional " +
+				"versus unconditional exact tests for comparing two binomials; Berger RL, Boos DD (1994), JASA 89:1012-1016.",
+		},
+		Run: runVersus,
+		Row: versusRow(),
 	}
-	versusCmd.Methods = versusMethods
-	versusCmd.option("method").Values = versusMethods
-}
-
-var versusCmd = &Command{
-	Name:    "versus",
-	Group:   "tests",
-	Summary: "test whether two groups' proportions differ (Fisher, Boschloo, Barnard)",
-	Usage:   "versus K1/N1 K2/N2 [method=M] [side=two|high|low] [berger-boos=G]",
-	Methods: versusMethods,
-	Options: []Opt{optMethod("test", versusMethods),
-		{Name: "side", Doc: "two (default); high: group 1's proportion is higher; low: it is lower", Values: sideWords},
-		{Name: "berger-boos", Doc: "Boschloo and Barnard: restrict the nuisance supremum to a 1-G interval and add G (G in (0, 0.5), 0.001 is usual)"}},
-	Help: Help{
-		Computes: "The p-value for H0: both groups share one success probability, from K1 of N1 and K2 of " +
-			"N2. side=high claims group 1's proportion is higher. " + cautionSides,
-		Methods: "fisher (default): Fisher's exact test conditional on the margins, two-sided by point " +
-			"probability; fisher-central doubles the smaller tail; -mid-p forms halve the tables as extreme as " +
-			"observed. boschloo: the unconditional exact test ordered by Fisher's p-value, uniformly more " +
-			"powerful than Fisher's; barnard: the unconditional exact test ordered by the pooled z statistic. " +
-			"The unconditional tests take the supremum over the common proportion and are limited to " +
-			"(N1+1)(N2+1) <= 4100000 tables. Two-sided Boschloo orders tables by Fisher's two-sided p-value; " +
-			"some other software instead doubles the one-sided Boschloo p-value (1/1 against 0/1: 1 here, 0.5 " +
-			"there), so compare one-sided values. An empty group, or no successes (no failures) in both groups, " +
-			"gives p = 1 exactly.",
-		Assumptions: "Two independent groups of independent trials.",
-		Examples: []string{"versus 7/15 12/15 side=low", "versus 7/15 12/15 side=low method=barnard",
-			"versus 17/40 9/38 method=boschloo"},
-		Sources: "Fisher RA (1935), The Design of Experiments; Boschloo RD (1970), Statistica Neerlandica " +
-			"24:1-35; Barnard GA (1947), Biometrika 34:123-138; Mehta CR, Senchaudhuri P (2003), Conditional " +
-			"versus unconditional exact tests for comparing two binomials; Berger RL, Boos DD (1994), JASA 89:1012-1016.",
-	},
-	Run: runVersus,
 }
 
 // twoCounts reads the two count pairs of a two-group command.
-func twoCounts(a *Args) (k1, n1, k2, n2 int64, err error) {
+func twoCounts(a *argSet) (k1, n1, k2, n2 int64, err error) {
 	if err = a.Want(2, 2); err != nil {
 		return
 	}
@@ -87,7 +60,7 @@ func twoCounts(a *Args) (k1, n1, k2, n2 int64, err error) {
 }
 
 // versusSetup reads the options of versus and returns the test to run.
-func versusSetup(c *Call) (run func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error), m, sideText string, err error) {
+func versusSetup(c *call) (run func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error), m, sideText string, err error) {
 	a := c.Args
 	if m, err = c.Method(); err != nil {
 		return
@@ -96,8 +69,8 @@ func versusSetup(c *Call) (run func(ctx context.Context, k1, n1, k2, n2 int64) (
 	if err != nil {
 		return
 	}
-	if extra := versusExtra[m]; extra != nil {
-		run = extra(alt)
+	if slices.Contains(asymptoticTwoMethods, m) {
+		run = asymptoticVersus(m, alt)
 		return
 	}
 	switch m {
@@ -123,7 +96,7 @@ func versusSetup(c *Call) (run func(ctx context.Context, k1, n1, k2, n2 int64) (
 	return
 }
 
-func runVersus(c *Call) error {
+func runVersus(c *call) error {
 	a := c.Args
 	k1, n1, k2, n2, err := twoCounts(a)
 	if err != nil {
@@ -148,4 +121,19 @@ func runVersus(c *Call) error {
 		b.Row("nuisance", s.num(r.Nuisance), "common proportion where the p-value's supremum is attained")
 	}
 	return nil
+}
+
+// versusRow is the row form of versus for each.
+func versusRow() *rowSpec {
+	return &rowSpec{In: []string{"k1", "n1", "k2", "n2"}, Out: []string{"difference", "p_value"},
+		prepare: func(c *call) (rowFunc, error) {
+			run, _, _, err := versusSetup(c)
+			return func(ctx context.Context, v []int64) ([]float64, error) {
+				r, err := run(ctx, v[0], v[1], v[2], v[3])
+				if err != nil {
+					return nil, err
+				}
+				return []float64{r.Estimate, r.PValue}, nil
+			}, err
+		}}
 }

@@ -5,13 +5,13 @@ import (
 )
 
 // completer completes command names, option names and option values
-// (methods and fixed choices) for readline.
-type completer struct{}
+// (methods and fixed choices) for readline, from a session's table.
+type completer struct{ t *table }
 
 // Do implements readline.AutoCompleter: it returns the suffixes that
 // extend the word before the cursor, and that word's length.
-func (completer) Do(line []rune, pos int) ([][]rune, int) {
-	cands, word := completions(string(line[:pos]))
+func (c completer) Do(line []rune, pos int) ([][]rune, int) {
+	cands, word := completions(c.t, string(line[:pos]))
 	var out [][]rune
 	for _, c := range cands {
 		if strings.HasPrefix(c, word) {
@@ -23,8 +23,7 @@ func (completer) Do(line []rune, pos int) ([][]rune, int) {
 
 // completions returns the candidates for the last word of head and that
 // word.
-func completions(head string) ([]string, string) {
-	prepareSettings()
+func completions(t *table, head string) ([]string, string) {
 	words := strings.Fields(head)
 	if len(words) == 0 || !strings.HasSuffix(head, " ") && len(words) == 1 {
 		word := ""
@@ -32,12 +31,12 @@ func completions(head string) ([]string, string) {
 			word = words[0]
 		}
 		var cands []string
-		for _, n := range commandNames() {
+		for _, n := range t.names {
 			cands = append(cands, n+" ")
 		}
 		return cands, strings.ToLower(word)
 	}
-	cmd := registry[strings.ToLower(words[0])]
+	cmd := t.get(strings.ToLower(words[0]))
 	if cmd == nil {
 		return nil, ""
 	}
@@ -45,25 +44,25 @@ func completions(head string) ([]string, string) {
 	if !strings.HasSuffix(head, " ") {
 		word = words[len(words)-1]
 	}
-	if cmd == helpCmd {
-		return commandNames(), word
+	if cmd.Name == "help" {
+		return t.names, word
 	}
 	done := len(words) // words before the one being completed
 	if word != "" {
 		done--
 	}
-	if cmd == eachCmd {
+	if cmd.Name == "each" {
 		switch {
 		case done == 1: // the file: nothing to offer
 			return nil, ""
 		case done == 2:
 			var cands []string
-			for _, v := range rowVerbs() {
+			for _, v := range t.rowVerbs() {
 				cands = append(cands, v+" ")
 			}
 			return cands, word
 		}
-		if cmd = registry[strings.ToLower(words[2])]; cmd == nil {
+		if cmd = t.get(strings.ToLower(words[2])); cmd == nil {
 			return nil, ""
 		}
 	}
@@ -77,7 +76,7 @@ func completions(head string) ([]string, string) {
 			vals = cmd.Methods
 		}
 		prefix := ""
-		if cmd == coverCmd { // a comma-separated list of methods
+		if cmd.Name == "cover" { // a comma-separated list of methods
 			if i := strings.LastIndex(val, ","); i >= 0 {
 				prefix, val = val[:i+1], val[i+1:]
 			}

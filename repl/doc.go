@@ -48,6 +48,21 @@
 // standard input is not a terminal, lines are read as a script (no prompt,
 // no history) and the exit status is non-zero if any line failed.
 //
+// # Embedding
+//
+// The exported surface is what the kofn program and an embedder need:
+// Main is the whole program (repl/cmd/kofn calls only it); NewSession
+// makes a Session with default Settings and its own command table, built
+// from the explicit list in table.go when the session starts (no package
+// state is shared between sessions); Session.Run executes one line and
+// Session.RunLines a script; a rejected token comes back as an
+// *InputError. A Session is used by one goroutine at a time; separate
+// sessions may run concurrently.
+//
+//	s := repl.NewSession(os.Stdout, os.Stderr)
+//	s.Set.Digits = 3
+//	if err := s.Run(ctx, "bounds 17/40"); err != nil { ... }
+//
 // Results steer decisions. For clinical studies and safety-critical
 // acceptance, consult a qualified statistician, the applicable regulations
 // and standards, and local practice.

@@ -8,29 +8,29 @@ import (
 	"unicode/utf8"
 )
 
-// Block is one compact output block: a title line, aligned label/value
+// block is one compact output block: a title line, aligned label/value
 // rows, and warnings.
-type Block struct {
+type block struct {
 	Title    string
 	rows     [][3]string
 	warnings []string
 }
 
 // Row adds a labelled value with an optional note printed after it.
-func (b *Block) Row(label, value string, note ...string) *Block {
+func (b *block) Row(label, value string, note ...string) *block {
 	b.rows = append(b.rows, [3]string{label, value, strings.Join(note, " ")})
 	return b
 }
 
 // Warn adds warnings, printed after the rows.
-func (b *Block) Warn(ws ...string) *Block {
+func (b *block) Warn(ws ...string) *block {
 	b.warnings = append(b.warnings, ws...)
 	return b
 }
 
 // render writes the block: the title, then rows indented by two spaces
 // with labels and values padded to common widths.
-func (b *Block) render(w io.Writer) {
+func (b *block) render(w io.Writer) {
 	var sb strings.Builder
 	if b.Title != "" {
 		sb.WriteString(b.Title)

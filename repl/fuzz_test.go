@@ -21,8 +21,8 @@ func FuzzLine(f *testing.F) {
 	} {
 		f.Add(seed)
 	}
-	for _, name := range commandNames() {
-		for _, ex := range registry[name].Help.Examples {
+	for _, name := range tbl.names {
+		for _, ex := range tbl.byName[name].Help.Examples {
 			f.Add(ex)
 		}
 	}

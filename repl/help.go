@@ -4,25 +4,24 @@ import (
 	"strings"
 )
 
-func init() { register(helpCmd) }
-
 // caution is printed on every help page of a command that computes.
 const caution = "These numbers can steer decisions that hurt people when they are wrong. For clinical " +
 	"and safety-critical use consult a qualified statistician, the applicable regulations and standards, and local practice."
 
-var helpCmd = &Command{
-	Name:    "help",
-	Group:   "session",
-	Summary: "list the commands, or explain one: help NAME",
-	Usage:   "help [COMMAND]",
-	Help: Help{
-		Computes: "Lists the commands by group, or shows one command's page: what it computes, the methods, " +
-			"its options, assumptions, invented examples and sources.",
-		Examples: []string{"help", "help spread"},
-	},
+func helpCommand() *command {
+	return &command{
+		Name:    "help",
+		Group:   "session",
+		Summary: "list the commands, or explain one: help NAME",
+		Usage:   "help [COMMAND]",
+		Help: helpText{
+			Computes: "Lists the commands by group, or shows one command's page: what it computes, the methods, " +
+				"its options, assumptions, invented examples and sources.",
+			Examples: []string{"help", "help spread"},
+		},
+		Run: runHelp,
+	}
 }
-
-func init() { helpCmd.Run = runHelp }
 
 // groupOrder is the order of groups in the listing.
 var groupOrder = []string{"distribution", "intervals", "tests", "planning", "data", "session"}
@@ -33,14 +32,14 @@ type helpPage struct {
 	Summary     string   `json:"summary"`
 	Computes    string   `json:"computes"`
 	Methods     []string `json:"methods,omitempty"`
-	Options     []Opt    `json:"options,omitempty"`
+	Options     []opt    `json:"options,omitempty"`
 	Assumptions string   `json:"assumptions,omitempty"`
 	Examples    []string `json:"examples,omitempty"`
 	Sources     string   `json:"sources,omitempty"`
 	Caution     string   `json:"caution,omitempty"`
 }
 
-func runHelp(c *Call) error {
+func runHelp(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 1); err != nil {
 		return err
@@ -49,9 +48,9 @@ func runHelp(c *Call) error {
 		return helpListing(c)
 	}
 	name := strings.ToLower(a.Pos(0))
-	cmd, ok := registry[name]
-	if !ok {
-		return inputErr(a.Pos(0), "is not a command"+unknownHint(name, commandNames()))
+	cmd := c.S.cmds.get(name)
+	if cmd == nil {
+		return inputErr(a.Pos(0), "is not a command"+unknownHint(name, c.S.cmds.names))
 	}
 	pg := helpPage{Name: cmd.Name, Usage: cmd.Usage, Summary: cmd.Summary, Computes: cmd.Help.Computes,
 		Methods: cmd.Methods, Options: cmd.Options, Assumptions: cmd.Help.Assumptions,
@@ -99,7 +98,7 @@ func runHelp(c *Call) error {
 	return nil
 }
 
-func helpListing(c *Call) error {
+func helpListing(c *call) error {
 	type entry struct {
 		Name    string `json:"name"`
 		Group   string `json:"group"`
@@ -110,13 +109,13 @@ func helpListing(c *Call) error {
 	sb.WriteString("kofn: binomial inference from k successes in n trials. One command per line; counts as k/n,\n" +
 		"options as name=value. help NAME explains a command; tour walks through an invented example.\n")
 	nw := 0
-	for _, n := range commandNames() {
+	for _, n := range c.S.cmds.names {
 		nw = max(nw, len(n))
 	}
 	for _, g := range groupOrder {
 		first := true
-		for _, n := range commandNames() {
-			cmd := registry[n]
+		for _, n := range c.S.cmds.names {
+			cmd := c.S.cmds.get(n)
 			if cmd.Group != g {
 				continue
 			}

@@ -10,8 +10,8 @@ import (
 // that every example on it runs without error.
 func TestHelpPages(t *testing.T) {
 	t.Parallel()
-	for _, name := range commandNames() {
-		cmd := registry[name]
+	for _, name := range tbl.names {
+		cmd := tbl.byName[name]
 		if cmd.Summary == "" || cmd.Usage == "" || cmd.Help.Computes == "" || cmd.Group == "" {
 			t.Errorf("%s: summary, usage, group or description missing", name)
 		}
@@ -43,7 +43,7 @@ func TestHelpPages(t *testing.T) {
 	if failed != 0 {
 		t.Fatal("help failed")
 	}
-	for _, name := range commandNames() {
+	for _, name := range tbl.names {
 		if !strings.Contains(out, "  "+name+" ") {
 			t.Errorf("help listing lacks %s", name)
 		}
@@ -69,7 +69,7 @@ func TestCompletion(t *testing.T) {
 		{"each data.csv bounds me", "method=", "me"},
 	}
 	for _, tc := range tests {
-		cands, word := completions(tc.head)
+		cands, word := completions(tbl, tc.head)
 		if word != tc.word {
 			t.Errorf("completions(%q) word = %q, want %q", tc.head, word, tc.word)
 		}
@@ -81,7 +81,7 @@ func TestCompletion(t *testing.T) {
 			t.Errorf("completions(%q) = %q, want %q among them", tc.head, cands, tc.want)
 		}
 	}
-	got, n := completer{}.Do([]rune("spre"), 4)
+	got, n := completer{tbl}.Do([]rune("spre"), 4)
 	if n != 4 || len(got) != 1 || string(got[0]) != "ad " {
 		t.Errorf("Do(spre) = %q, %d", got, n)
 	}

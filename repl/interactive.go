@@ -41,7 +41,7 @@ func interactive(s *Session, stdin io.Reader, useHistory bool) int {
 	fmt.Fprintln(s.Out, hint)
 	cfg := &readline.Config{
 		Prompt:                 "kofn> ",
-		AutoComplete:           completer{},
+		AutoComplete:           completer{s.cmds},
 		InterruptPrompt:        "^C",
 		EOFPrompt:              "",
 		DisableAutoSaveHistory: true,

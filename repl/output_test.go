@@ -12,8 +12,8 @@ import (
 // print exactly one JSON object on one line, naming its command.
 func TestJSONEveryExample(t *testing.T) {
 	t.Parallel()
-	for _, name := range commandNames() {
-		for _, ex := range registry[name].Help.Examples {
+	for _, name := range tbl.names {
+		for _, ex := range tbl.byName[name].Help.Examples {
 			if name == "tour" || name == "each" || name == "help" && ex == "help" {
 				continue // several objects, CSV, or a listing
 			}
@@ -55,7 +55,7 @@ func TestPlotsFitAndFallBack(t *testing.T) {
 	t.Parallel()
 	lines := []string{"spread n=40 p=0.3", "spread n=100000 p=0.5", "detect n=10..300 p=0.3 truth=0.5",
 		"size p=0.3 truth=0.5", "accept n=89 c=2", "urn total=500 marked=25 draws=50"}
-	if registry["cover"] != nil {
+	if tbl.byName["cover"] != nil {
 		lines = append(lines, "cover n=30 method=wald,wilson")
 	}
 	for _, width := range []int{40, 72, 120} {

@@ -12,7 +12,8 @@ import (
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 )
 
-// Settings are the session-wide defaults that commands read.
+// Settings are the session-wide defaults that commands read. The set
+// command changes them; an embedder may set them directly between calls.
 type Settings struct {
 	Level   float64           // confidence level for intervals and tests (default 0.95)
 	Digits  int               // significant digits printed (default 4)
@@ -27,23 +28,27 @@ func DefaultSettings() Settings {
 	return Settings{Level: 0.95, Digits: 4, Width: 72, Methods: map[string]string{}}
 }
 
-// Session runs command lines against one set of settings, writing results
-// to Out and error lines to Err. A Session is not safe for concurrent use.
+// Session runs command lines against one set of settings and one command
+// table, writing results to Out and error lines to Err. Make one with
+// NewSession. A Session is not safe for concurrent use; separate sessions
+// share nothing and may run in parallel.
 type Session struct {
 	Out io.Writer // results
 	Err io.Writer // one line per failed command
 	In  io.Reader // data for "each -" (standard input by default)
 	Set Settings
 
-	script      bool // prefix errors with the line number
-	interactive bool // at a terminal prompt
+	cmds        *table // the command table, built by NewSession
+	script      bool   // prefix errors with the line number
+	interactive bool   // at a terminal prompt
 	lineNo      int
 }
 
-// NewSession returns a session with default settings writing to out and errw.
+// NewSession returns a session with default settings writing results to
+// out and error lines to errw, with standard input as the data of
+// "each -". It builds the session's command table from commandTable.
 func NewSession(out, errw io.Writer) *Session {
-	prepareSettings()
-	return &Session{Out: out, Err: errw, In: os.Stdin, Set: DefaultSettings()}
+	return &Session{Out: out, Err: errw, In: os.Stdin, Set: DefaultSettings(), cmds: newTable(commandTable)}
 }
 
 // Run executes one command line and prints its result, or one error line.
@@ -88,17 +93,17 @@ func takeJSONFlag(words []string) ([]string, bool) {
 }
 
 // exec parses and runs one command, returning the finished call.
-func (s *Session) exec(ctx context.Context, line string, words []string) (*Call, error) {
+func (s *Session) exec(ctx context.Context, line string, words []string) (*call, error) {
 	verb := strings.ToLower(words[0])
-	cmd, ok := registry[verb]
-	if !ok {
-		return nil, inputErr(words[0], "is not a command"+unknownHint(verb, commandNames()))
+	cmd := s.cmds.get(verb)
+	if cmd == nil {
+		return nil, inputErr(words[0], "is not a command"+unknownHint(verb, s.cmds.names))
 	}
 	args, err := parseArgs(cmd, words[1:])
 	if err != nil {
 		return nil, err
 	}
-	c := &Call{Ctx: ctx, S: s, Args: args, Line: strings.TrimSpace(line)}
+	c := &call{Ctx: ctx, S: s, Args: args, Line: strings.TrimSpace(line)}
 	if err := cmd.Run(c); err != nil {
 		return nil, err
 	}
@@ -136,7 +141,7 @@ func (s *Session) report(verb string, err error) {
 
 // print writes the call's output as text blocks and plots, or as one JSON
 // object {"command": verb, "input": line, "result": data}.
-func (s *Session) print(verb string, c *Call) {
+func (s *Session) print(verb string, c *call) {
 	if s.Set.JSON {
 		if c.data == nil {
 			return

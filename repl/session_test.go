@@ -53,7 +53,7 @@ func TestTourRunsEveryStep(t *testing.T) {
 	if failed != 0 || stderr != "" {
 		t.Fatalf("tour failed: %s", stderr)
 	}
-	for _, st := range tourSteps() {
+	for _, st := range tourSteps(tbl) {
 		if !strings.Contains(out, "kofn> "+st.line) {
 			t.Errorf("tour output lacks step %q", st.line)
 		}

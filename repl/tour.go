@@ -5,44 +5,45 @@ import (
 	"strings"
 )
 
-func init() { register(tourCmd) }
-
-var tourCmd = &Command{
-	Name:    "tour",
-	Group:   "session",
-	Summary: "a walk-through of one invented study, from the spread of k/n to a sample-size plan",
-	Usage:   "tour",
-	Help: Help{
-		Computes: "Runs one invented scenario end to end, printing each command before its result so it " +
-			"can be retyped with other numbers: the sampling distribution of k/n, an interval for one " +
-			"proportion, a comparison of two groups, and a sample-size plan with its sawtooth.",
-		Examples: []string{"tour"},
-	},
+func tourCommand() *command {
+	return &command{
+		Name:    "tour",
+		Group:   "session",
+		Summary: "a walk-through of one invented study, from the spread of k/n to a sample-size plan",
+		Usage:   "tour",
+		Help: helpText{
+			Computes: "Runs one invented scenario end to end, printing each command before its result so it " +
+				"can be retyped with other numbers: the sampling distribution of k/n, an interval for one " +
+				"proportion, a comparison of two groups, and a sample-size plan with its sawtooth.",
+			Examples: []string{"tour"},
+		},
+		Run: runTour,
+	}
 }
 
 // tourStep is one step of the walk-through: a note for the reader, then a
 // command line run through the session.
 type tourStep struct{ note, line string }
 
-// tourSteps is the invented scenario. Its steps use only registered
+// tourSteps is the invented scenario. Its steps use only the table's
 // commands; each is run exactly as a user would type it.
-func tourSteps() []tourStep {
+func tourSteps(t *table) []tourStep {
 	steps := []tourStep{
 		{"Invented scenario. A bakery's web shop tries a new checkout page: of 40 visitors who saw it,\n" +
 			"17 ordered. Last week's page had 9 orders from 38 visitors.\n\n" +
 			"1. Before looking at the data: if the true order rate were 30%, how much would the count of\n" +
 			"   orders in 40 visits vary by chance alone?", "spread n=40 p=0.3"},
 	}
-	if registry["bounds"] != nil {
+	if t.get("bounds") != nil {
 		steps = append(steps, tourStep{"2. What order rate do 17 of 40 support? A 95% interval (Wilson, the default):", "bounds 17/40"})
 	} else {
 		steps = append(steps, tourStep{"2. What order rate do 17 of 40 support? The interval that inverts the exact test:", "check 17/40 p=0.3"})
 	}
-	if registry["gap"] != nil {
+	if t.get("gap") != nil {
 		steps = append(steps, tourStep{"3. Is the new page better than last week's 9 of 38? The difference of the rates:", "gap 17/40 9/38"})
 	}
 	versusNote := "   And an exact test of equal rates (Boschloo's unconditional test):"
-	if registry["gap"] == nil {
+	if t.get("gap") == nil {
 		versusNote = "3. Is the new page better than last week's 9 of 38? An exact test of equal rates (Boschloo's):"
 	}
 	steps = append(steps,
@@ -55,14 +56,12 @@ func tourSteps() []tourStep {
 	return steps
 }
 
-func init() { tourCmd.Run = runTour }
-
-func runTour(c *Call) error {
+func runTour(c *call) error {
 	if err := c.Args.Want(0, 0); err != nil {
 		return err
 	}
 	s := c.S
-	for i, st := range tourSteps() {
+	for i, st := range tourSteps(s.cmds) {
 		if !s.Set.JSON {
 			if i > 0 {
 				io.WriteString(s.Out, "\n")
