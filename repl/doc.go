@@ -28,8 +28,9 @@
 // Each command prints a compact block: a title naming the method by its
 // published name, the level and the side, then aligned label/value rows
 // and any warnings; some add a terminal plot (Unicode blocks, or ASCII
-// with -ascii, set plot=ascii or a non-UTF-8 locale). With -json or
-// "set json=on" each command prints instead one JSON object on one line,
+// with -ascii, set plot=ascii or a non-UTF-8 locale). With kofn -json,
+// "set json=on", or --json (also spelt -json) anywhere on one line, each
+// such command prints instead one JSON object on one line,
 //
 //	{"command": "bounds", "input": "bounds 17/40", "result": {...}}
 //

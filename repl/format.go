@@ -61,7 +61,7 @@ func (b *block) render(w io.Writer) {
 		sb.WriteString(wn)
 		sb.WriteByte('\n')
 	}
-	io.WriteString(w, sb.String())
+	io.WriteString(w, safeText(sb.String(), true))
 }
 
 // pad right-pads s with blanks to width runes.

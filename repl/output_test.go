@@ -110,9 +110,17 @@ func TestChartSeveralSeries(t *testing.T) {
 // single proportion, Table II for 81/263 (0.2553, 0.3662).
 func TestJSONFlagOnOneCommand(t *testing.T) {
 	t.Parallel()
+	for _, spelling := range []string{"--json", "-json", "--JSON"} {
+		testJSONFlag(t, "bounds 81/263 "+spelling)
+		testJSONFlag(t, "bounds "+spelling+" 81/263")
+	}
+}
+
+func testJSONFlag(t *testing.T, line string) {
+	t.Helper()
 	s, out, errw := testSession()
-	if err := s.Run(context.Background(), "bounds 81/263 --json"); err != nil {
-		t.Fatalf("%v %s", err, errw.String())
+	if err := s.Run(context.Background(), line); err != nil {
+		t.Fatalf("%s: %v %s", line, err, errw.String())
 	}
 	var got struct {
 		Command string

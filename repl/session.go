@@ -78,12 +78,13 @@ func (s *Session) Run(ctx context.Context, line string) error {
 	return nil
 }
 
-// takeJSONFlag removes every "--json" word from a command line and reports
-// whether there was one.
+// takeJSONFlag removes every "--json" or "-json" word from a command line
+// (the two spellings the kofn program's own -json flag accepts) and
+// reports whether there was one.
 func takeJSONFlag(words []string) ([]string, bool) {
 	out, found := words[:0:0], false
 	for _, w := range words {
-		if strings.EqualFold(w, "--json") {
+		if strings.EqualFold(w, "--json") || strings.EqualFold(w, "-json") {
 			found = true
 			continue
 		}
@@ -115,12 +116,9 @@ func (s *Session) exec(ctx context.Context, line string, words []string) (*call,
 
 // report prints one error line for a failed command.
 func (s *Session) report(verb string, err error) {
-	msg := strings.ReplaceAll(err.Error(), "\n", " ")
-	if errors.Is(err, context.Canceled) {
-		msg = "stopped (interrupted); nothing was lost, the session continues"
-		if s.interactive {
-			msg = "\n" + msg // after the ^C the terminal echoed
-		}
+	msg := shellMessage(s.cmds, verb, err)
+	if errors.Is(err, context.Canceled) && s.interactive {
+		msg = "\n" + msg // after the ^C the terminal echoed
 	}
 	if s.Set.JSON {
 		b, _ := jsonfloat.Marshal(struct {
@@ -165,7 +163,7 @@ func (s *Session) print(verb string, c *call) {
 		if p.block != nil {
 			p.block.render(s.Out)
 		} else {
-			io.WriteString(s.Out, p.plot)
+			io.WriteString(s.Out, safeText(p.plot, true))
 		}
 	}
 }

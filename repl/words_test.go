@@ -1,0 +1,80 @@
+package repl
+
+import (
+	"regexp"
+	"strings"
+	"testing"
+)
+
+// goNameRE finds what must not reach a shell user: a package-qualified
+// function name or a Go-style mixed-case identifier.
+var goNameRE = regexp.MustCompile(`\b(binom|interval|test|power)\.[A-Z]|\b[A-Z][a-z]+[A-Z][A-Za-z]*\b|\b[a-z]+[A-Z][A-Za-z]*\b`)
+
+// TestErrorsInShellWords runs lines whose errors come from the packages:
+// each error line must name the shell's options (the issue's examples:
+// upto=, c=, n=) and carry no Go identifier or float noise.
+func TestErrorsInShellWords(t *testing.T) {
+	t.Parallel()
+	tests := []struct{ line, want string }{
+		{"accept n=10 c=11", "c=11 is not below n=10"},
+		{"size p=0.3 truth=0.31 upto=500", "raise upto="},
+		{"size p=0.3 truth=0.31 upto=500", "upto=500"},
+		{"bounds 0/0", "n = 0: a proportion needs at least one trial"},
+		{"margin d=0.001 by=chance upto=100", "upto=100"},
+		{"size p1=0.3 p2=0.31 method=fisher upto=20000", "limit of tables"},
+	}
+	for _, tc := range tests {
+		stderr, err := runErr(tc.line)
+		if err == nil {
+			t.Errorf("%q: no error", tc.line)
+			continue
+		}
+		if !strings.Contains(stderr, tc.want) {
+			t.Errorf("%q: %q lacks %q", tc.line, stderr, tc.want)
+		}
+		if m := goNameRE.FindString(stderr); m != "" {
+			t.Errorf("%q: %q shows the Go name %q", tc.line, stderr, m)
+		}
+		if noisyRE.MatchString(stderr) {
+			t.Errorf("%q: %q shows float noise", tc.line, stderr)
+		}
+	}
+}
+
+func TestDenoise(t *testing.T) {
+	t.Parallel()
+	for in, want := range map[string]string{
+		"r = 0.9999989999999999 is":   "r = 0.999999 is",
+		"d = -0.011999999999999997":   "d = -0.012",
+		"level 0.95 and 1e-6 stay":    "level 0.95 and 1e-6 stay",
+		"x = 0.12345678901234567e-05": "x = 1.23456789012e-06",
+	} {
+		if got := denoise(in); got != want {
+			t.Errorf("denoise(%q) = %q, want %q", in, got, want)
+		}
+	}
+}
+
+// TestTerminalSafety: control characters from input are escaped in error
+// lines and output blocks, and a 200 KB token is shortened in the error.
+func TestTerminalSafety(t *testing.T) {
+	t.Parallel()
+	for _, line := range []string{"bounds 1/\x1b[2J10", "bounds 1/10 method=\x1b]0;x\x07", "tail \x9b31m/4 p=0.3",
+		"spread n=4 p=0.3 k=1..\u202e3", "nosuch\x1b[2J", "bounds 1/1\xff0"} {
+		stderr, _ := runErr(line)
+		if strings.ContainsAny(stderr, "\x1b\x07\x9b\u202e\xff") || strings.Contains(stderr, "\u009b") {
+			t.Errorf("%q: raw control character in %q", line, stderr)
+		}
+		if !strings.Contains(stderr, `\x1b`) && !strings.Contains(stderr, `\x9b`) && !strings.Contains(stderr, `\u009b`) && !strings.Contains(stderr, `\u202e`) && !strings.Contains(stderr, `\xff`) {
+			t.Errorf("%q: no escape in %q", line, stderr)
+		}
+	}
+	long := "bounds 1/" + strings.Repeat("7", 200_000) + "x"
+	stderr, _ := runErr(long)
+	if len(stderr) > 400 || !strings.Contains(stderr, "more characters") {
+		t.Errorf("long token: %d bytes of error: %.200q", len(stderr), stderr)
+	}
+	if got := safeText("a\tb\nc\x00", true); got != "a\\tb\nc\\x00" {
+		t.Errorf("safeText = %q", got)
+	}
+}
