@@ -57,7 +57,7 @@ func interactive(s *Session, stdin io.Reader, useHistory bool) int {
 	var hist *history
 	if useHistory {
 		if hist, err = openHistory(historyPath()); err != nil {
-			fmt.Fprintf(s.Err, "kofn: history off: %v\n", err)
+			fmt.Fprintf(s.Err, "kofn: no history this session: %s\n", safeText(err.Error(), false))
 		} else {
 			defer hist.close()
 			for _, l := range hist.lines {

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strconv"
 	"strings"
 
 	"github.com/kofnlab/kofn/internal/jsonfloat"
@@ -168,30 +169,45 @@ func (s *Session) print(verb string, c *call) {
 	}
 }
 
+// maxScriptLine is the longest command line run (1 MiB); a longer line
+// is reported with its number and skipped, and the script goes on.
+const maxScriptLine = 1 << 20
+
 // RunLines runs every line of r as a command, without prompts, and
 // returns the number of lines that failed. With numbered set, errors name
-// the line number (script mode). It stops early at "quit" or when ctx is
-// cancelled (which counts as a failure).
+// the line number (script mode). Lines of any length are read with
+// bounded memory: one longer than 1 MiB fails with its number and the
+// next line runs. It stops early at "quit" or when ctx is cancelled
+// (which counts as a failure).
 func (s *Session) RunLines(ctx context.Context, r io.Reader, numbered bool) (failed int) {
 	s.script = numbered
 	s.lineNo = 0
 	defer func() { s.script = false }()
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64*1024), 1<<20)
-	for sc.Scan() {
+	br := bufio.NewReaderSize(r, 64<<10)
+	for {
+		line, size, err := readLine(br, maxScriptLine)
+		if err != nil {
+			if err != io.EOF {
+				fmt.Fprintf(s.Err, "error: reading commands after line %d: %v\n", s.lineNo, err)
+				failed++
+			}
+			return failed
+		}
 		if ctx.Err() != nil {
 			return failed + 1
 		}
-		if err := s.Run(ctx, sc.Text()); err != nil {
+		if size > maxScriptLine {
+			s.lineNo++
+			s.report("", &InputError{Token: "line " + strconv.Itoa(s.lineNo),
+				Reason: "is " + strconv.Itoa(size) + " bytes long, beyond the 1 MiB a command line may have; it was skipped"})
+			failed++
+			continue
+		}
+		if err := s.Run(ctx, line); err != nil {
 			if errors.Is(err, errQuit) {
 				return failed
 			}
 			failed++
 		}
 	}
-	if err := sc.Err(); err != nil {
-		fmt.Fprintf(s.Err, "error: reading commands: %v\n", err)
-		failed++
-	}
-	return failed
 }
