@@ -22,7 +22,7 @@ var goWords = map[string]string{
 	"MaxN": "upto", "nMax": "upto", "maxN": "upto",
 	"MaxSearchN": "the search limit", "MaxTables": "the limit of tables", "MaxWorstN": "the limit",
 	"MaxTablesSum": "the limit of tables",
-	"eps": "d", "halfWidth": "d", "HalfWidth": "d",
+	"eps":          "d", "halfWidth": "d", "HalfWidth": "d",
 	"BergerBoos": "berger-boos", "Method": "method", "method": "method",
 	"Correction": "correction", "Variance": "variance", "Hypothesis": "hypothesis", "Margin": "margin",
 	"Ratio": "ratio", "Rule": "rule", "Side": "bound", "Interval.Side": "bound",
@@ -117,6 +117,7 @@ func translate(verb, msg string) string {
 		return w + "="
 	})
 }
+
 // denoise rounds every over-long decimal in msg to 12 significant digits.
 func denoise(msg string) string {
 	return noisyRE.ReplaceAllStringFunc(msg, func(num string) string {
