@@ -154,7 +154,7 @@ func ExamplePairedN() {
 }
 
 func ExamplePairedPower() {
-	r, err := power.PairedPower(150, 0.20, 0.08, power.PairedOptions{})
+	r, err := power.PairedPower(context.Background(), 150, 0.20, 0.08, power.PairedOptions{})
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -71,7 +71,7 @@ func FuzzExactSmall(f *testing.F) {
 		} else {
 			checkFuzz(t, "OneSampleCurve", err)
 		}
-		pr, err := PairedPower(n, p0/2, p1/2, PairedOptions{Alpha: alpha, Alternative: Alternative(alt % 4), Method: PairedMethod(method % 4), Enumerate: mid})
+		pr, err := PairedPower(context.Background(), n, p0/2, p1/2, PairedOptions{Alpha: alpha, Alternative: Alternative(alt % 4), Method: PairedMethod(method % 4), Enumerate: mid})
 		checkFuzz(t, "PairedPower", err, pr.Power, pr.Size)
 		tp, err := TwoSamplePower(context.Background(), n%40, (n+7)%40, p0, p1, TwoSampleOptions{Alpha: alpha, Alternative: Alternative(alt % 4), Test: ExactTest(method % 2 * 2)})
 		checkFuzz(t, "TwoSamplePower", err, tp.Power, tp.Size)

@@ -51,11 +51,13 @@ func ParsePairedMethod(s string) (PairedMethod, error) {
 	return 0, argerr.Invalid("power.ParsePairedMethod", "s", s, `is not a McNemar method; use "exact", "mid-p" or "asymptotic"`)
 }
 
-// condPower holds P(reject | d discordant pairs) for d = 0..len-1, under
-// the alternative (c) and under H0 (c0), for the conditional McNemar
-// tests.
+// condPower holds P(reject | d discordant pairs) for d = base ..
+// base+len(c)-1, under the alternative (c) and under H0 (c0), for the
+// conditional McNemar tests. Only the window of d that carries the
+// Binomial(n, psi) weight is kept, so memory is O(sqrt(n)), not O(n).
 type condPower struct {
 	next  func(d int64) (pw, size float64)
+	base  int64
 	c, c0 []float64
 }
 
@@ -65,7 +67,7 @@ func newCondPower(p10, p01, alpha float64, o PairedOptions) *condPower {
 	if psi > 0 {
 		q = p10 / psi
 	}
-	cp := &condPower{c: []float64{0}, c0: []float64{0}}
+	cp := &condPower{}
 	if o.Method == McNemarAsymptotic {
 		// Given d, the chi-square test rejects outside an interval of n10
 		// around d/2, decided by test.McNemar; the interval of d seeds d+1.
@@ -98,25 +100,44 @@ func newCondPower(p10, p01, alpha float64, o PairedOptions) *condPower {
 	return cp
 }
 
-// extend makes c and c0 cover d = 0..n.
-func (cp *condPower) extend(n int64) {
-	for d := int64(len(cp.c)); d <= n; d++ {
-		pw, size := cp.next(d)
+// extend makes c and c0 cover d = lo..hi (and keeps at most a short stretch
+// below lo). ctx is checked every 256 values of d.
+func (cp *condPower) extend(ctx context.Context, fn string, lo, hi int64) error {
+	if len(cp.c) == 0 || lo < cp.base || lo > cp.base+int64(len(cp.c)) {
+		cp.base, cp.c, cp.c0 = lo, cp.c[:0], cp.c0[:0]
+	} else if drop := lo - cp.base; drop > 1024 && drop > int64(len(cp.c))/2 {
+		cp.c, cp.c0 = append(cp.c[:0], cp.c[drop:]...), append(cp.c0[:0], cp.c0[drop:]...)
+		cp.base = lo
+	}
+	for d := cp.base + int64(len(cp.c)); d <= hi; d++ {
+		if d&255 == 0 {
+			if err := argerr.Canceled(fn, ctx); err != nil {
+				return err
+			}
+		}
+		var pw, size float64
+		if d > 0 {
+			pw, size = cp.next(d)
+		}
 		cp.c = append(cp.c, pw)
 		cp.c0 = append(cp.c0, size)
 	}
+	return nil
 }
 
 // at returns the unconditional power and size at n pairs with discordant
 // probability psi: sum over d of Binomial(d; n, psi) c(d).
-func (cp *condPower) at(n int64, psi float64, buf []float64) (pw, size float64, _ []float64) {
-	cp.extend(n)
+func (cp *condPower) at(ctx context.Context, fn string, n int64, psi float64, buf []float64) (pw, size float64, _ []float64, _ error) {
 	lo, w := pmfWindow(n, psi, buf)
-	for i, b := range w {
-		pw += b * cp.c[lo+int64(i)]
-		size += b * cp.c0[lo+int64(i)]
+	if err := cp.extend(ctx, fn, lo, lo+int64(len(w))-1); err != nil {
+		return 0, 0, w, err
 	}
-	return math.Min(pw, 1), math.Min(size, 1), w
+	for i, b := range w {
+		j := lo + int64(i) - cp.base
+		pw += b * cp.c[j]
+		size += b * cp.c0[j]
+	}
+	return math.Min(pw, 1), math.Min(size, 1), w, nil
 }
 
 // PairedPower returns the exact power of McNemar's test (o.Method: exact
@@ -134,8 +155,12 @@ func (cp *condPower) at(n int64, psi float64, buf []float64) (pw, size float64, 
 // discordant probability (the asymptotic and mid-p tests can exceed
 // alpha). For McNemarAsymptotic without Enumerate the power is Connor's
 // closed form (PairedNormalPower) and Size is Alpha.
-// AcceptLo/AcceptHi are not used (-1). Cost O(n) plus O(sqrt(n)) per call.
-func PairedPower(n int64, p10, p01 float64, o PairedOptions) (ExactPower, error) {
+// AcceptLo/AcceptHi are not used (-1). Cost: a few p-values for each d in
+// the window of D's distribution above 1e-17 of its mode, O(sqrt(n)) (about
+// 0.1 s at n = MaxSearchN); memory O(sqrt(n)) (under 2 MB at MaxSearchN).
+// ctx is checked every 256 values of d; a cancelled call returns the
+// context's error wrapped.
+func PairedPower(ctx context.Context, n int64, p10, p01 float64, o PairedOptions) (ExactPower, error) {
 	const fn = "power.PairedPower"
 	if n < 1 {
 		return ExactPower{}, argerr.Invalid(fn, "n", n, "must be at least 1")
@@ -156,7 +181,10 @@ func PairedPower(n int64, p10, p01 float64, o PairedOptions) (ExactPower, error)
 		return r, nil
 	}
 	cp := newCondPower(p10, p01, alpha, o)
-	r.Power, r.Size, _ = cp.at(n, p10+p01, nil)
+	r.Power, r.Size, _, err = cp.at(ctx, fn, n, p10+p01, nil)
+	if err != nil {
+		return ExactPower{}, err
+	}
 	return r, nil
 }
 
@@ -182,16 +210,20 @@ func PairedN(ctx context.Context, p10, p01 float64, o PairedOptions) (ExactSize,
 	psi := p10 + p01
 	var cp *condPower
 	var buf []float64
-	power := func(n int64) float64 { return pairedNormalPower(float64(n), p10, p01, alpha, o.Alternative) }
+	power := func(n int64) (float64, error) {
+		return pairedNormalPower(float64(n), p10, p01, alpha, o.Alternative), nil
+	}
 	if o.Method != McNemarAsymptotic || o.Enumerate {
 		cp = newCondPower(p10, p01, alpha, o)
-		power = func(n int64) float64 {
+		power = func(n int64) (float64, error) {
 			var v float64
-			v, _, buf = cp.at(n, psi, buf)
-			return v
+			var err error
+			v, _, buf, err = cp.at(ctx, fn, n, psi, buf)
+			return v, err
 		}
 	}
-	r, err := searchStable(ctx, fn, power, pw, limit)
+	r, err := scanStable(ctx, fn, scan{start: 1, maxN: limit, target: pw, extend: true,
+		horizon: func(first int64) int64 { return max(2*first, first+100) }}, power)
 	if err != nil {
 		return ExactSize{}, err
 	}
@@ -202,7 +234,9 @@ func PairedN(ctx context.Context, p10, p01 float64, o PairedOptions) (ExactSize,
 	}
 	r.Size = alpha
 	if cp != nil {
-		_, r.Size, _ = cp.at(at, psi, nil)
+		if _, r.Size, _, err = cp.at(ctx, fn, at, psi, nil); err != nil {
+			return ExactSize{}, err
+		}
 	}
 	if ns, err := PairedNormalN(p10, p01, o); err == nil {
 		r.Normal = ns

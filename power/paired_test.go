@@ -36,7 +36,7 @@ func TestPairedGolden(t *testing.T) {
 		var want, got []float64
 		for _, r := range byCase[name] {
 			want = append(want, r.Float(2))
-			ep, err := PairedPower(r.Int(1), p10, p01, o)
+			ep, err := PairedPower(context.Background(), r.Int(1), p10, p01, o)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -100,7 +100,7 @@ func TestPairedErrors(t *testing.T) {
 	if _, err := PairedN(context.Background(), 0.1, 0.2, PairedOptions{Alternative: Greater}); !errors.Is(err, ErrNoSolution) {
 		t.Errorf("wrong side: %v", err)
 	}
-	if _, err := PairedPower(0, 0.1, 0.2, PairedOptions{}); !errors.Is(err, ErrInvalidArgument) {
+	if _, err := PairedPower(context.Background(), 0, 0.1, 0.2, PairedOptions{}); !errors.Is(err, ErrInvalidArgument) {
 		t.Errorf("n = 0: %v", err)
 	}
 }

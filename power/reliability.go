@@ -61,6 +61,12 @@ func DemonstrationTrials(r, c float64, failures int64) (Demonstration, error) {
 	if err := argerr.Count(fn, "failures", failures); err != nil {
 		return Demonstration{}, err
 	}
+	// More trials than failures are always needed, so a failure count at
+	// or beyond the limit is refused before any search (and lo + 1 below
+	// cannot overflow).
+	if failures >= MaxDemonstrationTrials {
+		return Demonstration{}, argerr.TooLarge(fn, "failures", failures, "needs more than 2^50 trials (MaxDemonstrationTrials)")
+	}
 	q := 1 - r
 	lt := math.Log1p(-c) // ln(1 - c)
 	// Decided on the reported confidence itself, so the plan never shows a

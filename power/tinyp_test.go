@@ -55,8 +55,12 @@ func TestTinyProbabilities(t *testing.T) {
 			{"TwoSamplePower alpha", func(q float64) (ExactPower, error) {
 				return TwoSamplePower(context.Background(), 10, 10, 0.2, 0.7, TwoSampleOptions{Alpha: q})
 			}},
-			{"PairedPower", func(q float64) (ExactPower, error) { return PairedPower(20, q, 0.3, PairedOptions{}) }},
-			{"PairedPower alpha", func(q float64) (ExactPower, error) { return PairedPower(20, 0.1, 0.3, PairedOptions{Alpha: q}) }},
+			{"PairedPower", func(q float64) (ExactPower, error) {
+				return PairedPower(context.Background(), 20, q, 0.3, PairedOptions{})
+			}},
+			{"PairedPower alpha", func(q float64) (ExactPower, error) {
+				return PairedPower(context.Background(), 20, 0.1, 0.3, PairedOptions{Alpha: q})
+			}},
 		}
 		for _, c := range checks {
 			got, err := c.f(p)

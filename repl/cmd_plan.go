@@ -289,7 +289,7 @@ func (in planInputs) powerAt(ctx context.Context, n, n2 int64) (float64, string,
 		}
 		return p, "normal approximation (" + in.two.Variance.String() + " variance, correction " + in.two.Correction.String() + ")", nil, err
 	default:
-		ex, err = power.PairedPower(n, in.yn, in.ny, in.pair)
+		ex, err = power.PairedPower(ctx, n, in.yn, in.ny, in.pair)
 		if ex.Test == "" {
 			ex.Test = "McNemar " + in.method
 		}

@@ -66,7 +66,7 @@ func TestPlanningMatchesPackage(t *testing.T) {
 	if got := num(t, runJSON(t, "detect n=100 yn=0.15 ny=0.05 method=asymptotic"), "power"); got != pw {
 		t.Errorf("paired detect: %v, package %v", got, pw)
 	}
-	pe, err := power.PairedPower(100, 0.15, 0.05, power.PairedOptions{Alpha: 0.05})
+	pe, err := power.PairedPower(context.Background(), 100, 0.15, 0.05, power.PairedOptions{Alpha: 0.05})
 	if err != nil {
 		t.Fatal(err)
 	}
