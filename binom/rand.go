@@ -22,11 +22,14 @@ const btrsMin = 10
 // variate with 1-P.
 //
 // Special cases: N = 0 or P = 0 gives 0, P = 1 gives N; an invalid Dist
-// gives -1. Rand never panics on a valid Dist (r must not be nil).
+// gives -1. A nil r draws from math/rand/v2's top-level generator (randomly
+// seeded, safe for concurrent use); pass a seeded *rand.Rand for
+// reproducible draws. Rand never panics.
 func (d Dist) Rand(r *rand.Rand) int64 {
 	if !d.valid() {
 		return -1
 	}
+	r = orDefault(r)
 	switch {
 	case d.N == 0 || d.P == 0:
 		return 0
@@ -39,6 +42,20 @@ func (d Dist) Rand(r *rand.Rand) int64 {
 		return d.randInversion(r)
 	}
 	return d.randBTRS(r)
+}
+
+// globalSource is a rand.Source drawing from math/rand/v2's top-level
+// generator, which is randomly seeded and safe for concurrent use.
+type globalSource struct{}
+
+func (globalSource) Uint64() uint64 { return rand.Uint64() }
+
+// orDefault returns r, or a generator over globalSource when r is nil.
+func orDefault(r *rand.Rand) *rand.Rand {
+	if r == nil {
+		return rand.New(globalSource{})
+	}
+	return r
 }
 
 // randInversion returns a variate by sequential search of the CDF from 0,
@@ -103,11 +120,13 @@ func (d Dist) randBTRS(r *rand.Rand) int64 {
 // Comput. Simul. 22:127-145, describe inversion from the mode as HIN's
 // refinement). Cost: O(standard deviation) steps, about 0.8 sd on average;
 // at totals of 1e6 that is at most a few hundred steps. A single-point
-// support gives that point; an invalid Hyper gives -1.
+// support gives that point; an invalid Hyper gives -1. A nil r draws from
+// math/rand/v2's top-level generator, as Dist.Rand.
 func (h Hyper) Rand(r *rand.Rand) int64 {
 	if !h.valid() {
 		return -1
 	}
+	r = orDefault(r)
 	lo, hi := h.Support()
 	if lo == hi {
 		return lo

@@ -108,3 +108,28 @@ func BenchmarkRand(b *testing.B) {
 		})
 	}
 }
+
+// TestRandNilSource checks that a nil generator draws from the default
+// one: variates in range, and a sample mean within 6 standard errors of
+// N P and of the hypergeometric mean (common practice for a smoke check).
+func TestRandNilSource(t *testing.T) {
+	t.Parallel()
+	d := Dist{N: 1000, P: 0.3}
+	h := Hyper{Total: 1000, Successes: 300, Draws: 100}
+	const draws = 2000
+	var sd, sh float64
+	for range draws {
+		x, y := d.Rand(nil), h.Rand(nil)
+		if x < 0 || x > 1000 || y < 0 || y > 100 {
+			t.Fatalf("Rand(nil) = %d, %d: out of range", x, y)
+		}
+		sd += float64(x)
+		sh += float64(y)
+	}
+	if m, se := sd/draws, math.Sqrt(d.Variance()/draws); math.Abs(m-d.Mean()) > 6*se {
+		t.Errorf("Dist.Rand(nil) mean %g, want %g +- %g", m, d.Mean(), 6*se)
+	}
+	if m, se := sh/draws, math.Sqrt(h.Variance()/draws); math.Abs(m-h.Mean()) > 6*se {
+		t.Errorf("Hyper.Rand(nil) mean %g, want %g +- %g", m, h.Mean(), 6*se)
+	}
+}
