@@ -21,7 +21,9 @@ import (
 //
 // Build it with NewHyper, which validates. A Hyper built by hand outside
 // that domain makes every method return NaN (or -1 for the integer-valued
-// ones, (-1, -1) for Support); no method panics.
+// ones, (-1, -1) for Support); no method panics. The domain includes a
+// bound on the spread, MaxHyperStdDev, beyond which Support and Mode still
+// answer but every other method returns NaN (or -1).
 type Hyper struct {
 	Total     int64 // population size N, 0 <= N <= MaxN
 	Successes int64 // successes in the population K, 0 <= K <= N
@@ -31,12 +33,52 @@ type Hyper struct {
 // NewHyper returns the hypergeometric distribution of the successes among
 // draws items drawn from total items of which successes are successes. It
 // fails with ErrInvalidArgument when a count is negative or successes or
-// draws exceeds total, and with ErrTooLarge when total > MaxN.
+// draws exceeds total, and with ErrTooLarge when total > MaxN or when the
+// standard deviation exceeds MaxHyperStdDev.
 func NewHyper(total, successes, draws int64) (Hyper, error) {
-	if err := checkHyper("binom.NewHyper", total, successes, draws); err != nil {
+	const fn = "binom.NewHyper"
+	if err := checkHyper(fn, total, successes, draws); err != nil {
 		return Hyper{}, err
 	}
-	return Hyper{Total: total, Successes: successes, Draws: draws}, nil
+	h := Hyper{Total: total, Successes: successes, Draws: draws}
+	if !spreadOK(h.varianceFloat()) {
+		return Hyper{}, spreadError(fn, "draws", draws, h.varianceFloat())
+	}
+	return h, nil
+}
+
+// MaxHyperStdDev bounds the standard deviation of the hypergeometric and
+// Fisher noncentral hypergeometric distributions that NewHyper and
+// NewNoncentralHyper accept: 2^15 = 32768. Tails, quantiles, the entropy,
+// the noncentral moments and the variates sum O(standard deviation) terms
+// (a few nanoseconds each), so this bound keeps every method within about
+// 10 ms (a tail about 1 ms, a quantile a few ms, the entropy about 10 ms on
+// one core of the project's machine). The spread only gets that large for
+// populations of billions with both margins in the millions or more
+// (balanced margins need a total above 1.7e10); there the normal
+// approximation with Mean and Variance is accurate to O(1/standard
+// deviation), and when draws are a small fraction of total the binomial
+// Dist{N: draws, P: successes/total} answers in O(1).
+const MaxHyperStdDev = 1 << 15
+
+// spreadOK reports whether a variance is within MaxHyperStdDev^2.
+func spreadOK(v float64) bool { return v <= float64(MaxHyperStdDev)*float64(MaxHyperStdDev) }
+
+// spreadError is the ErrTooLarge error of a distribution whose variance v
+// exceeds the bound.
+func spreadError(fn, arg string, value int64, v float64) error {
+	return argerr.TooLarge(fn, arg, value, "gives a standard deviation of "+argerr.Format(float64(float32(math.Sqrt(v))))+
+		", beyond MaxHyperStdDev = 32768: tails and quantiles would sum that many terms; at this size use the normal approximation from Mean and Variance, or Dist (binomial) when draws are a small fraction of total")
+}
+
+// varianceFloat returns the variance n (K/N) ((N-K)/N) ((N-n)/(N-1)) in
+// floating point (a few roundings), for the spread bound; 0 when N <= 1.
+func (h Hyper) varianceFloat() float64 {
+	N, K, n := float64(h.Total), float64(h.Successes), float64(h.Draws)
+	if N <= 1 {
+		return 0
+	}
+	return n * (K / N) * ((N - K) / N) * ((N - n) / (N - 1))
 }
 
 // checkHyper validates hypergeometric parameters for function fn.
@@ -53,17 +95,25 @@ func checkHyper(fn string, total, successes, draws int64) error {
 	return argerr.KN(fn, "draws", "total", draws, total)
 }
 
-// valid reports whether h's parameters are in the domain NewHyper accepts.
-func (h Hyper) valid() bool {
+// inDomain reports whether h's counts are in the domain NewHyper accepts,
+// whatever the spread.
+func (h Hyper) inDomain() bool {
 	return h.Total >= 0 && h.Total <= MaxN &&
 		h.Successes >= 0 && h.Successes <= h.Total &&
 		h.Draws >= 0 && h.Draws <= h.Total
 }
 
+// valid reports whether h's parameters are in the domain NewHyper accepts,
+// the spread bound included.
+func (h Hyper) valid() bool {
+	return h.inDomain() && spreadOK(h.varianceFloat())
+}
+
 // Support returns the smallest and largest possible values,
-// lo = max(0, n - (N-K)) and hi = min(n, K); (-1, -1) for an invalid Hyper.
+// lo = max(0, n - (N-K)) and hi = min(n, K); (-1, -1) for counts outside
+// NewHyper's domain. It answers whatever the spread (MaxHyperStdDev).
 func (h Hyper) Support() (lo, hi int64) {
-	if !h.valid() {
+	if !h.inDomain() {
 		return -1, -1
 	}
 	lo = h.Draws - (h.Total - h.Successes)
@@ -75,9 +125,10 @@ func (h Hyper) Support() (lo, hi int64) {
 
 // Mode returns floor((n+1)(K+1)/(N+2)), a most probable value, computed in
 // exact integer arithmetic. When (n+1)(K+1)/(N+2) is an integer m, both m-1
-// and m are modes and Mode returns m. -1 for an invalid Hyper.
+// and m are modes and Mode returns m. -1 for counts outside NewHyper's
+// domain; it answers whatever the spread (MaxHyperStdDev).
 func (h Hyper) Mode() int64 {
-	if !h.valid() {
+	if !h.inDomain() {
 		return -1
 	}
 	hi, lo := bits.Mul64(uint64(h.Draws+1), uint64(h.Successes+1))

@@ -228,3 +228,48 @@ func TestHyperMoments(t *testing.T) {
 		t.Errorf("point mass: skewness %g, kurtosis %g, variance %g", h.Skewness(), h.ExKurtosis(), h.Variance())
 	}
 }
+
+// TestHyperSpreadBound checks the MaxHyperStdDev bound: the constructors
+// refuse wider distributions with ErrTooLarge, hand-built ones answer NaN
+// at once (Support still answers), and just inside the bound the summing
+// methods agree with the normal limit to O(1/sd) (the distribution is then
+// nearly normal: common practice).
+func TestHyperSpreadBound(t *testing.T) {
+	t.Parallel()
+	const n53, n52, n51 = int64(1) << 53, int64(1) << 52, int64(1) << 51
+	if _, err := NewHyper(n53, n51, n51); !errors.Is(err, ErrTooLarge) {
+		t.Errorf("NewHyper(2^53, 2^51, 2^51) error = %v, want ErrTooLarge", err)
+	}
+	if _, err := NewNoncentralHyper(n53, n52, n52, 3); !errors.Is(err, ErrTooLarge) {
+		t.Errorf("NewNoncentralHyper(2^53, 2^52, 2^52, 3) error = %v, want ErrTooLarge", err)
+	}
+	wide := Hyper{Total: n53, Successes: n51, Draws: n51}
+	if v := wide.CDF(n51 / 4); !math.IsNaN(v) {
+		t.Errorf("hand-built wide Hyper CDF = %g, want NaN", v)
+	}
+	if v := wide.Entropy(); !math.IsNaN(v) {
+		t.Errorf("hand-built wide Hyper Entropy = %g, want NaN", v)
+	}
+	if q := wide.Quantile(0.5); q != -1 {
+		t.Errorf("hand-built wide Hyper Quantile = %d, want -1", q)
+	}
+	if lo, hi := wide.Support(); lo != 0 || hi != n51 {
+		t.Errorf("hand-built wide Hyper Support = %d, %d, want 0, 2^51", lo, hi)
+	}
+	if v := (NoncentralHyper{Total: n53, Successes: n52, Draws: n52, OddsRatio: 3}).Mean(); !math.IsNaN(v) {
+		t.Errorf("hand-built wide NoncentralHyper Mean = %g, want NaN", v)
+	}
+	// Balanced margins: a variance of about N/16 puts the bound near N = 2^34.
+	h, err := NewHyper(1<<34-1000, 1<<33, 1<<33)
+	if err != nil {
+		t.Fatalf("NewHyper just inside the bound: %v", err)
+	}
+	sd := h.StdDev()
+	if c := h.CDF(h.Mode()); math.Abs(c-0.5) > 1/sd {
+		t.Errorf("CDF at the mode = %g, want 0.5 within 1/sd", c)
+	}
+	// Entropy of a nearly normal law: 0.5 ln(2 pi e sigma^2) + O(1/sigma^2).
+	if e, want := h.Entropy(), 0.5*math.Log(2*math.Pi*math.E*sd*sd); math.Abs(e-want) > 1e-6 {
+		t.Errorf("Entropy = %.15g, want %.15g (normal limit)", e, want)
+	}
+}

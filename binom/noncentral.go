@@ -25,7 +25,9 @@ import (
 //
 // Build it with NewNoncentralHyper, which validates; a NoncentralHyper
 // built by hand outside that domain makes every method return NaN (-1 for
-// Mode); no method panics.
+// Mode); no method panics. The domain includes the spread bound
+// MaxHyperStdDev, checked on the standard deviation at the mode (see
+// NewNoncentralHyper); Support answers whatever the spread.
 //
 // Source: Fisher RA (1935), The logic of inductive inference, J. Roy.
 // Statist. Soc. 98:39-82; Johnson NL, Kemp AW, Kotz S (2005), Univariate
@@ -40,7 +42,14 @@ type NoncentralHyper struct {
 // NewNoncentralHyper returns Fisher's noncentral hypergeometric
 // distribution. It fails with ErrInvalidArgument when a count is negative,
 // successes or draws exceeds total, or oddsRatio is negative or NaN, and
-// with ErrTooLarge when total > MaxN.
+// with ErrTooLarge when total > MaxN or when the standard deviation
+// exceeds MaxHyperStdDev. For psi = 1 that is the central one; otherwise
+// the standard deviation at the mode m (from the PMF's second log
+// difference there),
+//
+//	sigma^2 ~ 1 / (1/(m+1/2) + 1/(K-m+1/2) + 1/(n-m+1/2) + 1/(N-K-n+m+1/2)),
+//
+// within a few percent of the true one at sizes where the bound matters.
 func NewNoncentralHyper(total, successes, draws int64, oddsRatio float64) (NoncentralHyper, error) {
 	const fn = "binom.NewNoncentralHyper"
 	if err := checkHyper(fn, total, successes, draws); err != nil {
@@ -49,22 +58,43 @@ func NewNoncentralHyper(total, successes, draws int64, oddsRatio float64) (Nonce
 	if !(oddsRatio >= 0) {
 		return NoncentralHyper{}, argerr.Invalid(fn, "oddsRatio", oddsRatio, "is not an odds ratio in [0, +Inf]")
 	}
-	return NoncentralHyper{Total: total, Successes: successes, Draws: draws, OddsRatio: oddsRatio}, nil
+	d := NoncentralHyper{Total: total, Successes: successes, Draws: draws, OddsRatio: oddsRatio}
+	if v := d.spread(); !spreadOK(v) {
+		return NoncentralHyper{}, spreadError(fn, "draws", draws, v)
+	}
+	return d, nil
 }
 
 func (d NoncentralHyper) hyper() Hyper {
 	return Hyper{Total: d.Total, Successes: d.Successes, Draws: d.Draws}
 }
 
+// spread returns the variance checked against MaxHyperStdDev: the central
+// one for psi = 1, otherwise the curvature estimate at the mode (see
+// NewNoncentralHyper); 0 for a point mass. The counts must be in the domain.
+func (d NoncentralHyper) spread() float64 {
+	h := d.hyper()
+	if d.OddsRatio == 1 {
+		return h.varianceFloat()
+	}
+	if _, ok := d.pointMass(); ok {
+		return 0
+	}
+	m := float64(d.mode())
+	K, n, N := float64(h.Successes), float64(h.Draws), float64(h.Total)
+	return 1 / (1/(m+0.5) + 1/(K-m+0.5) + 1/(n-m+0.5) + 1/(N-K-n+m+0.5))
+}
+
 func (d NoncentralHyper) valid() bool {
-	return d.hyper().valid() && d.OddsRatio >= 0
+	return d.hyper().inDomain() && d.OddsRatio >= 0 && spreadOK(d.spread())
 }
 
 // Support returns the smallest and largest values of positive
 // probability for 0 < psi < +Inf, the hypergeometric support (see the type
-// doc for psi = 0 and +Inf); (-1, -1) for an invalid distribution.
+// doc for psi = 0 and +Inf); (-1, -1) for counts outside
+// NewNoncentralHyper's domain. It answers whatever the spread.
 func (d NoncentralHyper) Support() (lo, hi int64) {
-	if !d.valid() {
+	if !d.hyper().inDomain() || !(d.OddsRatio >= 0) {
 		return -1, -1
 	}
 	return d.hyper().Support()
@@ -91,6 +121,11 @@ func (d NoncentralHyper) Mode() int64 {
 	if !d.valid() {
 		return -1
 	}
+	return d.mode()
+}
+
+// mode is Mode for counts in the domain and psi >= 0, whatever the spread.
+func (d NoncentralHyper) mode() int64 {
 	if x, ok := d.pointMass(); ok {
 		return x
 	}
@@ -197,7 +232,7 @@ func (d NoncentralHyper) LogProb(x int64) float64 {
 	if d.OddsRatio == 1 {
 		return d.hyper().LogProb(x)
 	}
-	w := d.weights(d.Mode(), nil)
+	w := d.weights(d.mode(), nil)
 	return w.logTerm(x) - w.logZ
 }
 
@@ -226,7 +261,7 @@ func (d NoncentralHyper) LogProbRange(lo, hi int64) float64 {
 	if done {
 		return v
 	}
-	w := d.weights(d.Mode(), nil)
+	w := d.weights(d.mode(), nil)
 	return min(0, w.logRange(lo, hi)) // rounding never lifts a probability above 1
 }
 
@@ -263,7 +298,7 @@ func (d NoncentralHyper) moments() (mean, variance float64) {
 		return float64(m), 0
 	}
 	var s0, s1, s2 float64
-	m := d.Mode()
+	m := d.mode()
 	d.weights(m, func(j int64, t float64) {
 		u := float64(j - m)
 		s0 += t

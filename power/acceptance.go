@@ -225,7 +225,9 @@ func AOQL(pl Plan, lot int64) (AOQLimit, error) {
 //
 // from binom.Hyper. For lots much larger than n it approaches AcceptProb
 // at p = defectives/lot. Domain: valid plan, n <= lot <= binom.MaxN,
-// 0 <= defectives <= lot.
+// 0 <= defectives <= lot; ErrTooLarge beyond binom.MaxHyperStdDev (lots of
+// billions with samples and defectives in the millions), where AcceptProb
+// at p = defectives/lot answers.
 func AcceptProbLot(pl Plan, lot, defectives int64) (float64, error) {
 	const fn = "power.AcceptProbLot"
 	if err := pl.check(fn); err != nil {
@@ -240,6 +242,9 @@ func AcceptProbLot(pl Plan, lot, defectives int64) (float64, error) {
 	if err := argerr.KN(fn, "defectives", "lot", defectives, lot); err != nil {
 		return 0, err
 	}
-	h := binom.Hyper{Total: lot, Successes: defectives, Draws: pl.SampleSize}
+	h, err := binom.NewHyper(lot, defectives, pl.SampleSize)
+	if err != nil {
+		return 0, argerr.TooLarge(fn, "lot", lot, "with this sample and these defectives is beyond the exact hypergeometric sum ("+err.Error()+"); use AcceptProb at p = defectives/lot")
+	}
 	return h.CDF(pl.AcceptNumber), nil
 }

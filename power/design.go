@@ -93,7 +93,10 @@ func (r PlanDesign) MarshalJSON() ([]byte, error) {
 // already failed at n_c. Cost: O(c log n) tail evaluations.
 //
 // With o.Lot > 0 the same search runs on hypergeometric probabilities for
-// a lot of that size (Pa also falls as n grows there), capped at n = Lot.
+// a lot of that size (Pa also falls as n grows there), capped at n = Lot;
+// ErrTooLarge when such a lot's hypergeometric spread at n = min(MaxN,
+// Lot/2) exceeds binom.MaxHyperStdDev (lots of about 1e10 and more), where
+// Lot = 0 (the binomial OC) answers.
 //
 // Domain: 0 < aql < rql < 1, risks in (0, 1). ErrNoSolution when no plan
 // with n <= MaxN meets both risks (the reason gives the closest
@@ -141,6 +144,13 @@ func DesignPlan(ctx context.Context, aql, rql float64, o DesignOptions) (PlanDes
 		dq, dr := int64(math.Round(aql*float64(o.Lot))), int64(math.Round(rql*float64(o.Lot)))
 		if dr <= dq {
 			return PlanDesign{}, argerr.Invalid(fn, "Lot", o.Lot, "is too small to tell aql from rql: both round to "+argerr.Format(dq)+" defectives")
+		}
+		// The hypergeometric variance in n peaks at n = lot/2; refuse lots
+		// whose OC would need sums beyond binom.MaxHyperStdDev.
+		for _, d := range []int64{dq, dr} {
+			if _, err := binom.NewHyper(o.Lot, d, min(maxN, o.Lot/2)); err != nil {
+				return PlanDesign{}, argerr.TooLarge(fn, "Lot", o.Lot, "is too large for the exact hypergeometric OC ("+err.Error()+"); use Lot = 0 (the binomial OC of large lots)")
+			}
 		}
 		defectives := func(p float64) int64 {
 			if p == aql {

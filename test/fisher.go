@@ -69,7 +69,10 @@ type FisherOptions struct {
 // sample), Null 0. No interval is attached.
 //
 // Errors: a count negative or above its sample size, n1 + n2 > 2^53, an
-// unknown method or alternative.
+// unknown method or alternative; ErrTooLarge when the conditional
+// distribution's standard deviation exceeds binom.MaxHyperStdDev (tables of
+// more than about 1.7e10 with both margins balanced), where the p-value
+// would sum that many terms and TwoSample's asymptotic tests answer.
 //
 // Accuracy and cost: the log p-value to about 1e-12 relative to
 // max(1, |ln p|); the tables of equal probability on the other side are
@@ -88,6 +91,9 @@ func Fisher(k1, n1, k2, n2 int64, opt FisherOptions) (Result, error) {
 	}
 	if err := checkAlt(fn, opt.Alternative); err != nil {
 		return Result{}, err
+	}
+	if _, err := binom.NewHyper(n1+n2, n1, k1+k2); err != nil {
+		return Result{}, argerr.TooLarge(fn, "n1 + n2", n1+n2, "makes the conditional distribution too wide for an exact sum ("+err.Error()+"); at this size use TwoSample (the asymptotic tests agree with Fisher's there)")
 	}
 	name := opt.Method.String()
 	if opt.MidP {
