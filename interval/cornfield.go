@@ -27,8 +27,8 @@ func conditional(k1, n1, k2, n2 int64, psi float64) binom.NoncentralHyper {
 // Both tails are monotone in psi; the roots are found by Brent's method on
 // ln psi to 1e-15 relative. The estimate is the conditional MLE.
 func cornfield(iv *Interval, k1, n1, k2, n2 int64, lv level, midp bool) error {
-	if n1+n2 > binom.MaxN {
-		return argerr.TooLarge("interval.OddsRatio", "n1 + n2", n1+n2, "exceeds 2^53")
+	if err := checkConditional("interval.OddsRatio", k1, n1, k2, n2, "use OddsMiettinenNurminen, the score interval, which the exact conditional one approaches at these counts"); err != nil {
+		return err
 	}
 	lo, hi := conditional(k1, n1, k2, n2, 1).Support()
 	la := math.Log(lv.tail)
@@ -57,6 +57,35 @@ func cornfield(iv *Interval, k1, n1, k2, n2 int64, lv level, midp bool) error {
 		iv.Upper = logScaleRoot(func(psi float64) float64 { return la - le(psi) }, guess)
 	}
 	iv.Estimate = cmle(k1, n1, k2, n2, lo, hi, guess)
+	return nil
+}
+
+// MaxConditionalStdDev bounds the exact conditional computations
+// (OddsRatio with OddsCornfield or OddsCornfieldMidP, and OddsRatioCMLE):
+// the standard deviation of k1 given the margins, estimated from the
+// table as
+//
+//	sigma^2 ~ 1 / (1/(a+1/2) + 1/(b+1/2) + 1/(c+1/2) + 1/(d+1/2)),
+//
+// must not exceed 2048. Each evaluation of the conditional tails or mean
+// sums O(sigma) terms and the limits need about 100 evaluations, so the
+// bound keeps a call within about 10 ms. Beyond it (all four cells in the
+// millions) ErrTooLarge names the method that answers: the score interval
+// (OddsMiettinenNurminen), and for the estimate the sample odds ratio
+// ad/(bc), which the conditional ones approach at such counts.
+const MaxConditionalStdDev = 2048
+
+// checkConditional refuses tables beyond MaxConditionalStdDev (and
+// totals beyond 2^53) for function fn; instead says what answers there.
+func checkConditional(fn string, k1, n1, k2, n2 int64, instead string) error {
+	if n1+n2 > binom.MaxN {
+		return argerr.TooLarge(fn, "n1 + n2", n1+n2, "exceeds 2^53")
+	}
+	a, b, c, d := float64(k1)+0.5, float64(n1-k1)+0.5, float64(k2)+0.5, float64(n2-k2)+0.5
+	if v := 1 / (1/a + 1/b + 1/c + 1/d); v > MaxConditionalStdDev*MaxConditionalStdDev {
+		return argerr.TooLarge(fn, "n1 + n2", n1+n2, "with these cells gives the conditional distribution a standard deviation of "+
+			argerr.Format(float64(float32(math.Sqrt(v))))+", beyond MaxConditionalStdDev = 2048 (each evaluation would sum that many terms); "+instead)
+	}
 	return nil
 }
 
@@ -91,14 +120,15 @@ func cmle(k1, n1, k2, n2, lo, hi int64, guess float64) float64 {
 // conditional likelihood is flat and no estimate exists: ErrNoSolution. It is shrunk toward 1
 // relative to the sample odds ratio in small tables. Accuracy 1e-15
 // relative; cost O(standard deviation of k1) per evaluation, about 40
-// evaluations.
+// evaluations; ErrTooLarge beyond MaxConditionalStdDev, where the sample
+// odds ratio ad/(bc) answers.
 func OddsRatioCMLE(k1, n1, k2, n2 int64) (float64, error) {
 	const fn = "interval.OddsRatioCMLE"
 	if _, err := newTwoSample(fn, k1, n1, k2, n2); err != nil {
 		return math.NaN(), err
 	}
-	if n1+n2 > binom.MaxN {
-		return math.NaN(), argerr.TooLarge(fn, "n1 + n2", n1+n2, "exceeds 2^53")
+	if err := checkConditional(fn, k1, n1, k2, n2, "use the sample odds ratio ad/(bc), which the conditional estimate approaches at these counts"); err != nil {
+		return math.NaN(), err
 	}
 	lo, hi := conditional(k1, n1, k2, n2, 1).Support()
 	if lo == hi {

@@ -81,7 +81,9 @@ type OddsOptions struct {
 // small or large (a zero cell). One-sided bounds leave the other limit at
 // 0 or +Inf.
 //
-// Errors: as Difference.
+// Errors: as Difference; for the Cornfield intervals also ErrTooLarge
+// beyond MaxConditionalStdDev (all four cells in the millions), where the
+// error points to OddsMiettinenNurminen.
 func OddsRatio(k1, n1, k2, n2 int64, opt OddsOptions) (Interval, error) {
 	const fn = "interval.OddsRatio"
 	_, lv, err := setupTwoSample(fn, k1, n1, k2, n2, opt.Level, opt.Side, int(opt.Method), int(numOddsMethods))

@@ -129,12 +129,18 @@ func PairedDifference(n11, n12, n21, n22 int64, opt PairedOptions) (Interval, er
 // checkCells validates the four cells of a matched table and returns n.
 func checkCells(fn string, n11, n12, n21, n22 int64) (int64, error) {
 	for i, c := range [4]int64{n11, n12, n21, n22} {
-		if err := argerr.Count(fn, [4]string{"n11", "n12", "n21", "n22"}[i], c); err != nil {
+		name := [4]string{"n11", "n12", "n21", "n22"}[i]
+		if err := argerr.Count(fn, name, c); err != nil {
 			return 0, err
+		}
+		// Each cell is checked before the sum, so the sum cannot overflow
+		// and the message shows the caller's values.
+		if c > binom.MaxN {
+			return 0, argerr.TooLarge(fn, name, c, "exceeds 2^53 pairs")
 		}
 	}
 	n := n11 + n12 + n21 + n22
-	if n <= 0 || n > binom.MaxN { // n <= 0 also catches overflow
+	if n == 0 || n > binom.MaxN {
 		if n == 0 {
 			return 0, argerr.Invalid(fn, "n11 + n12 + n21 + n22", n, "is 0; the table needs at least one pair")
 		}

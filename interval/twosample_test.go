@@ -1,6 +1,7 @@
 package interval_test
 
 import (
+	"errors"
 	"math"
 	"testing"
 
@@ -180,5 +181,33 @@ func TestTwoSampleEdges(t *testing.T) {
 	}
 	if d.Upper != 1 || !(d.Lower > 0.6 && d.Lower < 1) {
 		t.Errorf("MN 10/10 - 0/10: %+v", d)
+	}
+}
+
+// TestConditionalBound checks that the exact conditional odds-ratio
+// computations refuse tables beyond MaxConditionalStdDev with interval.ErrTooLarge
+// (counts of 2^50 to 2^52 ran for minutes before the bound) and accept the
+// largest balanced table inside it.
+func TestConditionalBound(t *testing.T) {
+	t.Parallel()
+	for _, e := range []uint{50, 51, 52} {
+		n := int64(1) << e
+		for _, m := range []interval.OddsMethod{interval.OddsCornfield, interval.OddsCornfieldMidP} {
+			if _, err := interval.OddsRatio(n/2, n, n/4, n, interval.OddsOptions{Method: m}); !errors.Is(err, interval.ErrTooLarge) {
+				t.Errorf("OddsRatio(2^%d, %v) error = %v, want ErrTooLarge", e, m, err)
+			}
+		}
+		if _, err := interval.OddsRatioCMLE(n/2, n, n/4, n); !errors.Is(err, interval.ErrTooLarge) {
+			t.Errorf("OddsRatioCMLE(2^%d) error = %v, want ErrTooLarge", e, err)
+		}
+		// The score interval answers at that size.
+		if _, err := interval.OddsRatio(n/2, n, n/4, n, interval.OddsOptions{}); err != nil {
+			t.Errorf("interval.OddsRatio(2^%d, Miettinen-Nurminen): %v", e, err)
+		}
+	}
+	// Cells of 1.6e7 each: sigma just under 2048.
+	const c = 16_700_000
+	if iv, err := interval.OddsRatio(c, 2*c, c, 2*c, interval.OddsOptions{Method: interval.OddsCornfield}); err != nil || !(iv.Lower < 1 && iv.Upper > 1) {
+		t.Errorf("OddsRatio at the bound = %+v, %v; want an interval around 1", iv, err)
 	}
 }
