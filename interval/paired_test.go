@@ -1,8 +1,10 @@
 package interval_test
 
 import (
+	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/kofnlab/kofn/binom"
@@ -144,6 +146,22 @@ func TestCornfieldInversion(t *testing.T) {
 					t.Errorf("%v CMLE %v: conditional mean %v, want %d", c, iv.Estimate, mean, k)
 				}
 			}
+		}
+	}
+}
+
+// TestPairedOverflow checks that cells whose sum overflows int64 are
+// refused with ErrTooLarge naming the caller's cell, not a wrapped sum.
+func TestPairedOverflow(t *testing.T) {
+	t.Parallel()
+	for _, c := range [][4]int64{{math.MaxInt64, math.MaxInt64, 40, 2}, {1 << 62, 1 << 62, 1 << 62, 1 << 62}, {1 << 52, 1 << 52, 1 << 52, 1}} {
+		_, err := interval.PairedDifference(c[0], c[1], c[2], c[3], interval.PairedOptions{})
+		if !errors.Is(err, interval.ErrTooLarge) {
+			t.Errorf("PairedDifference(%v) error = %v, want ErrTooLarge", c, err)
+			continue
+		}
+		if strings.Contains(err.Error(), "= -") {
+			t.Errorf("PairedDifference(%v) error %q prints a negative (overflowed) value", c, err)
 		}
 	}
 }
