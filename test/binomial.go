@@ -178,9 +178,9 @@ func Binomial(k, n int64, p0 float64, opt BinomialOptions) (Result, error) {
 		var lo, hi float64
 		var gaps, ok bool
 		if m == ExactPoint && alt == TwoSided {
-			lo, hi, gaps, ok = sterne(k, n, math.Log(1-lvl))
+			lo, hi, gaps, ok = sterne(k, n, math.Log1p(-lvl))
 		} else {
-			lo, hi, gaps, ok = invert(lp, math.Log(1-lvl), r.Estimate, alt, scan)
+			lo, hi, gaps, ok = invert(lp, math.Log1p(-lvl), r.Estimate, alt, scan)
 		}
 		if !ok {
 			r.Warnings = append(r.Warnings, "no null value is accepted at this level: the interval is empty")

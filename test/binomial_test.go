@@ -222,3 +222,38 @@ func BenchmarkBinomialPointWithInterval1e6(b *testing.B) {
 		_, _ = Binomial(100500, 1000000, 0.1, BinomialOptions{})
 	}
 }
+
+// TestBinomialLowLevelBounds checks the one-sided bounds at levels below
+// 1/2, where the bound lies beyond the estimate (it was NaN): each bound is
+// finite, on the far side of k/n, and inverts its test (the p-value at the
+// bound equals 1 - Level, to the bisection's 1e-12; checked in log space).
+func TestBinomialLowLevelBounds(t *testing.T) {
+	t.Parallel()
+	const k, n = 40, 1000
+	for _, c := range []struct {
+		m     BinomialMethod
+		alt   Alternative
+		level float64
+	}{
+		{ExactCentral, Less, 1e-300}, {ExactCentral, Greater, 1e-300}, {ExactPoint, Less, 1e-300},
+		{ExactCentral, Less, 0.3}, {ExactCentralMidP, Greater, 0.5}, {ExactCentralMidP, Less, 0.2}, {Score, Less, 0.1},
+	} {
+		r, err := Binomial(k, n, 0.01, BinomialOptions{Method: c.m, Alternative: c.alt, Level: c.level})
+		if err != nil {
+			t.Fatalf("%v %v %g: %v", c.m, c.alt, c.level, err)
+		}
+		iv := r.Interval
+		b := iv.Upper
+		if c.alt == Greater {
+			b = iv.Lower
+		}
+		if math.IsNaN(b) || (c.alt == Less && !(b < 0.04)) || (c.alt == Greater && !(b > 0.04)) {
+			t.Errorf("%v %v %g: interval [%g, %g], want a finite bound beyond k/n = 0.04", c.m, c.alt, c.level, iv.Lower, iv.Upper)
+			continue
+		}
+		lp := binomialLogP(c.m, k, n, b, c.alt)
+		if want := math.Log1p(-c.level); math.Abs(lp-want) > 1e-9*math.Max(1e-300, math.Abs(want)) && math.Abs(lp-want) > 1e-9 {
+			t.Errorf("%v %v %g: log p-value at the bound %g = %g, want %g", c.m, c.alt, c.level, b, lp, want)
+		}
+	}
+}

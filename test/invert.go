@@ -28,21 +28,52 @@ const invertGrid = 100
 // accepted (possible only for mid-p tests at large alpha).
 func invert(lp func(float64) float64, la, phat float64, alt Alternative, scan bool) (lo, hi float64, gaps, ok bool) {
 	acc := func(p float64) bool { return lp(p) >= la }
+	if alt != TwoSided {
+		return invertOneSided(acc, phat, alt)
+	}
 	if !acc(phat) {
 		scan = true
 	}
 	lo, hi, ok = 0, 1, true
 	var g1, g2 bool
-	if alt != Less && !acc(0) {
+	if !acc(0) {
 		lo, g1, ok = end(acc, 0, phat, scan)
 	}
-	if ok && alt != Greater && !acc(1) {
+	if ok && !acc(1) {
 		hi, g2, ok = end(acc, 1, phat, scan)
 	}
 	if !ok {
 		return math.NaN(), math.NaN(), false, false
 	}
 	return lo, hi, g1 || g2, true
+}
+
+// invertOneSided is invert for a one-sided alternative, whose p-value is
+// monotone in the null value over all of [0, 1]: increasing for Greater
+// (the lower bound), decreasing for Less (the upper bound). The bound is
+// found by bisection between the rejected end and an accepted point: the
+// estimate when it is accepted, otherwise the opposite end (at a level
+// below 1/2 the bound lies beyond the estimate); ok is false when not even
+// that end is accepted (a mid-p test at a level below 1/2 with k at the
+// end of its range).
+func invertOneSided(acc func(float64) bool, phat float64, alt Alternative) (lo, hi float64, gaps, ok bool) {
+	out, in := 1.0, 0.0 // Less: the upper bound, between accepted 0 and rejected 1
+	if alt == Greater {
+		out, in = 0, 1
+	}
+	if acc(out) {
+		return 0, 1, false, true
+	}
+	if acc(phat) {
+		in = phat
+	} else if !acc(in) {
+		return math.NaN(), math.NaN(), false, false
+	}
+	b, _, _ := end(acc, out, in, false)
+	if alt == Greater {
+		return b, 1, false, true
+	}
+	return 0, b, false, true
 }
 
 // end returns the end of the accepted set between the rejected outer point
