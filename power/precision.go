@@ -68,9 +68,16 @@ func PrecisionN(ctx context.Context, p, eps float64, o PrecisionOptions) (ExactS
 	}
 	r.Test = "exact P(|k/n - p| <= eps)"
 	if n, err := MarginOfErrorN(p, eps, target); err == nil {
-		r.Normal = NormalSize{Method: "margin of error z^2 p (1-p) / eps^2 (common practice)", N: n, Real: float64(n), Uncorrected: float64(n), Power: math.NaN()}
+		r.Normal = NormalSize{Method: "margin of error z^2 p (1-p) / eps^2 (common practice)", N: n, Real: float64(n), Uncorrected: float64(n), Power: normalWithin(n, p, eps)}
 	}
 	return r, nil
+}
+
+// normalWithin is the normal approximation to P(|k/n - p| <= eps) at n
+// trials, 2 Phi(eps sqrt(n / (p (1-p)))) - 1 = erf(eps sqrt(n / (2 p (1-p)))),
+// the probability the margin-of-error formula plans for.
+func normalWithin(n int64, p, eps float64) float64 {
+	return math.Erf(eps * math.Sqrt(float64(n)/(2*p*(1-p))))
 }
 
 // WorstPrecision is the smallest probability, over all true proportions,
@@ -202,7 +209,7 @@ func WorstPrecisionN(ctx context.Context, eps float64, o PrecisionOptions) (Exac
 		return ExactSize{}, err
 	}
 	res.Test = "exact worst-case P(|k/n - p| <= eps)"
-	res.Normal = NormalSize{Method: "margin of error at p = 1/2 (common practice)", N: n0, Real: float64(n0), Uncorrected: float64(n0), Power: math.NaN()}
+	res.Normal = NormalSize{Method: "margin of error at p = 1/2 (common practice)", N: n0, Real: float64(n0), Uncorrected: float64(n0), Power: normalWithin(n0, 0.5, eps)}
 	return res, nil
 }
 
