@@ -239,7 +239,9 @@ func checkGroups(fn string, n1, n2 int64) error {
 // with that margin (test.DifferenceMargin, one-sided at Alpha, or
 // test.DifferenceEquivalence, two one-sided tests), o.Test being ignored,
 // and Size is the rejection probability on the null boundary p1 = p2 - m
-// (and p2 + m for equivalence) with p2 as planned.
+// (and p2 + m for equivalence) with p2 as planned, or at the boundary's
+// nearest point inside [0, 1]^2 when that one leaves it (p2 < m: p1 = 0,
+// p2 = m).
 // Limits: (n1+1)(n2+1) <= MaxTables. Cost:
 // Fisher and z about 2 ms at 200 x 200; Barnard about 20 p-values of
 // test.Barnard (tens of ms at 200 x 200). ctx is checked while the region
@@ -382,21 +384,25 @@ func marginRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, h
 
 // marginSize returns the largest rejection probability of a margin
 // region on the boundary of H0 with p2 held at its planned value: p1 = p2
-// - m for non-inferiority, p1 = p2 - m and p2 + m for equivalence (those
-// inside [0, 1]); NaN when none is.
+// - m for non-inferiority, p1 = p2 - m and p2 + m for equivalence. A
+// boundary point that would leave [0, 1] (p2 - m < 0, p2 + m > 1) is
+// replaced by the boundary's nearest point inside the unit square, (0, m)
+// or (1, 1 - m), so the size is always defined.
 func marginSize(reg *twoRegion, p2 float64, hyp Hypothesis, m float64) float64 {
-	size := math.NaN()
-	cands := []float64{p2 - m}
-	if hyp == Equivalence {
-		cands = append(cands, p2+m)
-	}
-	for _, p1 := range cands {
-		if p1 >= 0 && p1 <= 1 {
-			v := reg.prob(p1, p2)
-			if math.IsNaN(size) || v > size {
-				size = v
-			}
+	lower := func() (float64, float64) { // p1 = p2 - m
+		if p2-m < 0 {
+			return 0, m
 		}
+		return p2 - m, p2
+	}
+	a1, a2 := lower()
+	size := reg.prob(a1, a2)
+	if hyp == Equivalence {
+		b1, b2 := p2+m, p2 // p1 = p2 + m
+		if b1 > 1 {
+			b1, b2 = 1, 1-m
+		}
+		size = math.Max(size, reg.prob(b1, b2))
 	}
 	return size
 }

@@ -235,3 +235,20 @@ func TestMarginRegionsMatchTests(t *testing.T) {
 		t.Errorf("exact NI power %v (size %v) at the normal n %d", ep.Power, ep.Size, ns.N)
 	}
 }
+
+// TestMarginSizeOffSquare checks the attained size when the planned p2 is
+// below the margin, so the null boundary point p1 = p2 - m leaves [0, 1]:
+// it is taken at the boundary's nearest point (0, m), a probability (it
+// was NaN).
+func TestMarginSizeOffSquare(t *testing.T) {
+	t.Parallel()
+	for _, h := range []Hypothesis{NonInferiority, Equivalence} {
+		r, err := TwoSampleN(context.Background(), 0.025, 0.005, TwoSampleOptions{Hypothesis: h, Margin: 0.05, MaxN: 400})
+		if err != nil {
+			t.Fatalf("%v: %v", h, err)
+		}
+		if !(r.Size >= 0 && r.Size <= 1) {
+			t.Errorf("%v: Size = %g, want a probability", h, r.Size)
+		}
+	}
+}
