@@ -79,6 +79,6 @@ func BenchmarkCoverageCurveN1e4(b *testing.B) {
 
 func BenchmarkCoverageN1e4(b *testing.B) {
 	for b.Loop() {
-		_, _ = interval.Coverage(10000, 0.3, interval.Options{})
+		_, _ = interval.Coverage(context.Background(), 10000, 0.3, interval.Options{})
 	}
 }

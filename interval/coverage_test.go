@@ -20,7 +20,7 @@ func TestBrownCaiDasGuptaWald(t *testing.T) {
 		n    int64
 		want float64
 	}{{0.2, 30, 0.946}, {0.005, 591, 0.945}, {0.005, 592, 0.792}} {
-		got, err := interval.Coverage(c.n, c.p, interval.Options{Method: interval.Wald})
+		got, err := interval.Coverage(context.Background(), c.n, c.p, interval.Options{Method: interval.Wald})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -73,7 +73,7 @@ func TestCoverageCurveMatchesPoints(t *testing.T) {
 			t.Fatal(err)
 		}
 		for i, p := range ps {
-			pt, err := interval.Coverage(40, p, interval.Options{Method: m})
+			pt, err := interval.Coverage(context.Background(), 40, p, interval.Options{Method: m})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -97,13 +97,13 @@ func TestCoverageCurveMatchesPoints(t *testing.T) {
 func TestCoverageErrors(t *testing.T) {
 	t.Parallel()
 	ctx := context.Background()
-	if _, err := interval.Coverage(0, 0.5, interval.Options{}); err == nil || err.Error() != "interval.Coverage: n = 0 must be at least 1" {
+	if _, err := interval.Coverage(context.Background(), 0, 0.5, interval.Options{}); err == nil || err.Error() != "interval.Coverage: n = 0 must be at least 1" {
 		t.Errorf("n = 0: %v", err)
 	}
-	if _, err := interval.Coverage(10, 1.5, interval.Options{}); err == nil || err.Error() != "interval.Coverage: p = 1.5 is not a probability in [0, 1]" {
+	if _, err := interval.Coverage(context.Background(), 10, 1.5, interval.Options{}); err == nil || err.Error() != "interval.Coverage: p = 1.5 is not a probability in [0, 1]" {
 		t.Errorf("p = 1.5: %v", err)
 	}
-	if _, err := interval.Coverage(interval.MaxCoverageN+1, 0.5, interval.Options{}); !errors.Is(err, interval.ErrTooLarge) {
+	if _, err := interval.Coverage(context.Background(), interval.MaxCoverageN+1, 0.5, interval.Options{}); !errors.Is(err, interval.ErrTooLarge) {
 		t.Errorf("n too large: %v", err)
 	}
 	if _, _, err := interval.CoverageCurve(ctx, 10, []float64{0.2, -1}, interval.Options{}); err == nil || err.Error() != "interval.CoverageCurve: ps[1] = -1 is not a probability in [0, 1]" {

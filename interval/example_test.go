@@ -96,7 +96,7 @@ func ExampleDiscordantRatio() {
 func ExampleCoverage() {
 	// Brown, Cai and DasGupta (2001): the Wald interval at p = 0.005.
 	for _, n := range []int64{591, 592} {
-		c, _ := interval.Coverage(n, 0.005, interval.Options{Method: interval.Wald})
+		c, _ := interval.Coverage(context.Background(), n, 0.005, interval.Options{Method: interval.Wald})
 		fmt.Printf("n = %d: coverage %.3f\n", n, c.Coverage)
 	}
 	// Output:

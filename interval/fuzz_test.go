@@ -1,6 +1,7 @@
 package interval_test
 
 import (
+	"context"
 	"errors"
 	"math"
 	"strings"
@@ -75,7 +76,7 @@ func FuzzCoverage(f *testing.F) {
 		if n > 2000 || method == int(interval.Blaker) && n > 100 {
 			return
 		}
-		perf, err := interval.Coverage(n, p, interval.Options{Level: level, Method: interval.Method(method)})
+		perf, err := interval.Coverage(context.Background(), n, p, interval.Options{Level: level, Method: interval.Method(method)})
 		if err != nil {
 			var e *interval.Error
 			if !errors.As(err, &e) {

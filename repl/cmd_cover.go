@@ -93,7 +93,7 @@ func runCover(c *call) error {
 		}
 		b := c.Block("exact coverage at n = " + count(lo) + ", p = " + in(p) + ", " + pct(level) + " " + side.String())
 		for _, w := range words {
-			pf, err := interval.Coverage(lo, p, interval.Options{Level: level, Side: side, Method: enumValue[interval.Method](boundsMethods, w)})
+			pf, err := interval.Coverage(c.Ctx, lo, p, interval.Options{Level: level, Side: side, Method: enumValue[interval.Method](boundsMethods, w)})
 			if err != nil {
 				return err
 			}
