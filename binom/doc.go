@@ -21,6 +21,11 @@
 // is psi, behind the exact conditional interval for an odds ratio and its
 // conditional maximum-likelihood estimate (NoncentralHyper.Mean).
 //
+// A beta-binomial X (BetaBinom, built by NewBetaBinom) counts the successes
+// in N trials whose success probability is drawn from a Beta(A, B): the
+// predictive distribution of future successes under a Beta prior or
+// posterior, which the Bayesian summaries of interval, test and power use.
+//
 // Methods and sources:
 //   - binomial PMF by the saddle-point form of Loader C (2000), "Fast and
 //     accurate computation of binomial probabilities", with its deviance
@@ -37,6 +42,11 @@
 //     terms that matter (a few thousand at totals of 1e6, a handful deep in
 //     a tail); the noncentral distribution is normalised the same way, with
 //     its log weights from two binomial terms centred on its mode;
+//   - beta-binomial PMF as an exact product of three real-argument
+//     binomial densities in Loader's form (no lgamma differences); tails as
+//     direct sums of the smaller side by the ratio recurrence, re-anchored
+//     every 64 terms and stopped by a geometric bound where the PMF is
+//     log-concave;
 //   - entropy (nats) by summation for small variance and, for the
 //     binomial from variance 1000 on, a four-term asymptotic expansion
 //     derived from the Edgeworth expansion (see Dist.Entropy);
