@@ -8,8 +8,13 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime"
+	"slices"
 	"strconv"
 	"strings"
+	"sync"
+	"sync/atomic"
+	"time"
 )
 
 // rowSpec describes how the batch command applies a verb to one CSV row:
@@ -34,15 +39,22 @@ func eachCommand() *command {
 		Options: []opt{{Name: "to", Doc: "write the CSV to this file instead of the screen"}},
 		Help: helpText{
 			Computes: "Reads a CSV file (or standard input for -) with one set of counts per row, applies VERB " +
-				"with the given options to each row, and streams CSV out: the input columns, then the result " +
-				"columns, then an error column that is empty when the row worked. The first row is a header if " +
-				"it is not all numbers; the count columns are then found by name (k,n for one group; k1,n1,k2,n2 " +
-				"for two; a,b,c,d for pairs), and other columns pass through; without a header the counts are " +
-				"the first columns. A row that fails does not stop the run, but the command reports failure. " +
-				"The output is CSV whatever the json setting; numbers are written in full precision. " +
-				"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
-				"input: kofn -c 'each - check p=0.3' < visits.csv.",
-			Methods:     "", // filled by newTable with the row verbs
+			"with the given options to each row, and streams CSV out: the input columns, the result columns " +
+			"in full precision, the method, level and side the row was computed with, and an error column. " +
+			"The first row is the header when it names every count column the verb reads (k,n for one group; " +
+			"k1,n1,k2,n2 for two; a,b,c,d for pairs; found by name, other columns pass through), or when none " +
+			"of its fields is a number (then missing count columns are reported once, before any row). " +
+			"Otherwise the first row is data and the counts are the first columns. Every input row gives one " +
+			"output row with the header's column count; a row that cannot be used (too few or too many " +
+			"fields, a bad count, a bare quote, a record over 1 MiB) has its input line number and the reason " +
+			"in the error column and counts as failed, and the run goes on. Rows run on all cores, written in " +
+			"input order. On a terminal, progress (rows, rate, time left) goes to standard error once a second; " +
+			"Ctrl-C stops the run, keeps the rows done and says how many were not run. " +
+			"A last line on standard error gives the rows done and failed and which header rule applied; the " +
+			"command fails if any row did. Undefined estimates (an empty group) are written NaN. " +
+			"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
+			"input: kofn -c 'each - check p=0.3' < visits.csv.",
+		Methods:     "", // filled by newTable with the row verbs
 			Assumptions: "Each row is a separate analysis: no correction for testing many rows is applied.",
 			Examples:    []string{"each - check p=0.3", "each - flips method=exact"},
 			Sources:     "RFC 4180 (CSV).",
@@ -86,6 +98,12 @@ func runEach(c *call) error {
 	if err := args.Check(); err != nil {
 		return err
 	}
+	job := batchJob{spec: verb.Row, fn: fn, workers: runtime.GOMAXPROCS(0), source: file}
+	job.metaNames, job.meta, err = rowMeta(vc, verb)
+	if err != nil {
+		return err
+	}
+	job.errText = func(err error) string { return shellError(c.S.cmds, verbWord, err) }
 	var in io.Reader
 	if file == "-" {
 		if c.S.interactive {
@@ -101,6 +119,11 @@ func runEach(c *call) error {
 			return inputErr(file, "cannot be read: "+errors.Unwrap(err).Error())
 		}
 		defer f.Close()
+		if fi, err := f.Stat(); err == nil && fi.Mode().IsRegular() {
+			job.size = fi.Size()
+		} else if err == nil && fi.IsDir() {
+			return inputErr(file, "is a directory; give a CSV file")
+		}
 		in = f
 	}
 	out := c.S.Out
@@ -112,139 +135,470 @@ func runEach(c *call) error {
 		defer f.Close()
 		out = f
 	}
-	rows, failed, err := batch(c.Ctx, in, out, verb.Row, fn)
+	job.escape = isTerminal(out)
+	if isTerminal(c.S.Err) {
+		job.progress = c.S.Err
+	}
+	st, err := runBatch(c.Ctx, in, out, job)
 	if err != nil {
 		return err
 	}
 	if to != "" {
 		b := c.Block("each: " + verbWord + " on " + file)
-		b.Row("rows", strconv.Itoa(rows))
-		b.Row("failed", strconv.Itoa(failed))
+		b.Row("rows", strconv.Itoa(st.rows))
+		b.Row("failed", strconv.Itoa(st.failed))
+		b.Row("header", st.header)
 		b.Row("written to", to)
 	}
-	if failed > 0 {
-		return &InputError{Token: file, Reason: fmt.Sprintf("had %d failed rows of %d; see the error column", failed, rows)}
+	switch {
+	case st.stopped:
+		return &InputError{Token: file, Reason: st.stopLine()}
+	case st.failed > 0:
+		return &InputError{Token: file, Reason: fmt.Sprintf("had %d failed rows of %d (see the error column); %s", st.failed, st.rows, st.header)}
+	}
+	if to == "" {
+		fmt.Fprintf(c.S.Err, "each: %d rows done, none failed; %s\n", st.rows, safeText(st.header, false))
 	}
 	return nil
 }
 
-// batch streams the CSV from in to out, applying fn to each row's counts.
-// It returns the number of data rows and of failed rows; err reports a
-// CSV syntax error, a write error or cancellation.
-func batch(ctx context.Context, in io.Reader, out io.Writer, spec *rowSpec, fn rowFunc) (rows, failed int, err error) {
-	r := csv.NewReader(bufio.NewReaderSize(in, 1<<16))
-	r.ReuseRecord = true
-	r.FieldsPerRecord = -1
-	bw := bufio.NewWriterSize(out, 1<<16)
-	defer bw.Flush()
+// rowMeta returns the columns that say what each row computed: the
+// method, the level and the side (or bound), for the verbs that have them,
+// as the session would run them.
+func rowMeta(c *call, verb *command) (names, values []string, err error) {
+	if len(verb.Methods) > 0 {
+		m, err := c.Method()
+		if err != nil {
+			return nil, nil, err
+		}
+		names, values = append(names, "method"), append(values, m)
+	}
+	if verb.option("level") != nil && slices.Contains(verb.Row.Out, "lower") {
+		l, err := c.Level()
+		if err != nil {
+			return nil, nil, err
+		}
+		names, values = append(names, "level"), append(values, strconv.FormatFloat(l, 'g', -1, 64))
+	}
+	for _, side := range []string{"alt", "side", "bound"} {
+		if o := verb.option(side); o != nil && len(o.Values) > 0 {
+			v := strings.ToLower(c.Args.Str(side, o.Values[0]))
+			names, values = append(names, side), append(values, v)
+			break
+		}
+	}
+	return names, values, nil
+}
+
+// batchJob is one run of each: the verb's row form and how to run it.
+type batchJob struct {
+	spec      *rowSpec
+	fn        rowFunc
+	metaNames []string // method, level, side columns
+	meta      []string
+	errText   func(error) string // an error as the shell words it
+	workers   int
+	escape    bool      // escape control characters (the output is a terminal)
+	progress  io.Writer // a terminal for progress lines, or nil
+	size      int64     // input bytes when known, for the time left
+	source    string
+}
+
+// batchStats says what a run did.
+type batchStats struct {
+	rows, failed int // data rows written, and those with an error
+	notRun       int // rows read but not computed because the run stopped
+	unread       int // rows after the stop that were counted but not read (-1: unknown)
+	stopped      bool
+	header       string // which rule decided the first row, in words
+}
+
+func (st batchStats) stopLine() string {
+	rest := strconv.Itoa(st.notRun+max(st.unread, 0)) + " not run"
+	if st.unread < 0 {
+		rest = strconv.Itoa(st.notRun) + " not run and the rest of the input not read"
+	}
+	return fmt.Sprintf("stopped (interrupted): %d rows done (%d of them failed), %s; the rows done are written", st.rows, st.failed, rest)
+}
+
+// rowChunk is a run of consecutive records computed by one worker.
+type rowChunk struct {
+	recs []record
+	out  [][]string // output rows; nil for a row not run
+	done chan struct{}
+}
+
+// maxChunkRows bounds the records per chunk. A chunk holds enough rows to
+// take about chunkTime to compute, judged from the rows done so far, so
+// the hand-over between goroutines stays cheap beside rows of a
+// microsecond while slow rows (an unconditional test) are spread one by
+// one over the workers.
+const (
+	maxChunkRows = 64
+	chunkTime    = 50 * time.Microsecond
+)
+
+// chunkSize returns the rows for the next chunk from the rows computed so
+// far and the time they took.
+func chunkSize(rows, nanos int64) int {
+	if rows == 0 || nanos <= 0 {
+		return 1
+	}
+	perRow := nanos / rows
+	if perRow <= 0 {
+		return maxChunkRows
+	}
+	return int(max(1, min(maxChunkRows, int64(chunkTime)/perRow)))
+}
+
+// runBatch streams the CSV from in to out, applying the job's function to
+// every data row on a pool of workers, with the output in input order and
+// a bounded number of rows in flight.
+//
+// The first row is the header when it names every count column the verb
+// reads (columns are then found by name, others pass through), or when
+// none of its fields is a number (then the missing count columns are an
+// error before any row is computed). Otherwise it is data, the counts are
+// the first columns, and a header of the kofn column names is written.
+// No row is dropped: every record gives one output row with the header's
+// column count, and a record that cannot be used carries its line number
+// and the reason in the error column.
+func runBatch(ctx context.Context, in io.Reader, out io.Writer, job batchJob) (st batchStats, err error) {
+	rd := newCSVReader(in)
+	first, rerr := rd.next()
+	if rerr == io.EOF {
+		return st, &InputError{Token: job.source, Reason: "is empty: no header and no rows"}
+	}
+	if rerr != nil {
+		return st, readError(job.source, rd, rerr)
+	}
+	idx, header, isHeader, herr := decideHeader(first, job.spec.In)
+	if herr != nil {
+		return st, inputErr(job.source, herr.Error())
+	}
+	width := len(header)
+	if isHeader {
+		st.header = "first row taken as the header: it names " + strings.Join(job.spec.In, ", ")
+	} else {
+		st.header = "no header: the first row is data, and the counts are the first " + strconv.Itoa(len(job.spec.In)) + " columns"
+	}
+
+	bw := bufio.NewWriterSize(out, 64<<10)
 	w := csv.NewWriter(bw)
-	idx := make([]int, len(spec.In))
+	hdr := append(append(append(escapeCells(header, job.escape), job.spec.Out...), job.metaNames...), "error")
+	if err := w.Write(hdr); err != nil {
+		return st, err
+	}
+
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	workers := max(1, job.workers)
+	jobs := make(chan *rowChunk, 2*workers)
+	order := make(chan *rowChunk, 2*workers)
+	var wg sync.WaitGroup
+	var doneRows, doneNanos atomic.Int64
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			counts := make([]int64, len(job.spec.In))
+			for ch := range jobs {
+				start := time.Now()
+				for i, rec := range ch.recs {
+					ch.out[i] = job.row(ctx, rec, idx, width, counts)
+				}
+				doneNanos.Add(int64(time.Since(start)))
+				doneRows.Add(int64(len(ch.recs)))
+				close(ch.done)
+			}
+		}()
+	}
+	var readErr error
+	leftover := 0 // rows read but never handed to a worker (set by the reader)
+	var readRows atomic.Int64
+	go func() {
+		defer close(order)
+		defer close(jobs)
+		size := 1
+		pending := []record{}
+		if !isHeader {
+			pending = append(pending, first)
+		}
+		flush := func() {
+			ch := &rowChunk{recs: pending, out: make([][]string, len(pending)), done: make(chan struct{})}
+			order <- ch
+			jobs <- ch
+			pending = make([]record, 0, size)
+		}
+		for ctx.Err() == nil {
+			if len(pending) >= size {
+				flush()
+				size = chunkSize(doneRows.Load(), doneNanos.Load())
+			}
+			rec, err := rd.next()
+			if err != nil {
+				if err != io.EOF {
+					readErr = err
+				}
+				break
+			}
+			readRows.Add(1)
+			pending = append(pending, rec)
+		}
+		if len(pending) > 0 && ctx.Err() == nil {
+			flush()
+		} else {
+			leftover = len(pending)
+		}
+	}()
+
+	stopProgress := job.startProgress(&st, rd, &readRows)
+	var werr error
+	for ch := range order {
+		<-ch.done
+		for _, row := range ch.out {
+			if row == nil {
+				st.notRun++
+				continue
+			}
+			if werr != nil {
+				continue
+			}
+			st.rows++
+			if row[len(row)-1] != "" {
+				st.failed++
+			}
+			if werr = w.Write(row); werr != nil {
+				cancel()
+			}
+		}
+	}
+	wg.Wait()
+	stopProgress()
+	st.notRun += leftover
+	w.Flush()
+	if werr == nil {
+		werr = w.Error()
+	}
+	if ferr := bw.Flush(); werr == nil {
+		werr = ferr
+	}
+	if werr != nil {
+		return st, werr
+	}
+	if readErr != nil {
+		return st, readError(job.source, rd, readErr)
+	}
+	if st.notRun > 0 || ctx.Err() != nil {
+		st.stopped = true
+		st.unread = -1
+		if job.size > 0 {
+			st.unread = countRest(rd)
+		}
+	}
+	return st, nil
+}
+
+// readError reports why the input could not be read on; the rows before
+// are written.
+func readError(source string, rd *csvReader, err error) error {
+	where := "line " + strconv.Itoa(rd.lineNo+1)
+	switch err {
+	case errNUL:
+		return inputErr(source, "holds "+err.Error()+" (on "+where+"); reading stopped there, the rows before are written")
+	case errHugeLine:
+		return inputErr(source, "has "+err.Error()+" (on "+where+", over 64 MiB); reading stopped there, the rows before are written")
+	}
+	return inputErr(source, "could not be read after line "+strconv.Itoa(rd.lineNo)+": "+err.Error())
+}
+
+// countRest counts the records left in a regular file after a stop,
+// without computing them.
+func countRest(rd *csvReader) int {
+	n := 0
+	for {
+		if _, err := rd.next(); err != nil {
+			return n
+		}
+		n++
+	}
+}
+
+// decideHeader applies the header rule of runBatch to the first record.
+// It returns the positions of the count columns, the output's input
+// header, and whether the first record is a header.
+func decideHeader(first record, want []string) (idx []int, header []string, isHeader bool, err error) {
+	idx = make([]int, len(want))
+	if first.err == nil {
+		found := 0
+		for i, name := range want {
+			idx[i] = -1
+			for j, f := range first.fields {
+				if strings.EqualFold(strings.TrimSpace(f), name) {
+					idx[i] = j
+					found++
+					break
+				}
+			}
+		}
+		if found == len(want) {
+			return idx, first.fields, true, nil
+		}
+		numbers := 0
+		for _, f := range first.fields {
+			if decimalRE.MatchString(strings.TrimSpace(f)) {
+				numbers++
+			}
+		}
+		if numbers == 0 {
+			var missing []string
+			for i, name := range want {
+				if idx[i] < 0 {
+					missing = append(missing, name)
+				}
+			}
+			return nil, nil, false, errors.New("has the header " + shortToken(strings.Join(first.fields, ",")) +
+				", which lacks the column" + plural(len(missing)) + " " + strings.Join(missing, ", ") +
+				" (the verb reads " + strings.Join(want, ", ") + "); name the columns so, or drop the header to read the first columns")
+		}
+	}
 	for i := range idx {
 		idx[i] = i
 	}
-	counts := make([]int64, len(spec.In))
-	var outRec []string
-	var buf []byte
-	line := 0
-	for {
-		rec, rerr := r.Read()
-		if rerr == io.EOF {
-			break
-		}
-		line++
-		if rerr != nil {
-			return rows, failed, inputErr("line "+strconv.Itoa(line), "is not valid CSV: "+rerr.Error())
-		}
-		if line == 1 {
-			if header, ok := headerIndex(rec, spec.In); ok {
-				idx = header
-				outRec = append(append(outRec[:0], rec...), spec.Out...)
-				w.Write(append(outRec, "error"))
-				continue
+	header = append([]string(nil), want...)
+	n := len(want)
+	if first.err == nil {
+		n = max(n, len(first.fields))
+	}
+	for i := len(want); i < n; i++ {
+		header = append(header, "col"+strconv.Itoa(i+1))
+	}
+	return idx, header, false, nil
+}
+
+func plural(n int) string {
+	if n == 1 {
+		return ""
+	}
+	return "s"
+}
+
+// row computes the output row of one record: the input's columns (as
+// many as the header has), the results, the meta columns and the error.
+// It returns nil when the run was stopped before the row was computed.
+func (job batchJob) row(ctx context.Context, rec record, idx []int, width int, counts []int64) []string {
+	out := make([]string, width, width+len(job.spec.Out)+len(job.meta)+1)
+	copy(out, escapeCells(rec.fields[:min(len(rec.fields), width)], job.escape))
+	var res []float64
+	var problem string
+	switch {
+	case rec.err != nil:
+		problem = reasonLine(rec.err)
+	case len(rec.fields) != width:
+		problem = "has " + strconv.Itoa(len(rec.fields)) + " fields, the header " + strconv.Itoa(width)
+	default:
+		for i, j := range idx {
+			v, err := parseCount(strings.TrimSpace(rec.fields[j]))
+			if err != nil {
+				problem = "column " + job.spec.In[i] + ": " + reasonLine(err)
+				break
 			}
-			// No header: write one of our own.
-			hdr := append([]string(nil), spec.In...)
-			for i := len(spec.In); i < len(rec); i++ {
-				hdr = append(hdr, "col"+strconv.Itoa(i+1))
+			counts[i] = v
+		}
+		if problem == "" {
+			if ctx.Err() != nil {
+				return nil
 			}
-			w.Write(append(append(hdr, spec.Out...), "error"))
-		}
-		if rows%4096 == 0 && ctx.Err() != nil {
-			return rows, failed, ctx.Err()
-		}
-		rows++
-		outRec = append(outRec[:0], rec...)
-		rowErr := rowCounts(rec, idx, counts)
-		if rowErr == nil {
-			var res []float64
-			res, rowErr = fn(ctx, counts)
-			if rowErr == nil {
-				for _, v := range res {
-					buf = strconv.AppendFloat(buf[:0], v, 'g', -1, 64)
-					outRec = append(outRec, string(buf))
+			var err error
+			res, err = job.fn(ctx, counts)
+			if err != nil {
+				if ctx.Err() != nil {
+					return nil
 				}
-				outRec = append(outRec, "")
+				problem = job.errText(err)
 			}
 		}
-		if rowErr != nil {
-			failed++
-			for range spec.Out {
-				outRec = append(outRec, "")
-			}
-			outRec = append(outRec, strings.ReplaceAll(rowErr.Error(), "\n", " "))
-		}
-		if err := w.Write(outRec); err != nil {
-			return rows, failed, err
+	}
+	for i := range job.spec.Out {
+		if i < len(res) {
+			out = append(out, strconv.FormatFloat(res[i], 'g', -1, 64))
+		} else {
+			out = append(out, "")
 		}
 	}
-	w.Flush()
-	if err := w.Error(); err != nil {
-		return rows, failed, err
+	out = append(out, job.meta...)
+	if problem != "" {
+		problem = "line " + strconv.Itoa(rec.line) + ": " + safeText(shortenWords(problem), false)
 	}
-	return rows, failed, bw.Flush()
+	return append(out, problem)
 }
 
-// headerIndex reports whether rec is a header (some field is not a whole
-// number) and, if so, the positions of the wanted columns; a header that
-// lacks one of them is treated as a header with the counts first.
-func headerIndex(rec []string, want []string) ([]int, bool) {
-	numeric := true
-	for _, f := range rec {
-		if _, err := strconv.ParseInt(strings.TrimSpace(f), 10, 64); err != nil {
-			numeric = false
-		}
+// reasonLine is an input error as "token reason" on one line.
+func reasonLine(err error) string {
+	if ie, ok := err.(*InputError); ok {
+		return strconv.Quote(shortToken(ie.Token)) + " " + ie.Reason
 	}
-	if numeric {
-		return nil, false
-	}
-	idx := make([]int, len(want))
-	for i, name := range want {
-		idx[i] = -1
-		for j, f := range rec {
-			if strings.EqualFold(strings.TrimSpace(f), name) {
-				idx[i] = j
-			}
-		}
-		if idx[i] < 0 {
-			idx[i] = i
-		}
-	}
-	return idx, true
+	return err.Error()
 }
 
-// rowCounts reads the count columns of one row.
-func rowCounts(rec []string, idx []int, counts []int64) error {
-	for i, j := range idx {
-		if j >= len(rec) {
-			return errors.New("missing column " + strconv.Itoa(j+1))
-		}
-		v, err := parseCount(strings.TrimSpace(rec[j]))
-		if err != nil {
-			return err
-		}
-		counts[i] = v
+// shortenWords shortens every over-long word of msg.
+func shortenWords(msg string) string {
+	words := strings.Fields(msg)
+	for i, w := range words {
+		words[i] = shortToken(w)
 	}
-	return nil
+	return strings.Join(words, " ")
+}
+
+// escapeCells escapes control characters in pass-through cells when the
+// output goes to a terminal (a file or pipe gets the cells unchanged).
+func escapeCells(cells []string, escape bool) []string {
+	if !escape {
+		return cells
+	}
+	out := make([]string, len(cells))
+	for i, c := range cells {
+		out[i] = safeText(c, false)
+	}
+	return out
+}
+
+// startProgress writes a progress line to the job's terminal once a
+// second (rows done, rate, time left when the input size is known) and
+// returns the function that stops it and clears the line.
+func (job batchJob) startProgress(st *batchStats, rd *csvReader, readRows *atomic.Int64) func() {
+	if job.progress == nil {
+		return func() {}
+	}
+	stop := make(chan struct{})
+	done := make(chan struct{})
+	start := time.Now()
+	go func() {
+		defer close(done)
+		t := time.NewTicker(time.Second)
+		defer t.Stop()
+		shown := false
+		for {
+			select {
+			case <-stop:
+				if shown {
+					io.WriteString(job.progress, "\r\x1b[K")
+				}
+				return
+			case <-t.C:
+				n := readRows.Load()
+				el := time.Since(start).Seconds()
+				line := fmt.Sprintf("\reach: %d rows read, %.0f rows/s", n, float64(n)/el)
+				if b := rd.read.Load(); job.size > 0 && b > 0 && b < job.size {
+					left := el * float64(job.size-b) / float64(b)
+					line += ", about " + time.Duration(left*float64(time.Second)).Round(time.Second).String() + " left"
+				}
+				io.WriteString(job.progress, line+"\x1b[K")
+				shown = true
+			}
+		}
+	}()
+	return func() { close(stop); <-done }
 }
 
 // rowVerbList describes the row verbs of t and their count columns.

@@ -5,7 +5,9 @@ import (
 	"context"
 	"fmt"
 	"os"
+	"io"
 	"path/filepath"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -25,14 +27,14 @@ func TestEach(t *testing.T) {
 	}
 	want, _ := test.Binomial(17, 40, 0.3, test.BinomialOptions{Method: test.Score})
 	lines := strings.Split(strings.TrimSpace(out), "\n")
-	if len(lines) != 4 || lines[0] != "id,n,k,estimate,p_value,error" {
+	if len(lines) != 4 || lines[0] != "id,n,k,estimate,p_value,method,side,error" {
 		t.Fatalf("output:\n%s", out)
 	}
-	wantRow := fmt.Sprintf("A,40,17,%v,%v,", want.Estimate, want.PValue)
+	wantRow := fmt.Sprintf("A,40,17,%v,%v,score,two,", want.Estimate, want.PValue)
 	if lines[1] != wantRow {
 		t.Errorf("row A = %q, want %q", lines[1], wantRow)
 	}
-	if !strings.HasSuffix(lines[3], "test.Binomial: k = 41 exceeds n = 40") {
+	if !strings.HasSuffix(lines[3], ",line 4: k = 41 exceeds n = 40") {
 		t.Errorf("row C = %q, want the package error", lines[3])
 	}
 
@@ -46,7 +48,7 @@ func TestEach(t *testing.T) {
 	data, _ := os.ReadFile(to)
 	got := strings.Split(strings.TrimSpace(string(data)), "\n")
 	fisher, _ := test.Fisher(7, 15, 12, 15, test.FisherOptions{Alternative: test.Less})
-	if len(got) != 3 || got[0] != "k1,n1,k2,n2,difference,p_value,error" || !strings.HasPrefix(got[1], fmt.Sprintf("7,15,12,15,%v,%v,", fisher.Estimate, fisher.PValue)) {
+	if len(got) != 3 || got[0] != "k1,n1,k2,n2,difference,p_value,method,side,error" || got[1] != fmt.Sprintf("7,15,12,15,%v,%v,fisher,low,", fisher.Estimate, fisher.PValue) {
 		t.Errorf("versus rows:\n%s", data)
 	}
 	if !strings.Contains(sout.String(), "rows") {
@@ -67,8 +69,10 @@ func TestEach(t *testing.T) {
 	}
 }
 
-// benchRows builds a CSV of n rows of valid counts for the columns.
-func benchRows(cols []string, n int) []byte {
+// benchRows builds a CSV of n rows of valid counts for the columns: k
+// cycling over 0..96 and trials from lo to lo+spread-1 (invented counts of
+// realistic size).
+func benchRows(cols []string, n int, lo, spread int) []byte {
 	var b bytes.Buffer
 	b.WriteString(strings.Join(cols, ",") + "\n")
 	for i := 0; i < n; i++ {
@@ -76,44 +80,57 @@ func benchRows(cols []string, n int) []byte {
 			if j > 0 {
 				b.WriteByte(',')
 			}
-			fmt.Fprintf(&b, "%d,%d", (i+j)%97, 100+(i+j)%900)
+			trials := lo + (i*7+j*13)%spread
+			fmt.Fprintf(&b, "%d,%d", (i*31+j*17)%min(97, trials+1), trials)
 		}
 		b.WriteByte('\n')
 	}
 	return b.Bytes()
 }
 
-// benchmarkEach measures the batch path per row (ns/row metric).
-func benchmarkEach(b *testing.B, verb string, rows int) {
-	spec := tbl.byName[strings.Fields(verb)[0]].Row
-	data := benchRows(spec.In, rows)
-	args, err := parseArgs(tbl.byName[strings.Fields(verb)[0]], strings.Fields(verb)[1:])
-	if err != nil {
-		b.Fatal(err)
+// benchmarkEach measures each per row, on one worker and on every core
+// (the speed-up of the worker pool), and reports rows/s.
+func benchmarkEach(b *testing.B, verb string, rows, lo, spread int) {
+	for _, workers := range []int{1, runtime.GOMAXPROCS(0)} {
+		b.Run(fmt.Sprintf("workers=%d", workers), func(b *testing.B) {
+			cmd := tbl.byName[strings.Fields(verb)[0]]
+			data := benchRows(cmd.Row.In, rows, lo, spread)
+			args, err := parseArgs(cmd, strings.Fields(verb)[1:])
+			if err != nil {
+				b.Fatal(err)
+			}
+			s, _, _ := testSession()
+			fn, err := cmd.Row.prepare(&call{Ctx: context.Background(), S: s, Args: args})
+			if err != nil {
+				b.Fatal(err)
+			}
+			job := batchJob{spec: cmd.Row, fn: fn, workers: workers, errText: func(err error) string { return err.Error() }}
+			for b.Loop() {
+				if st, err := runBatch(context.Background(), bytes.NewReader(data), io.Discard, job); err != nil || st.failed > 0 {
+					b.Fatal(err, st.failed)
+				}
+			}
+			perRow := b.Elapsed().Seconds() / float64(b.N) / float64(rows)
+			b.ReportMetric(perRow*1e9, "ns/row")
+			b.ReportMetric(1/perRow, "rows/s")
+		})
 	}
-	s, _, _ := testSession()
-	fn, err := spec.prepare(&call{Ctx: context.Background(), S: s, Args: args})
-	if err != nil {
-		b.Fatal(err)
-	}
-	for b.Loop() {
-		if _, failed, err := batch(context.Background(), bytes.NewReader(data), discard{}, spec, fn); err != nil || failed > 0 {
-			b.Fatal(err, failed)
-		}
-	}
-	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(rows), "ns/row")
 }
 
-type discard struct{}
-
-func (discard) Write(p []byte) (int, error) { return len(p), nil }
-
-func BenchmarkEachCheckScore(b *testing.B)   { benchmarkEach(b, "check p=0.3 method=score", 10000) }
-func BenchmarkEachCheckCentral(b *testing.B) { benchmarkEach(b, "check p=0.3 method=central", 10000) }
-func BenchmarkEachFlips(b *testing.B)        { benchmarkEach(b, "flips", 10000) }
-
-func BenchmarkEachBoundsWilson(b *testing.B) { benchmarkEach(b, "bounds", 10000) }
+// Realistic sizes: one group of 100 to 1099 trials; two groups of 100 to
+// 1099 each for Fisher; Boschloo at 20 to 139 per group (its cost grows
+// with the table count).
+func BenchmarkEachBoundsWilson(b *testing.B) { benchmarkEach(b, "bounds", 10000, 100, 1000) }
 func BenchmarkEachBoundsClopperPearson(b *testing.B) {
-	benchmarkEach(b, "bounds method=clopper-pearson", 10000)
+	benchmarkEach(b, "bounds method=clopper-pearson", 10000, 100, 1000)
 }
-func BenchmarkEachGapNewcombe(b *testing.B) { benchmarkEach(b, "gap", 10000) }
+func BenchmarkEachCheckExact(b *testing.B)  { benchmarkEach(b, "check p=0.3", 10000, 100, 1000) }
+func BenchmarkEachCheckScore(b *testing.B)  { benchmarkEach(b, "check p=0.3 method=score", 10000, 100, 1000) }
+func BenchmarkEachFlips(b *testing.B)       { benchmarkEach(b, "flips", 10000, 100, 1000) }
+func BenchmarkEachGapNewcombe(b *testing.B) { benchmarkEach(b, "gap", 10000, 100, 1000) }
+func BenchmarkEachVersusFisher(b *testing.B) {
+	benchmarkEach(b, "versus", 10000, 100, 1000)
+}
+func BenchmarkEachVersusBoschloo(b *testing.B) {
+	benchmarkEach(b, "versus method=boschloo", 128, 20, 120)
+}

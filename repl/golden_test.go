@@ -61,7 +61,7 @@ func sessionRecord(t *testing.T, script string) string {
 	defer f.Close()
 	var buf bytes.Buffer
 	s := NewSession(&buf, &buf)
-	s.In = strings.NewReader("")
+	s.In = strings.NewReader("id,k,n\nA,17,40\nB,3,14\nC,5,4\n")
 	sc := bufio.NewScanner(f)
 	for sc.Scan() {
 		line := sc.Text()

@@ -57,7 +57,7 @@ func openHistory(path string) (*history, error) {
 	h := &history{f: f}
 	r := bufio.NewReader(f)
 	for {
-		l, _, err := readLine(r, maxHistoryLine)
+		l, _, err := readLine(r, lineLimits{keep: maxHistoryLine, stop: 16 << 20, nul: true})
 		if l = strings.TrimSpace(l); l != "" {
 			h.lines = append(h.lines, l)
 			if len(h.lines) > 2*historyKeep {

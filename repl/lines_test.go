@@ -41,7 +41,7 @@ func TestReadLine(t *testing.T) {
 	}
 	want := []got{{"ab", 2, nil}, {"", 0, nil}, {"", 100, nil}, {"last", 4, nil}, {"", 0, io.EOF}}
 	for i, w := range want {
-		l, n, err := readLine(r, 50)
+		l, n, err := readLine(r, lineLimits{keep: 50})
 		if l != w.line || n != w.size || err != w.err {
 			t.Errorf("line %d: (%q, %d, %v), want %v", i+1, l, n, err, w)
 		}

@@ -68,10 +68,5 @@ func shortToken(tok string) string {
 // errors put in the shell's words (see shellWords), line breaks as
 // blanks, long words shortened and control characters escaped.
 func shellMessage(t *table, verb string, err error) string {
-	msg := shellError(t, verb, err)
-	words := strings.Fields(msg)
-	for i, w := range words {
-		words[i] = shortToken(w)
-	}
-	return safeText(strings.Join(words, " "), false)
+	return safeText(shortenWords(shellError(t, verb, err)), false)
 }

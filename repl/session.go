@@ -185,7 +185,7 @@ func (s *Session) RunLines(ctx context.Context, r io.Reader, numbered bool) (fai
 	defer func() { s.script = false }()
 	br := bufio.NewReaderSize(r, 64<<10)
 	for {
-		line, size, err := readLine(br, maxScriptLine)
+		line, size, err := readLine(br, lineLimits{keep: maxScriptLine})
 		if err != nil {
 			if err != io.EOF {
 				fmt.Fprintf(s.Err, "error: reading commands after line %d: %v\n", s.lineNo, err)
