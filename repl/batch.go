@@ -39,22 +39,22 @@ func eachCommand() *command {
 		Options: []opt{{Name: "to", Doc: "write the CSV to this file instead of the screen"}},
 		Help: helpText{
 			Computes: "Reads a CSV file (or standard input for -) with one set of counts per row, applies VERB " +
-			"with the given options to each row, and streams CSV out: the input columns, the result columns " +
-			"in full precision, the method, level and side the row was computed with, and an error column. " +
-			"The first row is the header when it names every count column the verb reads (k,n for one group; " +
-			"k1,n1,k2,n2 for two; a,b,c,d for pairs; found by name, other columns pass through), or when none " +
-			"of its fields is a number (then missing count columns are reported once, before any row). " +
-			"Otherwise the first row is data and the counts are the first columns. Every input row gives one " +
-			"output row with the header's column count; a row that cannot be used (too few or too many " +
-			"fields, a bad count, a bare quote, a record over 1 MiB) has its input line number and the reason " +
-			"in the error column and counts as failed, and the run goes on. Rows run on all cores, written in " +
-			"input order. On a terminal, progress (rows, rate, time left) goes to standard error once a second; " +
-			"Ctrl-C stops the run, keeps the rows done and says how many were not run. " +
-			"A last line on standard error gives the rows done and failed and which header rule applied; the " +
-			"command fails if any row did. Undefined estimates (an empty group) are written NaN. " +
-			"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
-			"input: kofn -c 'each - check p=0.3' < visits.csv.",
-		Methods:     "", // filled by newTable with the row verbs
+				"with the given options to each row, and streams CSV out: the input columns, the result columns " +
+				"in full precision, the method, level and side the row was computed with, and an error column. " +
+				"The first row is the header when it names every count column the verb reads (k,n for one group; " +
+				"k1,n1,k2,n2 for two; a,b,c,d for pairs; found by name, other columns pass through), or when none " +
+				"of its fields is a number (then missing count columns are reported once, before any row). " +
+				"Otherwise the first row is data and the counts are the first columns. Every input row gives one " +
+				"output row with the header's column count; a row that cannot be used (too few or too many " +
+				"fields, a bad count, a bare quote, a record over 1 MiB) has its input line number and the reason " +
+				"in the error column and counts as failed, and the run goes on. Rows run on all cores, written in " +
+				"input order. On a terminal, progress (rows, rate, time left) goes to standard error once a second; " +
+				"Ctrl-C stops the run, keeps the rows done and says how many were not run. " +
+				"A last line on standard error gives the rows done and failed and which header rule applied; the " +
+				"command fails if any row did. Undefined estimates (an empty group) are written NaN. " +
+				"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
+				"input: kofn -c 'each - check p=0.3' < visits.csv.",
+			Methods:     "", // filled by newTable with the row verbs
 			Assumptions: "Each row is a separate analysis: no correction for testing many rows is applied.",
 			Examples:    []string{"each - check p=0.3", "each - flips method=exact"},
 			Sources:     "RFC 4180 (CSV).",

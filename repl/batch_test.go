@@ -4,8 +4,8 @@ import (
 	"bytes"
 	"context"
 	"fmt"
-	"os"
 	"io"
+	"os"
 	"path/filepath"
 	"runtime"
 	"strings"
@@ -124,8 +124,10 @@ func BenchmarkEachBoundsWilson(b *testing.B) { benchmarkEach(b, "bounds", 10000,
 func BenchmarkEachBoundsClopperPearson(b *testing.B) {
 	benchmarkEach(b, "bounds method=clopper-pearson", 10000, 100, 1000)
 }
-func BenchmarkEachCheckExact(b *testing.B)  { benchmarkEach(b, "check p=0.3", 10000, 100, 1000) }
-func BenchmarkEachCheckScore(b *testing.B)  { benchmarkEach(b, "check p=0.3 method=score", 10000, 100, 1000) }
+func BenchmarkEachCheckExact(b *testing.B) { benchmarkEach(b, "check p=0.3", 10000, 100, 1000) }
+func BenchmarkEachCheckScore(b *testing.B) {
+	benchmarkEach(b, "check p=0.3 method=score", 10000, 100, 1000)
+}
 func BenchmarkEachFlips(b *testing.B)       { benchmarkEach(b, "flips", 10000, 100, 1000) }
 func BenchmarkEachGapNewcombe(b *testing.B) { benchmarkEach(b, "gap", 10000, 100, 1000) }
 func BenchmarkEachVersusFisher(b *testing.B) {
