@@ -7,52 +7,52 @@ import (
 )
 
 // ProportionWithin returns the probability that the sample proportion X/N
-// lies within eps of P, boundaries included:
+// lies within halfWidth of P, boundaries included:
 //
-//	P(|X/N - P| <= eps) = P(kmin <= X <= kmax),
-//	kmin = ceil(N (P - eps)),  kmax = floor(N (P + eps)),
+//	P(|X/N - P| <= halfWidth) = P(kmin <= X <= kmax),
+//	kmin = ceil(N (P - halfWidth)),  kmax = floor(N (P + halfWidth)),
 //
 // the exact precision of the empirical estimator X/N (the probability
-// that an estimate from N trials misses P by no more than eps).
+// that an estimate from N trials misses P by no more than halfWidth).
 //
-// Boundaries are decided as the caller means them: P and eps are read as
+// Boundaries are decided as the caller means them: P and halfWidth are read as
 // the shortest decimals that print them (strconv.FormatFloat(x, 'g', -1,
 // 64): 0.3 and 0.1, not their binary neighbours) and compared with k/N in
-// exact rational arithmetic. For N = 50, P = 0.3, eps = 0.1 that counts
+// exact rational arithmetic. For N = 50, P = 0.3, halfWidth = 0.1 that counts
 // k = 10 through 20 (probability 0.9120); a floating-point comparison,
 // where 0.3 + 0.1 > 0.4, would drop k = 20. The probability of the range
 // itself uses the binomial with the double P, by one ProbRange call.
 //
-// Special cases: eps < 0 gives 0; N = 0 gives 0 (no trials, no estimate);
-// otherwise eps >= 1 (+Inf included) gives 1; eps NaN, or an invalid Dist,
+// Special cases: halfWidth < 0 gives 0; N = 0 gives 0 (no trials, no estimate);
+// otherwise halfWidth >= 1 (+Inf included) gives 1; halfWidth NaN, or an invalid Dist,
 // gives NaN (the only NaN). Accuracy: that of ProbRange; cost: one range
 // probability (the PMF when the range is one point) plus a few exact
 // rational operations.
-func (d Dist) ProportionWithin(eps float64) float64 {
-	if !d.valid() || math.IsNaN(eps) {
+func (d Dist) ProportionWithin(halfWidth float64) float64 {
+	if !d.valid() || math.IsNaN(halfWidth) {
 		return math.NaN()
 	}
 	switch {
-	case eps < 0 || d.N == 0:
+	case halfWidth < 0 || d.N == 0:
 		return 0
-	case eps >= 1:
+	case halfWidth >= 1:
 		return 1
 	}
-	lo, hi := withinRange(d.N, d.P, eps)
+	lo, hi := withinRange(d.N, d.P, halfWidth)
 	switch {
 	case lo > hi:
 		return 0
-	case lo == hi: // eps = 0 or a short range: the PMF itself, cheaper
+	case lo == hi: // halfWidth = 0 or a short range: the PMF itself, cheaper
 		return d.Prob(lo)
 	}
 	return d.ProbRange(lo, hi)
 }
 
-// withinRange returns kmin = max(0, ceil(n (p - eps))) and
-// kmax = min(n, floor(n (p + eps))) with p and eps read as their shortest
-// decimals, for n >= 1 and finite eps in [0, 1).
-func withinRange(n int64, p, eps float64) (kmin, kmax int64) {
-	pr, er := shortestRat(p), shortestRat(eps)
+// withinRange returns kmin = max(0, ceil(n (p - halfWidth))) and
+// kmax = min(n, floor(n (p + halfWidth))) with p and halfWidth read as their shortest
+// decimals, for n >= 1 and finite halfWidth in [0, 1).
+func withinRange(n int64, p, halfWidth float64) (kmin, kmax int64) {
+	pr, er := shortestRat(p), shortestRat(halfWidth)
 	nr := new(big.Rat).SetInt64(n)
 	a := new(big.Rat).Mul(nr, new(big.Rat).Sub(pr, er))
 	b := new(big.Rat).Mul(nr, new(big.Rat).Add(pr, er))

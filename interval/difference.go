@@ -3,6 +3,8 @@ package interval
 import (
 	"math"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/internal/score"
 )
 
@@ -51,20 +53,28 @@ var diffMethodNames = []string{
 }
 
 // String returns the published name of the method.
-func (m DiffMethod) String() string { return enumName(int(m), diffMethodNames, "DiffMethod") }
+func (m DiffMethod) String() string { return diffMethodNamesSet.String(m) }
 
 // MarshalText encodes the method by its published name.
-func (m DiffMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+func (m DiffMethod) MarshalText() ([]byte, error) { return diffMethodNamesSet.MarshalText(m) }
+
+// UnmarshalText decodes any spelling ParseDiffMethod accepts.
+func (m *DiffMethod) UnmarshalText(b []byte) error { return diffMethodNamesSet.UnmarshalText(m, b) }
+
+// DiffMethodValues lists the methods in order.
+func DiffMethodValues() []DiffMethod { return diffMethodNamesSet.Values() }
 
 // ParseDiffMethod returns the method whose published name matches s
 // case-insensitively; "newcombe", "newcombe-cc", "mn" and "score" (for
 // Miettinen-Nurminen) are accepted too.
 func ParseDiffMethod(s string) (DiffMethod, error) {
-	return parseEnum("interval.ParseDiffMethod", s, diffMethodNames, map[string]DiffMethod{
-		"newcombe": DiffNewcombe, "newcombe-cc": DiffNewcombeCC, "mn": DiffMiettinenNurminen,
-		"score": DiffMiettinenNurminen, "wald-cc": DiffWaldCC,
-	})
+	return diffMethodNamesSet.Parse("interval.ParseDiffMethod", s)
 }
+
+var diffMethodNamesSet = enum.New[DiffMethod]("interval.DiffMethod", diffMethodNames, map[string]DiffMethod{
+	"newcombe": DiffNewcombe, "newcombe-cc": DiffNewcombeCC, "mn": DiffMiettinenNurminen,
+	"score": DiffMiettinenNurminen, "wald-cc": DiffWaldCC,
+})
 
 // DiffOptions configures Difference. The zero value asks for a two-sided
 // 95% Newcombe hybrid score interval.

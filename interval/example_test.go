@@ -139,7 +139,7 @@ func ExampleParseMethod() {
 }
 
 func ExampleParseSide() {
-	s, _ := interval.ParseSide("upper")
+	s, _ := interval.ParseSide("upper bound")
 	fmt.Println(s)
 	// Output:
 	// upper bound

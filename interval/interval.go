@@ -1,7 +1,7 @@
 package interval
 
 import (
-	"strings"
+	"github.com/kofnlab/kofn/internal/enum"
 
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
@@ -67,32 +67,26 @@ const (
 	UpperBound
 )
 
-var sideNames = [...]string{"two-sided", "lower bound", "upper bound"}
+var sideNames = enum.New[Side]("interval.Side", []string{"two-sided", "lower bound", "upper bound"},
+	map[string]Side{"two": TwoSided, "lowerbound": LowerBound, "upperbound": UpperBound})
 
 // String returns "two-sided", "lower bound" or "upper bound".
-func (s Side) String() string {
-	if s < 0 || int(s) >= len(sideNames) {
-		return "Side(" + argerr.Format(int(s)) + ")"
-	}
-	return sideNames[s]
-}
+func (s Side) String() string { return sideNames.String(s) }
 
 // MarshalText encodes the side by its String form.
-func (s Side) MarshalText() ([]byte, error) { return []byte(s.String()), nil }
+func (s Side) MarshalText() ([]byte, error) { return sideNames.MarshalText(s) }
 
-// ParseSide accepts the String forms case-insensitively, and also
-// "two", "lower" and "upper".
-func ParseSide(s string) (Side, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "two-sided", "two", "twosided", "two sided":
-		return TwoSided, nil
-	case "lower bound", "lower", "lowerbound", "lower-bound":
-		return LowerBound, nil
-	case "upper bound", "upper", "upperbound", "upper-bound":
-		return UpperBound, nil
-	}
-	return 0, argerr.Invalid("interval.ParseSide", "s", s, "is not a side; use two-sided, lower or upper")
-}
+// UnmarshalText decodes any spelling ParseSide accepts.
+func (s *Side) UnmarshalText(b []byte) error { return sideNames.UnmarshalText(s, b) }
+
+// ParseSide accepts the String forms case-insensitively (with '-' or '_'
+// for the space), and "two" for two-sided. "lower" and "upper" alone are
+// not accepted: the alternative hypothesis uses "lower" for the opposite
+// direction (a test against a lower alternative has only an upper bound).
+func ParseSide(s string) (Side, error) { return sideNames.Parse("interval.ParseSide", s) }
+
+// SideValues lists the sides in order.
+func SideValues() []Side { return sideNames.Values() }
 
 // level holds the validated confidence level and the tail probability and
 // normal quantile each computed limit uses.

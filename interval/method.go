@@ -1,9 +1,7 @@
 package interval
 
 import (
-	"strings"
-
-	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/enum"
 )
 
 // Method selects how a one-proportion interval is computed. The zero value
@@ -87,37 +85,20 @@ var methodAliases = map[string]Method{
 }
 
 // String returns the published name of the method.
-func (m Method) String() string { return enumName(int(m), methodNames[:], "Method") }
+func (m Method) String() string { return methodNamesSet.String(m) }
 
 // MarshalText encodes the method by its published name.
-func (m Method) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+func (m Method) MarshalText() ([]byte, error) { return methodNamesSet.MarshalText(m) }
+
+// UnmarshalText decodes any spelling ParseMethod accepts.
+func (m *Method) UnmarshalText(b []byte) error { return methodNamesSet.UnmarshalText(m, b) }
+
+// MethodValues lists the methods in order.
+func MethodValues() []Method { return methodNamesSet.Values() }
 
 // ParseMethod returns the method whose published name (as String gives
 // it) matches s case-insensitively; a few common short forms ("exact",
 // "score", "midp", "lr", "wilson-cc", "wald-cc") are accepted too.
-func ParseMethod(s string) (Method, error) {
-	return parseEnum("interval.ParseMethod", s, methodNames[:], methodAliases)
-}
+func ParseMethod(s string) (Method, error) { return methodNamesSet.Parse("interval.ParseMethod", s) }
 
-// enumName returns names[i], or "Type(i)" for a value out of range.
-func enumName(i int, names []string, typ string) string {
-	if i < 0 || i >= len(names) {
-		return typ + "(" + argerr.Format(i) + ")"
-	}
-	return names[i]
-}
-
-// parseEnum matches s against names (case-insensitively, spaces trimmed)
-// and then against aliases (lowercase keys).
-func parseEnum[M ~int](fn, s string, names []string, aliases map[string]M) (M, error) {
-	t := strings.ToLower(strings.TrimSpace(s))
-	for i, name := range names {
-		if strings.ToLower(name) == t {
-			return M(i), nil
-		}
-	}
-	if m, ok := aliases[t]; ok {
-		return m, nil
-	}
-	return 0, argerr.Invalid(fn, "s", s, "is not a known method; use one of: "+strings.Join(names, ", "))
-}
+var methodNamesSet = enum.New[Method]("interval.Method", methodNames[:], methodAliases)

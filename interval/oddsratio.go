@@ -3,6 +3,8 @@ package interval
 import (
 	"math"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/internal/score"
 )
 
@@ -41,20 +43,28 @@ var oddsMethodNames = []string{
 }
 
 // String returns the published name of the method.
-func (m OddsMethod) String() string { return enumName(int(m), oddsMethodNames, "OddsMethod") }
+func (m OddsMethod) String() string { return oddsMethodNamesSet.String(m) }
 
 // MarshalText encodes the method by its published name.
-func (m OddsMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+func (m OddsMethod) MarshalText() ([]byte, error) { return oddsMethodNamesSet.MarshalText(m) }
+
+// UnmarshalText decodes any spelling ParseOddsMethod accepts.
+func (m *OddsMethod) UnmarshalText(b []byte) error { return oddsMethodNamesSet.UnmarshalText(m, b) }
+
+// OddsMethodValues lists the methods in order.
+func OddsMethodValues() []OddsMethod { return oddsMethodNamesSet.Values() }
 
 // ParseOddsMethod returns the method whose published name matches s
 // case-insensitively; "woolf", "logit", "mn", "score", "exact",
 // "cornfield" and "mid-p" are accepted too.
 func ParseOddsMethod(s string) (OddsMethod, error) {
-	return parseEnum("interval.ParseOddsMethod", s, oddsMethodNames, map[string]OddsMethod{
-		"woolf": OddsWoolf, "logit": OddsWoolf, "mn": OddsMiettinenNurminen, "score": OddsMiettinenNurminen,
-		"exact": OddsCornfield, "cornfield": OddsCornfield, "mid-p": OddsCornfieldMidP, "midp": OddsCornfieldMidP,
-	})
+	return oddsMethodNamesSet.Parse("interval.ParseOddsMethod", s)
 }
+
+var oddsMethodNamesSet = enum.New[OddsMethod]("interval.OddsMethod", oddsMethodNames, map[string]OddsMethod{
+	"woolf": OddsWoolf, "logit": OddsWoolf, "mn": OddsMiettinenNurminen, "score": OddsMiettinenNurminen,
+	"exact": OddsCornfield, "cornfield": OddsCornfield, "mid-p": OddsCornfieldMidP, "midp": OddsCornfieldMidP,
+})
 
 // OddsOptions configures OddsRatio. The zero value asks for a two-sided
 // 95% Miettinen-Nurminen score interval.

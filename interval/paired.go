@@ -3,6 +3,8 @@ package interval
 import (
 	"math"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
 )
@@ -38,18 +40,26 @@ var pairedMethodNames = []string{
 }
 
 // String returns the published name of the method.
-func (m PairedMethod) String() string { return enumName(int(m), pairedMethodNames, "PairedMethod") }
+func (m PairedMethod) String() string { return pairedMethodNamesSet.String(m) }
 
 // MarshalText encodes the method by its published name.
-func (m PairedMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+func (m PairedMethod) MarshalText() ([]byte, error) { return pairedMethodNamesSet.MarshalText(m) }
+
+// UnmarshalText decodes any spelling ParsePairedMethod accepts.
+func (m *PairedMethod) UnmarshalText(b []byte) error { return pairedMethodNamesSet.UnmarshalText(m, b) }
+
+// PairedMethodValues lists the methods in order.
+func PairedMethodValues() []PairedMethod { return pairedMethodNamesSet.Values() }
 
 // ParsePairedMethod returns the method whose published name matches s
 // case-insensitively; "newcombe" and "tango" are accepted too.
 func ParsePairedMethod(s string) (PairedMethod, error) {
-	return parseEnum("interval.ParsePairedMethod", s, pairedMethodNames, map[string]PairedMethod{
-		"newcombe": PairedNewcombe, "tango": PairedTango, "score": PairedTango,
-	})
+	return pairedMethodNamesSet.Parse("interval.ParsePairedMethod", s)
 }
+
+var pairedMethodNamesSet = enum.New[PairedMethod]("interval.PairedMethod", pairedMethodNames, map[string]PairedMethod{
+	"newcombe": PairedNewcombe, "tango": PairedTango, "score": PairedTango,
+})
 
 // PairedOptions configures PairedDifference. The zero value asks for a
 // two-sided 95% Newcombe paired hybrid score interval.

@@ -157,7 +157,7 @@ func TestParse(t *testing.T) {
 			t.Errorf("ParseSide(%q) = %v, %v", s.String(), got, err)
 		}
 	}
-	if got := interval.Method(99).String(); got != "Method(99)" {
+	if got := interval.Method(99).String(); got != "interval.Method(99)" {
 		t.Errorf("Method(99).String() = %q", got)
 	}
 }

@@ -3,6 +3,8 @@ package interval
 import (
 	"math"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/internal/score"
 )
 
@@ -40,18 +42,26 @@ var ratioMethodNames = []string{
 }
 
 // String returns the published name of the method.
-func (m RatioMethod) String() string { return enumName(int(m), ratioMethodNames, "RatioMethod") }
+func (m RatioMethod) String() string { return ratioMethodNamesSet.String(m) }
 
 // MarshalText encodes the method by its published name.
-func (m RatioMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+func (m RatioMethod) MarshalText() ([]byte, error) { return ratioMethodNamesSet.MarshalText(m) }
+
+// UnmarshalText decodes any spelling ParseRatioMethod accepts.
+func (m *RatioMethod) UnmarshalText(b []byte) error { return ratioMethodNamesSet.UnmarshalText(m, b) }
+
+// RatioMethodValues lists the methods in order.
+func RatioMethodValues() []RatioMethod { return ratioMethodNamesSet.Values() }
 
 // ParseRatioMethod returns the method whose published name matches s
 // case-insensitively; "katz", "score" (Koopman) and "mn" are accepted too.
 func ParseRatioMethod(s string) (RatioMethod, error) {
-	return parseEnum("interval.ParseRatioMethod", s, ratioMethodNames, map[string]RatioMethod{
-		"katz": RatioKatz, "score": RatioKoopman, "mn": RatioMiettinenNurminen, "log": RatioKatz,
-	})
+	return ratioMethodNamesSet.Parse("interval.ParseRatioMethod", s)
 }
+
+var ratioMethodNamesSet = enum.New[RatioMethod]("interval.RatioMethod", ratioMethodNames, map[string]RatioMethod{
+	"katz": RatioKatz, "score": RatioKoopman, "mn": RatioMiettinenNurminen, "log": RatioKatz,
+})
 
 // RatioOptions configures Ratio. The zero value asks for a two-sided 95%
 // Koopman score interval.

@@ -31,7 +31,7 @@ func pooledZ(x1, n1, x2, n2 int64) float64 {
 // (ties, equal z within 1e-12 relative, share one rank as their p-values
 // are equal), and z* is found by bisection over the ranks with test.Barnard
 // deciding each probe: O(log(n1 n2)) Barnard p-values, each O(n1 n2).
-func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt Alternative) (*twoRegion, error) {
+func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative) (*twoRegion, error) {
 	type tab struct {
 		x1, x2 int64
 		key    float64 // larger is more extreme
@@ -41,9 +41,9 @@ func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, 
 		for x2 := int64(0); x2 <= n2; x2++ {
 			z := pooledZ(x1, n1, x2, n2)
 			switch alt {
-			case Less:
+			case test.Lower:
 				z = -z
-			case TwoSided:
+			case test.TwoSided:
 				z = math.Abs(z)
 			}
 			tabs = append(tabs, tab{x1, x2, z})

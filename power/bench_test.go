@@ -3,12 +3,14 @@ package power
 import (
 	"context"
 	"testing"
+
+	"github.com/kofnlab/kofn/test"
 )
 
 // Goal (issue 5): the whole exact one-sample power curve for n = 1..2000
 // in under 2 ms one-sided and 10 ms two-sided.
 func BenchmarkOneSampleCurve2000OneSided(b *testing.B) {
-	o := OneSampleOptions{Alternative: Greater}
+	o := OneSampleOptions{Alternative: test.Higher}
 	for b.Loop() {
 		if _, err := OneSampleCurve(context.Background(), 0.3, 0.35, 2000, o); err != nil {
 			b.Fatal(err)
@@ -25,7 +27,7 @@ func BenchmarkOneSampleCurve2000TwoSided(b *testing.B) {
 }
 
 func BenchmarkOneSampleCurve2000Central(b *testing.B) {
-	o := OneSampleOptions{Method: Central}
+	o := OneSampleOptions{Rule: test.Central}
 	for b.Loop() {
 		if _, err := OneSampleCurve(context.Background(), 0.3, 0.35, 2000, o); err != nil {
 			b.Fatal(err)
@@ -60,7 +62,7 @@ func BenchmarkTwoSamplePowerFisher200(b *testing.B) {
 }
 
 func BenchmarkTwoSamplePowerZ200(b *testing.B) {
-	o := TwoSampleOptions{Test: ZPooled}
+	o := TwoSampleOptions{Test: ZPooledTest}
 	for b.Loop() {
 		if _, err := TwoSamplePower(context.Background(), 200, 200, 0.3, 0.45, o); err != nil {
 			b.Fatal(err)
@@ -69,7 +71,7 @@ func BenchmarkTwoSamplePowerZ200(b *testing.B) {
 }
 
 func BenchmarkTwoSamplePowerBarnard200(b *testing.B) {
-	o := TwoSampleOptions{Test: Barnard}
+	o := TwoSampleOptions{Test: BarnardExactTest}
 	for b.Loop() {
 		if _, err := TwoSamplePower(context.Background(), 200, 200, 0.3, 0.45, o); err != nil {
 			b.Fatal(err)
@@ -118,7 +120,7 @@ func BenchmarkTwoSampleNFisher(b *testing.B) {
 }
 
 func BenchmarkOneSampleCurve2000Blaker(b *testing.B) {
-	o := OneSampleOptions{Method: Blaker}
+	o := OneSampleOptions{Rule: test.Blaker}
 	for b.Loop() {
 		if _, err := OneSampleCurve(context.Background(), 0.3, 0.35, 2000, o); err != nil {
 			b.Fatal(err)

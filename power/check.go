@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/test"
 	"gonum.org/v1/gonum/mathext"
 )
 
@@ -52,8 +53,8 @@ func phi(x float64) float64 { return 0.5 * math.Erfc(-x/math.Sqrt2) }
 
 // zAlpha returns the critical normal quantile for level alpha under the
 // alternative: z_{1-alpha/2} for two-sided tests, z_{1-alpha} otherwise.
-func zAlpha(alpha float64, alt Alternative) float64 {
-	if alt == TwoSided {
+func zAlpha(alpha float64, alt test.Alternative) float64 {
+	if alt == test.TwoSided {
 		return -zq(alpha / 2)
 	}
 	return -zq(alpha)

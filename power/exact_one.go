@@ -6,6 +6,7 @@ import (
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
+	"github.com/kofnlab/kofn/test"
 )
 
 // NPower is one point of a power curve: the power at sample size N.
@@ -67,10 +68,10 @@ func rejectProb(n int64, p float64, lo, hi int64) float64 {
 
 func testName(o OneSampleOptions) string {
 	s := "exact binomial, " + o.Alternative.String()
-	if o.Alternative == TwoSided {
-		s += " " + o.Method.String()
+	if o.Alternative == test.TwoSided {
+		s += " " + o.Rule.String()
 	}
-	if o.Mid {
+	if o.MidP {
 		s += ", mid-p"
 	}
 	return s
@@ -99,7 +100,7 @@ func OneSamplePower(n int64, p0, p1 float64, o OneSampleOptions) (ExactPower, er
 	if n > binom.MaxN {
 		return ExactPower{}, argerr.TooLarge(fn, "n", n, "exceeds 2^53")
 	}
-	r := newRegion(oneTest(p0, o.Alternative, o.Method, o.Mid), alpha)
+	r := newRegion(oneTest(p0, o.Alternative, o.Rule, o.MidP), alpha)
 	lo, hi := r.at(n)
 	return ExactPower{
 		Test: testName(o), N: n, Alpha: alpha,
@@ -149,7 +150,7 @@ type oneCurve struct {
 }
 
 func newCurve(p0, p1, alpha float64, o OneSampleOptions) *oneCurve {
-	return &oneCurve{reg: newRegion(oneTest(p0, o.Alternative, o.Method, o.Mid), alpha), tails: newTailPair(p1)}
+	return &oneCurve{reg: newRegion(oneTest(p0, o.Alternative, o.Rule, o.MidP), alpha), tails: newTailPair(p1)}
 }
 
 func (c *oneCurve) power(n int64) float64 {

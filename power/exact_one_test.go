@@ -8,6 +8,7 @@ import (
 	"github.com/google/go-cmp/cmp/cmpopts"
 	"github.com/kofnlab/kofn/internal/golden"
 	"github.com/kofnlab/kofn/internal/onesample"
+	"github.com/kofnlab/kofn/test"
 )
 
 // oneCaseOptions builds the options of a case in testdata/power_exact_one.tsv.
@@ -16,13 +17,13 @@ func oneCaseOptions(t *testing.T, c golden.Case) (p0, p1 float64, o OneSampleOpt
 	var err error
 	p0, p1 = c.Float("p0"), c.Float("p1")
 	o.Alpha, o.Power = c.Float("alpha"), c.Float("target")
-	if o.Alternative, err = ParseAlternative(c.Values["3"]); err != nil {
+	if o.Alternative, err = goldenAlt(c.Values["3"]); err != nil {
 		t.Fatal(err)
 	}
-	if o.Method, err = ParseTwoSidedMethod(c.Values["4"]); err != nil {
+	if o.Rule, err = test.ParseTwoSidedRule(c.Values["4"]); err != nil {
 		t.Fatal(err)
 	}
-	o.Mid = c.Values["mid"] == "1"
+	o.MidP = c.Values["mid"] == "1"
 	return
 }
 
@@ -89,8 +90,8 @@ func TestRegionMatchesAcceptance(t *testing.T) {
 	}
 	for _, p0 := range []float64{0.01, 0.3, 0.5, 0.77} {
 		for _, alpha := range []float64{0.01, 0.05, 0.2} {
-			for _, alt := range []Alternative{TwoSided, Greater, Less} {
-				for _, m := range []TwoSidedMethod{PointProbability, Central, Blaker} {
+			for _, alt := range []test.Alternative{test.TwoSided, test.Higher, test.Lower} {
+				for _, m := range test.TwoSidedRuleValues() {
 					for _, mid := range []bool{false, true} {
 						tt := oneTest(p0, alt, m, mid)
 						r := newRegion(tt, alpha)

@@ -45,16 +45,16 @@ type twoRegion struct {
 // the test package's p-value (onesample.LogPValueOf on binom.Hyper, as
 // test.Fisher computes it; point-probability two-sided definition). The
 // interval of s seeds the walk for s + 1.
-func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt Alternative) (*twoRegion, error) {
+func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative) (*twoRegion, error) {
 	N := n1 + n2
 	r := &twoRegion{n1: n1, n2: n2, bySum: true, a: make([]int64, N+1), b: make([]int64, N+1)}
 	la := xmath.Log(alpha)
 	oalt := onesample.TwoSided
 	switch alt {
-	case Greater:
-		oalt = onesample.Greater
-	case Less:
-		oalt = onesample.Less
+	case test.Higher:
+		oalt = onesample.Higher
+	case test.Lower:
+		oalt = onesample.Lower
 	}
 	ga, gb := int64(0), int64(-1)
 	for s := int64(0); s <= N; s++ {
@@ -77,15 +77,15 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 		// previous interval, certified by two decisions when the test is
 		// two-sided (see certifyInterval), walked otherwise.
 		a, b, done := int64(0), int64(-1), false
-		if alt == TwoSided {
+		if alt == test.TwoSided {
 			a, b, done = certifyInterval(ok, h.LogProb, lo, hi, min(max(ga, lo), hi), min(max(gb, lo), hi))
 		}
 		if !done {
 			peak := h.Mode() // where the two-sided p-value is largest
 			switch alt {
-			case Greater: // P(X1 >= x) falls with x
+			case test.Higher: // P(X1 >= x) falls with x
 				peak = lo
-			case Less:
+			case test.Lower:
 				peak = hi
 			}
 			a, b = acceptInterval(ok, lo, hi, peak, max(ga, lo), min(gb+1, hi))
@@ -100,7 +100,7 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 // by row: for fixed x1 the pooled z decreases in x2, so the accepted x2
 // form an interval, decided by test.TwoSample (z pooled) and seeded by the
 // previous row.
-func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt Alternative) (*twoRegion, error) {
+func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative) (*twoRegion, error) {
 	r := &twoRegion{n1: n1, n2: n2, a: make([]int64, n1+1), b: make([]int64, n1+1)}
 	la := xmath.Log(alpha)
 	opt := test.TwoSampleOptions{Method: test.ZPooled, Alternative: alt}
@@ -116,12 +116,12 @@ func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt Al
 			return err != nil || res.LogPValue >= la
 		}
 		// The p-value peaks where z = 0, x2 = x1 n2 / n1, for the two-sided
-		// test; z falls as x2 grows, so at x2 = n2 (Greater) or 0 (Less).
+		// test; z falls as x2 grows, so at x2 = n2 (test.Higher) or 0 (test.Lower).
 		peak := int64(math.Round(float64(x1) * float64(n2) / float64(n1)))
 		switch alt {
-		case Greater:
+		case test.Higher:
 			peak = n2
-		case Less:
+		case test.Lower:
 			peak = 0
 		}
 		a, b := acceptInterval(ok, 0, n2, peak, max(ga, 0), min(gb+1, n2))
@@ -181,9 +181,9 @@ func buildRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, o 
 		return marginRegion(ctx, fn, n1, n2, alpha, o.Hypothesis, o.Margin)
 	}
 	switch o.Test {
-	case Barnard:
+	case BarnardExactTest:
 		return barnardRegion(ctx, fn, n1, n2, alpha, o.Alternative)
-	case ZPooled:
+	case ZPooledTest:
 		return zRegion(ctx, fn, n1, n2, alpha, o.Alternative)
 	}
 	return fisherRegion(ctx, fn, n1, n2, alpha, o.Alternative)
@@ -197,9 +197,9 @@ func twoTestName(o TwoSampleOptions) string {
 		return "Miettinen-Nurminen score equivalence (TOST), margin " + argerr.Format(o.Margin)
 	}
 	switch o.Test {
-	case Barnard:
+	case BarnardExactTest:
 		return "Barnard exact unconditional, " + o.Alternative.String()
-	case ZPooled:
+	case ZPooledTest:
 		return "pooled z (enumerated), " + o.Alternative.String()
 	}
 	return "Fisher exact point-probability, " + o.Alternative.String()
@@ -343,7 +343,7 @@ func (r *twoRegion) rejects(x1, x2 int64) bool {
 // marginRegion builds the rejection region of the test package's score
 // tests with a margin m (Miettinen-Nurminen variance, the package
 // default), row by row. Non-inferiority, test.DifferenceMargin with delta
-// = -m, Greater: for fixed x1 the score z falls as x2 grows, so the
+// = -m, test.Higher: for fixed x1 the score z falls as x2 grows, so the
 // accepted x2 form a suffix, found from x2 = n2. Equivalence,
 // test.DifferenceEquivalence on (-m, m): the rejected x2 (equivalence
 // shown) form an interval around x2 = x1 n2/n1. Each row is seeded by the
@@ -351,7 +351,7 @@ func (r *twoRegion) rejects(x1, x2 int64) bool {
 func marginRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, hyp Hypothesis, m float64) (*twoRegion, error) {
 	r := &twoRegion{n1: n1, n2: n2, inner: hyp == Equivalence, a: make([]int64, n1+1), b: make([]int64, n1+1)}
 	la := xmath.Log(alpha)
-	opt := test.MarginOptions{Alternative: test.Greater}
+	opt := test.MarginOptions{Alternative: test.Higher}
 	ga, gb := int64(0), n2
 	for x1 := int64(0); x1 <= n1; x1++ {
 		if x1&63 == 0 {

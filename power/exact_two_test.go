@@ -24,7 +24,7 @@ func TestTwoSampleGolden(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		alt, err := ParseAlternative(r.Fields[7])
+		alt, err := goldenAlt(r.Fields[7])
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -85,7 +85,7 @@ func TestTwoSampleProperties(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := TwoSamplePower(ctx, 25, 25, 0.2, 0.55, TwoSampleOptions{Test: Barnard})
+	b, err := TwoSamplePower(ctx, 25, 25, 0.2, 0.55, TwoSampleOptions{Test: BarnardExactTest})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -123,7 +123,7 @@ func TestTwoSampleErrors(t *testing.T) {
 	if _, err := TwoSampleN(ctx, 0.2, 0.2, TwoSampleOptions{}); !errors.Is(err, ErrInvalidArgument) {
 		t.Errorf("equal proportions: %v", err)
 	}
-	if _, err := TwoSampleN(ctx, 0.3, 0.2, TwoSampleOptions{Alternative: Less}); !errors.Is(err, ErrNoSolution) {
+	if _, err := TwoSampleN(ctx, 0.3, 0.2, TwoSampleOptions{Alternative: test.Lower}); !errors.Is(err, ErrNoSolution) {
 		t.Errorf("wrong side: %v", err)
 	}
 	cctx, cancel := context.WithCancel(ctx)
@@ -145,10 +145,10 @@ func TestTwoRegionsMatchTests(t *testing.T) {
 	}
 	for _, nn := range sizes {
 		n1, n2 := nn[0], nn[1]
-		for _, alt := range []Alternative{TwoSided, Greater, Less} {
+		for _, alt := range []test.Alternative{test.TwoSided, test.Higher, test.Lower} {
 			for _, alpha := range []float64{0.01, 0.05, 0.3} {
-				for _, tst := range []ExactTest{Fisher, ZPooled, Barnard} {
-					if tst == Barnard && n1*n2 > 300 {
+				for _, tst := range []ExactTest{FisherExactTest, ZPooledTest, BarnardExactTest} {
+					if tst == BarnardExactTest && n1*n2 > 300 {
 						continue
 					}
 					o := TwoSampleOptions{Test: tst, Alternative: alt}
@@ -170,14 +170,14 @@ func TestTwoRegionsMatchTests(t *testing.T) {
 	}
 }
 
-func decide(t *testing.T, tst ExactTest, x1, n1, x2, n2 int64, alt Alternative) float64 {
+func decide(t *testing.T, tst ExactTest, x1, n1, x2, n2 int64, alt test.Alternative) float64 {
 	t.Helper()
 	var r test.Result
 	var err error
 	switch tst {
-	case Fisher:
+	case FisherExactTest:
 		r, err = test.Fisher(x1, n1, x2, n2, test.FisherOptions{Alternative: alt})
-	case ZPooled:
+	case ZPooledTest:
 		r, err = test.TwoSample(x1, n1, x2, n2, test.TwoSampleOptions{Alternative: alt})
 	default:
 		r, err = test.Barnard(context.Background(), x1, n1, x2, n2, test.UnconditionalOptions{Alternative: alt})
@@ -207,7 +207,7 @@ func TestMarginRegionsMatchTests(t *testing.T) {
 					for x2 := int64(0); x2 <= n2; x2++ {
 						var r test.Result
 						if hyp == NonInferiority {
-							r, err = test.DifferenceMargin(x1, n1, x2, n2, -m, test.MarginOptions{Alternative: test.Greater})
+							r, err = test.DifferenceMargin(x1, n1, x2, n2, -m, test.MarginOptions{Alternative: test.Higher})
 						} else {
 							r, err = test.DifferenceEquivalence(x1, n1, x2, n2, -m, m, test.MarginOptions{})
 						}

@@ -1,40 +1,44 @@
 package power
 
-import "github.com/kofnlab/kofn/internal/argerr"
+import "github.com/kofnlab/kofn/internal/enum"
 
 // ExactTest selects the two-sample test whose exact power is enumerated.
-// The zero value, Fisher, is the default because it is the exact test most
-// protocols name; Barnard's unconditional test is more powerful at the
-// same level and costs far more to evaluate.
+// The zero value, FisherExactTest, is the default because it is the exact
+// test most protocols name; Barnard's unconditional test is more powerful
+// at the same level and costs far more to evaluate.
 type ExactTest int
 
 const (
-	// Fisher is Fisher's exact conditional test.
-	Fisher ExactTest = iota
-	// Barnard is Barnard's exact unconditional test (pooled z statistic,
-	// p-value maximized over the nuisance proportion).
-	Barnard
-	// ZPooled is the asymptotic pooled z test (the chi-square test without
-	// continuity correction), whose exact power and size are enumerated.
-	ZPooled
+	// FisherExactTest is Fisher's exact conditional test (test.Fisher,
+	// two-sided by the point-probability rule).
+	FisherExactTest ExactTest = iota
+	// BarnardExactTest is Barnard's exact unconditional test
+	// (test.Barnard: pooled z statistic, p-value maximized over the
+	// nuisance proportion).
+	BarnardExactTest
+	// ZPooledTest is the asymptotic pooled z test (test.TwoSample with
+	// test.ZPooled, the chi-square test without continuity correction),
+	// whose exact power and size are enumerated.
+	ZPooledTest
 )
 
-var exactTestNames = [...]string{"fisher", "barnard", "z"}
+var exactTestNames = enum.New[ExactTest]("power.ExactTest", []string{"fisher", "barnard", "z-pooled"},
+	map[string]ExactTest{"z": ZPooledTest})
 
-// String returns "fisher", "barnard" or "z".
-func (t ExactTest) String() string {
-	if t < 0 || int(t) >= len(exactTestNames) {
-		return "ExactTest(" + argerr.Format(int(t)) + ")"
-	}
-	return exactTestNames[t]
-}
+// String returns "fisher", "barnard" or "z-pooled".
+func (t ExactTest) String() string { return exactTestNames.String(t) }
 
-// ParseExactTest converts "fisher", "barnard" or "z" (case insensitive).
+// MarshalText encodes the test by its String form.
+func (t ExactTest) MarshalText() ([]byte, error) { return exactTestNames.MarshalText(t) }
+
+// UnmarshalText decodes any spelling ParseExactTest accepts.
+func (t *ExactTest) UnmarshalText(b []byte) error { return exactTestNames.UnmarshalText(t, b) }
+
+// ParseExactTest converts "fisher", "barnard" or "z-pooled" (also "z"),
+// ignoring case.
 func ParseExactTest(s string) (ExactTest, error) {
-	for i, n := range exactTestNames {
-		if equalFold(s, n) {
-			return ExactTest(i), nil
-		}
-	}
-	return 0, argerr.Invalid("power.ParseExactTest", "s", s, `is not a test; use "fisher", "barnard" or "z"`)
+	return exactTestNames.Parse("power.ParseExactTest", s)
 }
+
+// ExactTestValues lists the tests in order.
+func ExactTestValues() []ExactTest { return exactTestNames.Values() }

@@ -5,6 +5,7 @@ import (
 	"fmt"
 
 	"github.com/kofnlab/kofn/power"
+	"github.com/kofnlab/kofn/test"
 )
 
 // Invented scenario: a seed supplier claims 50% germination; a grower
@@ -35,7 +36,7 @@ func ExampleOneSamplePower() {
 
 // Invented scenario: the power curve of a one-sided test for plotting.
 func ExampleOneSampleCurve() {
-	c, err := power.OneSampleCurve(context.Background(), 0.2, 0.35, 100, power.OneSampleOptions{Alternative: power.Greater})
+	c, err := power.OneSampleCurve(context.Background(), 0.2, 0.35, 100, power.OneSampleOptions{Alternative: test.Higher})
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -114,7 +115,7 @@ func ExampleTwoSampleNormalPower() {
 // Invented scenario: two coatings, 30% and 55% failing, 40 panels each.
 func ExampleTwoSamplePower() {
 	ctx := context.Background()
-	for _, t := range []power.ExactTest{power.Fisher, power.Barnard, power.ZPooled} {
+	for _, t := range []power.ExactTest{power.FisherExactTest, power.BarnardExactTest, power.ZPooledTest} {
 		r, err := power.TwoSamplePower(ctx, 40, 40, 0.30, 0.55, power.TwoSampleOptions{Test: t})
 		if err != nil {
 			fmt.Println(err)
@@ -125,7 +126,7 @@ func ExampleTwoSamplePower() {
 	// Output:
 	// fisher: power 0.5510, size 0.0312
 	// barnard: power 0.6135, size 0.0464
-	// z: power 0.6405, size 0.0540
+	// z-pooled: power 0.6405, size 0.0540
 }
 
 // Invented scenario: panels per coating for 80% power with Fisher's test.
@@ -197,12 +198,12 @@ func ExampleMarginOfErrorN() {
 // Common practice: 99% reliability at 95% confidence.
 func ExampleDemonstrationTrials() {
 	for f := int64(0); f <= 2; f++ {
-		d, err := power.DemonstrationTrials(0.99, 0.95, f)
+		d, err := power.DemonstrationTrials(f, 0.99, 0.95)
 		if err != nil {
 			fmt.Println(err)
 			return
 		}
-		fmt.Printf("%d failures allowed: %d trials (confidence %.5f)\n", f, d.Trials, d.AchievedConfidence)
+		fmt.Printf("%d failures allowed: %d trials (confidence %.5f)\n", f, d.Trials, d.AchievedLevel)
 	}
 	// Output:
 	// 0 failures allowed: 299 trials (confidence 0.95046)
@@ -293,32 +294,11 @@ func ExampleDesignPlan() {
 	// n 110, c 3, producer's risk 0.0250, consumer's risk 0.0980
 }
 
-func ExampleParseAlternative() {
-	a, err := power.ParseAlternative("greater")
-	fmt.Println(a, err)
-	// Output:
-	// greater <nil>
-}
-
-func ExampleParseTwoSidedMethod() {
-	m, err := power.ParseTwoSidedMethod("blaker")
-	fmt.Println(m, err)
-	// Output:
-	// blaker <nil>
-}
-
 func ExampleParseExactTest() {
 	t, err := power.ParseExactTest("barnard")
 	fmt.Println(t, err)
 	// Output:
 	// barnard <nil>
-}
-
-func ExampleParsePairedMethod() {
-	m, err := power.ParsePairedMethod("mid-p")
-	fmt.Println(m, err)
-	// Output:
-	// mid-p <nil>
 }
 
 func ExampleParseVariance() {

@@ -6,6 +6,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/kofnlab/kofn/test"
 )
 
 // checkFuzz fails when err is not a typed power error or a value is NaN
@@ -31,18 +33,18 @@ func FuzzNormalSizes(f *testing.F) {
 	f.Add(0.5, 0.7, 0.01, 0.9, 2.0, 1, 1, 1, 0.1)
 	f.Add(0.85, 0.85, 0.025, 0.8, 0.5, 0, 1, 2, 0.1)
 	f.Fuzz(func(t *testing.T, p1, p2, alpha, pw, ratio float64, alt, variance, hyp int, margin float64) {
-		o1 := OneSampleOptions{Alpha: alpha, Power: pw, Alternative: Alternative(alt % 4)}
+		o1 := OneSampleOptions{Alpha: alpha, Power: pw, Alternative: test.Alternative(alt % 4)}
 		r, err := OneSampleNormalN(p1, p2, o1)
 		checkFuzz(t, "OneSampleNormalN", err, r.Real, r.Power)
 		v, err := OneSampleNormalPower(37, p1, p2, o1)
 		checkFuzz(t, "OneSampleNormalPower", err, v)
-		o2 := TwoSampleOptions{Alpha: alpha, Power: pw, Ratio: ratio, Alternative: Alternative(alt % 4),
+		o2 := TwoSampleOptions{Alpha: alpha, Power: pw, Ratio: ratio, Alternative: test.Alternative(alt % 4),
 			Variance: Variance(variance % 3), Hypothesis: Hypothesis(hyp % 4), Margin: margin}
 		r, err = TwoSampleNormalN(p1, p2, o2)
 		checkFuzz(t, "TwoSampleNormalN", err, r.Real, r.Power, float64(r.N2))
 		v, err = TwoSampleNormalPower(20, 30, p1, p2, o2)
 		checkFuzz(t, "TwoSampleNormalPower", err, v)
-		op := PairedOptions{Alpha: alpha, Power: pw, Alternative: Alternative(alt % 4)}
+		op := PairedOptions{Alpha: alpha, Power: pw, Alternative: test.Alternative(alt % 4)}
 		r, err = PairedNormalN(p1, p2, op)
 		checkFuzz(t, "PairedNormalN", err, r.Real, r.Power)
 		n, err := MarginOfErrorN(p1, p2, pw)
@@ -57,7 +59,7 @@ func FuzzExactSmall(f *testing.F) {
 		if n > 300 {
 			n %= 300
 		}
-		o := OneSampleOptions{Alpha: alpha, Alternative: Alternative(alt % 4), Method: TwoSidedMethod(method % 4), Mid: mid}
+		o := OneSampleOptions{Alpha: alpha, Alternative: test.Alternative(alt % 4), Rule: test.TwoSidedRule(method % 4), MidP: mid}
 		r, err := OneSamplePower(n, p0, p1, o)
 		checkFuzz(t, "OneSamplePower", err, r.Power, r.Size)
 		if err == nil && (r.Power > 1 || r.Size > 1) {
@@ -71,9 +73,9 @@ func FuzzExactSmall(f *testing.F) {
 		} else {
 			checkFuzz(t, "OneSampleCurve", err)
 		}
-		pr, err := PairedPower(context.Background(), n, p0/2, p1/2, PairedOptions{Alpha: alpha, Alternative: Alternative(alt % 4), Method: PairedMethod(method % 4), Enumerate: mid})
+		pr, err := PairedPower(context.Background(), n, p0/2, p1/2, PairedOptions{Alpha: alpha, Alternative: test.Alternative(alt % 4), Method: test.McNemarMethod(method % 4), Enumerate: mid})
 		checkFuzz(t, "PairedPower", err, pr.Power, pr.Size)
-		tp, err := TwoSamplePower(context.Background(), n%40, (n+7)%40, p0, p1, TwoSampleOptions{Alpha: alpha, Alternative: Alternative(alt % 4), Test: ExactTest(method % 2 * 2)})
+		tp, err := TwoSamplePower(context.Background(), n%40, (n+7)%40, p0, p1, TwoSampleOptions{Alpha: alpha, Alternative: test.Alternative(alt % 4), Test: ExactTest(method % 2 * 2)})
 		checkFuzz(t, "TwoSamplePower", err, tp.Power, tp.Size)
 	})
 }
@@ -98,9 +100,9 @@ func FuzzPlans(f *testing.F) {
 		if err == nil && (d.AchievedProducerRisk > d.ProducerRisk || d.AchievedConsumerRisk > d.ConsumerRisk) {
 			t.Fatalf("plan misses a risk: %+v", d)
 		}
-		dm, err := DemonstrationTrials(p, q, c%5)
-		checkFuzz(t, "DemonstrationTrials", err, dm.AchievedConfidence)
-		if err == nil && (dm.AchievedConfidence < dm.Confidence || dm.PreviousConfidence >= dm.Confidence) {
+		dm, err := DemonstrationTrials(c%5, p, q)
+		checkFuzz(t, "DemonstrationTrials", err, dm.AchievedLevel)
+		if err == nil && (dm.AchievedLevel < dm.Level || dm.PreviousLevel >= dm.Level) {
 			t.Fatalf("demonstration %+v", dm)
 		}
 		rl, err := DemonstratedReliability(n, c, q)
@@ -113,7 +115,7 @@ func FuzzPrecision(f *testing.F) {
 	f.Add(0.999, 0.001, 0.5, int64(1))
 	f.Fuzz(func(t *testing.T, p, eps, target float64, n int64) {
 		ctx := context.Background()
-		r, err := PrecisionN(ctx, p, eps, PrecisionOptions{Target: target, MaxN: 2000})
+		r, err := PrecisionN(ctx, p, eps, PrecisionOptions{Level: target, MaxN: 2000})
 		checkFuzz(t, "PrecisionN", err, r.FirstPower)
 		w, err := WorstPrecisionAt(ctx, n%3000, eps)
 		checkFuzz(t, "WorstPrecisionAt", err, w.Prob)

@@ -5,9 +5,12 @@ import (
 	"encoding/json"
 	"strings"
 	"testing"
+
+	"github.com/kofnlab/kofn/test"
 )
 
-// Results marshal to JSON, with non-finite values as strings.
+// Results marshal to JSON; fields that do not apply (the power of a
+// margin-of-error size) are left out rather than written as "NaN".
 func TestResultsMarshal(t *testing.T) {
 	t.Parallel()
 	r, err := PrecisionN(context.Background(), 0.3, 0.1, PrecisionOptions{MaxN: 300})
@@ -35,4 +38,16 @@ func TestResultsMarshal(t *testing.T) {
 			t.Errorf("%T: %v", v, err)
 		}
 	}
+}
+
+// goldenAlt reads an alternative written in a golden file, whose
+// generators use the reference libraries' words "less" and "greater".
+func goldenAlt(s string) (test.Alternative, error) {
+	switch s {
+	case "less":
+		return test.Lower, nil
+	case "greater":
+		return test.Higher, nil
+	}
+	return test.ParseAlternative(s)
 }

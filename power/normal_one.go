@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/test"
 )
 
 // OneSampleNormalN returns the normal-approximation number of trials for
@@ -75,20 +76,20 @@ func OneSampleNormalPower(n int64, p0, p1 float64, o OneSampleOptions) (float64,
 	return oneSampleNormalPower(float64(n), p0, p1, alpha, o.Alternative), nil
 }
 
-func oneSampleNormalPower(n, p0, p1, alpha float64, alt Alternative) float64 {
+func oneSampleNormalPower(n, p0, p1, alpha float64, alt test.Alternative) float64 {
 	return sidedPower(n, p1-p0, math.Sqrt(p0*(1-p0)), math.Sqrt(p1*(1-p1)), zAlpha(alpha, alt), alt)
 }
 
 // sidedPower returns the normal-approximation power of a z test with
-// signed effect d per unit (positive: the Greater direction), null and
+// signed effect d per unit (positive: the test.Higher direction), null and
 // alternative standard deviations s0 and s1 per unit, critical value za
 // and n units:
 //
 //	side(e) = Phi( (sqrt(n) e - za s0) / s1 ),
 //
-// side(d) for Greater, side(-d) for Less, their sum (at most 1) for
+// side(d) for test.Higher, side(-d) for test.Lower, their sum (at most 1) for
 // two-sided. s1 = 0 gives 0 or 1 by the sign of the numerator.
-func sidedPower(n, d, s0, s1, za float64, alt Alternative) float64 {
+func sidedPower(n, d, s0, s1, za float64, alt test.Alternative) float64 {
 	side := func(e float64) float64 {
 		num := math.Sqrt(n)*e - za*s0
 		if s1 == 0 {
@@ -100,9 +101,9 @@ func sidedPower(n, d, s0, s1, za float64, alt Alternative) float64 {
 		return phi(num / s1)
 	}
 	switch alt {
-	case Greater:
+	case test.Higher:
 		return side(d)
-	case Less:
+	case test.Lower:
 		return side(-d)
 	}
 	return math.Min(1, side(d)+side(-d))

@@ -8,6 +8,7 @@ import (
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
 	"github.com/kofnlab/kofn/internal/golden"
+	"github.com/kofnlab/kofn/test"
 )
 
 // Normal-approximation sizes against an independent SciPy implementation
@@ -20,10 +21,10 @@ func TestNormalGolden(t *testing.T) {
 	_, rows := golden.ReadCases(t, "../testdata/power_normal.tsv")
 	for _, r := range rows {
 		p1, p2, alpha, pw := r.Float(1), r.Float(2), r.Float(3), r.Float(4)
-		var alt Alternative
+		var alt test.Alternative
 		if r.Fields[5] != "-" {
 			var err error
-			if alt, err = ParseAlternative(r.Fields[5]); err != nil {
+			if alt, err = goldenAlt(r.Fields[5]); err != nil {
 				t.Fatal(err)
 			}
 		}
@@ -70,7 +71,7 @@ func TestOneSampleProperties(t *testing.T) {
 	t.Parallel()
 	prev := 0.0
 	for _, p1 := range []float64{0.31, 0.33, 0.36, 0.4, 0.5} {
-		r, err := OneSamplePower(200, 0.3, p1, OneSampleOptions{Alternative: Greater})
+		r, err := OneSamplePower(200, 0.3, p1, OneSampleOptions{Alternative: test.Higher})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -79,7 +80,7 @@ func TestOneSampleProperties(t *testing.T) {
 		}
 		prev = r.Power
 	}
-	for _, o := range []OneSampleOptions{{}, {Alternative: Greater}, {Method: Central}} {
+	for _, o := range []OneSampleOptions{{}, {Alternative: test.Higher}, {Rule: test.Central}} {
 		prev = 0
 		for _, a := range []float64{0.001, 0.01, 0.05, 0.1, 0.2} {
 			o.Alpha = a
@@ -114,13 +115,13 @@ func TestNormalErrors(t *testing.T) {
 	}{
 		{errOf(OneSampleNormalN(0.5, 0.5, OneSampleOptions{})), ErrInvalidArgument, "power.OneSampleNormalN: p1 = 0.5 equals p0: a sample size needs an effect to detect"},
 		{errOf(OneSampleNormalN(0, 0.5, OneSampleOptions{})), ErrInvalidArgument, "power.OneSampleNormalN: p0 = 0 must lie strictly between 0 and 1"},
-		{errOf(OneSampleNormalN(0.5, 0.4, OneSampleOptions{Alternative: Greater})), ErrNoSolution, ""},
+		{errOf(OneSampleNormalN(0.5, 0.4, OneSampleOptions{Alternative: test.Higher})), ErrNoSolution, ""},
 		{errOf(OneSampleNormalN(0.5, 0.6, OneSampleOptions{Power: 1})), ErrInvalidArgument, "power.OneSampleNormalN: Power = 1 must lie strictly between 0 and 1"},
 		{errOf(TwoSampleNormalN(0.5, 0.6, TwoSampleOptions{Ratio: -1})), ErrInvalidArgument, ""},
 		{errOf(TwoSampleNormalN(0.5, 0.6, TwoSampleOptions{Hypothesis: Equivalence})), ErrInvalidArgument, ""},
 		{errOf(TwoSampleNormalN(0.5, 0.8, TwoSampleOptions{Hypothesis: Equivalence, Margin: 0.1})), ErrNoSolution, ""},
 		{errOf(TwoSampleNormalN(0.5, 0.7, TwoSampleOptions{Hypothesis: NonInferiority, Margin: 0.1})), ErrNoSolution, ""},
-		{errOf(MarginOfErrorN(0.5, 0, 0.95)), ErrInvalidArgument, "power.MarginOfErrorN: d = 0 must lie strictly between 0 and 1"},
+		{errOf(MarginOfErrorN(0.5, 0, 0.95)), ErrInvalidArgument, "power.MarginOfErrorN: halfWidth = 0 must lie strictly between 0 and 1"},
 	}
 	for _, tc := range cases {
 		if !errors.Is(tc.err, tc.want) || (tc.msg != "" && tc.err.Error() != tc.msg) {
@@ -128,53 +129,40 @@ func TestNormalErrors(t *testing.T) {
 		}
 	}
 	for _, s := range []string{"sideways"} {
-		if _, err := ParseAlternative(s); !errors.Is(err, ErrInvalidArgument) {
-			t.Errorf("ParseAlternative(%q): %v", s, err)
+		if _, err := test.ParseAlternative(s); !errors.Is(err, ErrInvalidArgument) {
+			t.Errorf("test.ParseAlternative(%q): %v", s, err)
 		}
 	}
 }
 
 func errOf[T any](_ T, err error) error { return err }
 
-// Every enum round-trips through String and its parser.
+// Every enum of the package round-trips through String, its parser and
+// its text encoding.
 func TestEnumsRoundTrip(t *testing.T) {
 	t.Parallel()
-	for _, a := range []Alternative{TwoSided, Greater, Less} {
-		if g, err := ParseAlternative(a.String()); err != nil || g != a {
-			t.Errorf("Alternative %v: %v %v", a, g, err)
+	type enumValue interface {
+		String() string
+		MarshalText() ([]byte, error)
+	}
+	check := func(v enumValue, parse func(string) (enumValue, error)) {
+		t.Helper()
+		g, err := parse(v.String())
+		b, merr := v.MarshalText()
+		if err != nil || g != v || merr != nil || string(b) != v.String() {
+			t.Errorf("%T %v: parsed %v (%v), text %q (%v)", v, v, g, err, b, merr)
 		}
 	}
-	for m := PointProbability; m <= Blaker; m++ {
-		if g, err := ParseTwoSidedMethod(m.String()); err != nil || g != m {
-			t.Errorf("TwoSidedMethod %v: %v %v", m, g, err)
-		}
+	for _, v := range ExactTestValues() {
+		check(v, func(s string) (enumValue, error) { return ParseExactTest(s) })
 	}
-	for m := Fisher; m <= ZPooled; m++ {
-		if g, err := ParseExactTest(m.String()); err != nil || g != m {
-			t.Errorf("ExactTest %v: %v %v", m, g, err)
-		}
+	for _, v := range VarianceValues() {
+		check(v, func(s string) (enumValue, error) { return ParseVariance(s) })
 	}
-	for m := McNemarExact; m <= McNemarAsymptotic; m++ {
-		if g, err := ParsePairedMethod(m.String()); err != nil || g != m {
-			t.Errorf("PairedMethod %v: %v %v", m, g, err)
-		}
+	for _, v := range CorrectionValues() {
+		check(v, func(s string) (enumValue, error) { return ParseCorrection(s) })
 	}
-	for v := PooledNull; v <= Unpooled; v++ {
-		if g, err := ParseVariance(v.String()); err != nil || g != v {
-			t.Errorf("Variance %v: %v %v", v, g, err)
-		}
-	}
-	for c := CPS; c <= NoCorrection; c++ {
-		if g, err := ParseCorrection(c.String()); err != nil || g != c {
-			t.Errorf("Correction %v: %v %v", c, g, err)
-		}
-	}
-	for h := Equality; h <= Equivalence; h++ {
-		if g, err := ParseHypothesis(h.String()); err != nil || g != h {
-			t.Errorf("Hypothesis %v: %v %v", h, g, err)
-		}
-	}
-	if s := Alternative(9).String(); s != "Alternative(9)" {
-		t.Errorf("undefined alternative prints %q", s)
+	for _, v := range HypothesisValues() {
+		check(v, func(s string) (enumValue, error) { return ParseHypothesis(s) })
 	}
 }

@@ -3,7 +3,10 @@ package power
 import (
 	"math"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/test"
 )
 
 // Variance selects the variance used under H0 by the two-sample normal
@@ -21,25 +24,22 @@ const (
 	Unpooled
 )
 
-var varianceNames = [...]string{"pooled", "unpooled"}
+var varianceNames = enum.New[Variance]("power.Variance", []string{"pooled", "unpooled"}, nil)
 
 // String returns "pooled" or "unpooled".
-func (v Variance) String() string {
-	if v < 0 || int(v) >= len(varianceNames) {
-		return "Variance(" + argerr.Format(int(v)) + ")"
-	}
-	return varianceNames[v]
-}
+func (v Variance) String() string { return varianceNames.String(v) }
 
-// ParseVariance converts "pooled" or "unpooled" (case insensitive).
-func ParseVariance(s string) (Variance, error) {
-	for i, n := range varianceNames {
-		if equalFold(s, n) {
-			return Variance(i), nil
-		}
-	}
-	return 0, argerr.Invalid("power.ParseVariance", "s", s, `is not a variance; use "pooled" or "unpooled"`)
-}
+// MarshalText encodes the value by its String form.
+func (v Variance) MarshalText() ([]byte, error) { return varianceNames.MarshalText(v) }
+
+// UnmarshalText decodes any spelling ParseVariance accepts.
+func (v *Variance) UnmarshalText(b []byte) error { return varianceNames.UnmarshalText(v, b) }
+
+// ParseVariance converts a String form (case insensitive) to a value.
+func ParseVariance(s string) (Variance, error) { return varianceNames.Parse("power.ParseVariance", s) }
+
+// VarianceValues lists the values in order.
+func VarianceValues() []Variance { return varianceNames.Values() }
 
 // Correction selects the continuity correction of the two-sample normal
 // sample size. The zero value, CPS, is the default because the corrected
@@ -56,27 +56,24 @@ const (
 	NoCorrection
 )
 
-var correctionNames = [...]string{"cps", "none"}
+var correctionNames = enum.New[Correction]("power.Correction", []string{"cps", "none"}, map[string]Correction{"fleiss": CPS, "casagrande-pike-smith": CPS, "uncorrected": NoCorrection})
 
 // String returns "cps" or "none".
-func (c Correction) String() string {
-	if c < 0 || int(c) >= len(correctionNames) {
-		return "Correction(" + argerr.Format(int(c)) + ")"
-	}
-	return correctionNames[c]
+func (v Correction) String() string { return correctionNames.String(v) }
+
+// MarshalText encodes the value by its String form.
+func (v Correction) MarshalText() ([]byte, error) { return correctionNames.MarshalText(v) }
+
+// UnmarshalText decodes any spelling ParseCorrection accepts.
+func (v *Correction) UnmarshalText(b []byte) error { return correctionNames.UnmarshalText(v, b) }
+
+// ParseCorrection converts a String form (case insensitive) to a value (also the spellings listed beside the table).
+func ParseCorrection(s string) (Correction, error) {
+	return correctionNames.Parse("power.ParseCorrection", s)
 }
 
-// ParseCorrection converts "cps" or "none" (case insensitive; "fleiss"
-// and "casagrande-pike-smith" mean cps, "uncorrected" means none).
-func ParseCorrection(s string) (Correction, error) {
-	switch {
-	case equalFold(s, "cps"), equalFold(s, "fleiss"), equalFold(s, "casagrande-pike-smith"):
-		return CPS, nil
-	case equalFold(s, "none"), equalFold(s, "uncorrected"):
-		return NoCorrection, nil
-	}
-	return 0, argerr.Invalid("power.ParseCorrection", "s", s, `is not a correction; use "cps" or "none"`)
-}
+// CorrectionValues lists the values in order.
+func CorrectionValues() []Correction { return correctionNames.Values() }
 
 // Hypothesis is the form of the null hypothesis about the difference
 // d = p1 - p2 of two proportions. The zero value, Equality, is the
@@ -96,26 +93,24 @@ const (
 	Equivalence
 )
 
-var hypothesisNames = [...]string{"equality", "non-inferiority", "equivalence"}
+var hypothesisNames = enum.New[Hypothesis]("power.Hypothesis", []string{"equality", "non-inferiority", "equivalence"}, map[string]Hypothesis{"noninferiority": NonInferiority, "noninf": NonInferiority, "equiv": Equivalence})
 
 // String returns "equality", "non-inferiority" or "equivalence".
-func (h Hypothesis) String() string {
-	if h < 0 || int(h) >= len(hypothesisNames) {
-		return "Hypothesis(" + argerr.Format(int(h)) + ")"
-	}
-	return hypothesisNames[h]
+func (v Hypothesis) String() string { return hypothesisNames.String(v) }
+
+// MarshalText encodes the value by its String form.
+func (v Hypothesis) MarshalText() ([]byte, error) { return hypothesisNames.MarshalText(v) }
+
+// UnmarshalText decodes any spelling ParseHypothesis accepts.
+func (v *Hypothesis) UnmarshalText(b []byte) error { return hypothesisNames.UnmarshalText(v, b) }
+
+// ParseHypothesis converts a String form (case insensitive) to a value (also the spellings listed beside the table).
+func ParseHypothesis(s string) (Hypothesis, error) {
+	return hypothesisNames.Parse("power.ParseHypothesis", s)
 }
 
-// ParseHypothesis converts "equality", "non-inferiority" or
-// "equivalence" (case insensitive).
-func ParseHypothesis(s string) (Hypothesis, error) {
-	for i, n := range hypothesisNames {
-		if equalFold(s, n) {
-			return Hypothesis(i), nil
-		}
-	}
-	return 0, argerr.Invalid("power.ParseHypothesis", "s", s, `is not a hypothesis; use "equality", "non-inferiority" or "equivalence"`)
-}
+// HypothesisValues lists the values in order.
+func HypothesisValues() []Hypothesis { return hypothesisNames.Values() }
 
 // TwoSampleOptions configures the two-sample functions. The zero value
 // means: test of equality, two-sided, alpha 0.05, power 0.80, equal
@@ -128,7 +123,7 @@ type TwoSampleOptions struct {
 	// Power is the target power in (0, 1); 0 means 0.80.
 	Power float64
 	// Alternative is the direction for Equality (ignored otherwise).
-	Alternative Alternative
+	Alternative test.Alternative
 	// Ratio is the allocation ratio r = n2/n1 > 0; 0 means 1.
 	Ratio float64
 	// Variance selects the null variance of the normal formulas
@@ -153,7 +148,7 @@ type TwoSampleOptions struct {
 // twoSetup holds validated two-sample inputs.
 type twoSetup struct {
 	p1, p2, alpha, pw, r, margin float64
-	alt                          Alternative
+	alt                          test.Alternative
 	hyp                          Hypothesis
 }
 
@@ -182,8 +177,8 @@ func (o TwoSampleOptions) setup(fn string, p1, p2 float64, needEffect bool) (two
 	if o.Correction < CPS || o.Correction > NoCorrection {
 		return s, argerr.Invalid(fn, "Correction", int(o.Correction), "is not a defined Correction")
 	}
-	if o.Test < Fisher || o.Test > ZPooled {
-		return s, argerr.Invalid(fn, "Test", int(o.Test), "is not a defined ExactTest")
+	if err := exactTestNames.Check(fn, "Test", o.Test); err != nil {
+		return s, err
 	}
 	d := p1 - p2
 	switch o.Hypothesis {
@@ -192,7 +187,7 @@ func (o TwoSampleOptions) setup(fn string, p1, p2 float64, needEffect bool) (two
 			if p1 == p2 {
 				return s, argerr.Invalid(fn, "p2", p2, "equals p1: a sample size needs an effect to detect")
 			}
-			if (s.alt == Greater && d < 0) || (s.alt == Less && d > 0) {
+			if (s.alt == test.Higher && d < 0) || (s.alt == test.Lower && d > 0) {
 				return s, argerr.NoSolution(fn, "p1 - p2 = "+argerr.Format(d)+" lies on the null side for the "+s.alt.String()+" alternative: the power never exceeds alpha")
 			}
 		}
@@ -381,9 +376,9 @@ func twoNormalPower(n1, n2 float64, s twoSetup, v Variance, c Correction) float6
 	}
 	side := func(e float64) float64 { return ratio(e - cc - za*s0) }
 	switch s.alt {
-	case Greater:
+	case test.Higher:
 		return side(d)
-	case Less:
+	case test.Lower:
 		return side(-d)
 	}
 	return math.Min(1, side(d)+side(-d))

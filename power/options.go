@@ -2,26 +2,27 @@ package power
 
 import (
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/test"
 )
 
 // OneSampleOptions configures the one-sample power and sample size
 // functions. The zero value means: two-sided test at alpha = 0.05, target
-// power 0.80, the two-sided method's default, search limit
+// power 0.80, the point-probability two-sided rule, search limit
 // DefaultMaxN.
 type OneSampleOptions struct {
 	// Alpha is the significance level in (0, 1); 0 means 0.05.
 	Alpha float64
 	// Power is the target power in (0, 1) for sample size searches; 0 means 0.80.
 	Power float64
-	// Alternative is the direction of the test; the zero value is TwoSided.
-	Alternative Alternative
-	// Method selects how the exact test forms a two-sided p-value; see
-	// TwoSidedMethod. Ignored by one-sided tests and the normal
-	// approximations.
-	Method TwoSidedMethod
-	// Mid selects the mid-p variant of the exact test (not guaranteed to
+	// Alternative is the direction of the test; the zero value is test.TwoSided.
+	Alternative test.Alternative
+	// Rule is the two-sided rule of the exact test (test.TwoSidedRule,
+	// as in test.BinomialOptions). Ignored by one-sided tests and the
+	// normal approximations.
+	Rule test.TwoSidedRule
+	// MidP selects the mid-p version of the exact test (not guaranteed to
 	// keep the size at or below Alpha; the attained size is reported).
-	Mid bool
+	MidP bool
 	// MaxN bounds exact sample size searches and power curves; 0 means
 	// DefaultMaxN, and values above MaxSearchN give ErrTooLarge.
 	MaxN int64
@@ -60,7 +61,7 @@ func (o OneSampleOptions) levels(fn string, p0, p1 float64) (alpha, pw float64, 
 		err = argerr.Invalid(fn, "p1", p1, "equals p0: a sample size needs an effect to detect")
 		return
 	}
-	if (o.Alternative == Greater && p1 < p0) || (o.Alternative == Less && p1 > p0) {
+	if (o.Alternative == test.Higher && p1 < p0) || (o.Alternative == test.Lower && p1 > p0) {
 		err = argerr.NoSolution(fn, "p1 = "+argerr.Format(p1)+" lies on the null side of p0 = "+argerr.Format(p0)+
 			" for the "+o.Alternative.String()+" alternative: the power never exceeds alpha")
 		return
@@ -82,8 +83,7 @@ func (o OneSampleOptions) base(fn string, p0, p1 float64) (alpha, pw float64, er
 	if err = checkAlternative(fn, o.Alternative); err != nil {
 		return
 	}
-	if o.Method < PointProbability || o.Method > Blaker {
-		err = argerr.Invalid(fn, "Method", int(o.Method), "is not a defined TwoSidedMethod")
+	if err = o.Rule.Check(fn, "Rule"); err != nil {
 		return
 	}
 	return alphaPower(fn, o.Alpha, o.Power)

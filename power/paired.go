@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/test"
 )
 
 // PairedOptions configures the paired (McNemar) functions. The zero value
@@ -14,27 +15,36 @@ type PairedOptions struct {
 	Alpha float64
 	// Power is the target power in (0, 1); 0 means 0.80.
 	Power float64
-	// Alternative is the direction for p10 - p01; the zero value is TwoSided.
-	Alternative Alternative
-	// Method selects the McNemar test; the zero value is McNemarExact.
-	Method PairedMethod
-	// Enumerate, with McNemarAsymptotic, replaces Connor's formula by the
-	// exact power of the chi-square test, enumerated like the others.
+	// Alternative is the direction for p12 - p21; the zero value is test.TwoSided.
+	Alternative test.Alternative
+	// Method selects the McNemar test that test.McNemar will run: the zero
+	// value, test.McNemarExact, is the default for planning because its
+	// size never exceeds alpha; test.McNemarAsymptotic is the chi-square
+	// test without continuity correction, planned by Connor's (1987)
+	// normal formula (PairedNormalPower) or, with Enumerate, by its exact
+	// power. test.McNemarAsymptoticCC is not planned.
+	Method test.McNemarMethod
+	// MidP selects the mid-p version of the exact test (more powerful,
+	// its size only approximately at most Alpha; Fagerland, Lydersen and
+	// Laake 2013), as test.McNemarOptions.MidP.
+	MidP bool
+	// Enumerate, with test.McNemarAsymptotic, replaces Connor's formula by
+	// the exact power of the chi-square test, enumerated like the others.
 	Enumerate bool
 	// MaxN bounds the number of pairs in exact searches; 0 means DefaultMaxN.
 	MaxN int64
 }
 
 // pairedCheck validates the discordant probabilities and the options.
-func (o PairedOptions) check(fn string, p10, p01 float64, needEffect bool) (alpha, pw float64, err error) {
-	if err = argerr.Prob(fn, "p10", p10); err != nil {
+func (o PairedOptions) check(fn string, p12, p21 float64, needEffect bool) (alpha, pw float64, err error) {
+	if err = argerr.Prob(fn, "p12", p12); err != nil {
 		return
 	}
-	if err = argerr.Prob(fn, "p01", p01); err != nil {
+	if err = argerr.Prob(fn, "p21", p21); err != nil {
 		return
 	}
-	if !(p10+p01 <= 1) {
-		err = argerr.Invalid(fn, "p01", p01, "plus p10 = "+argerr.Format(p10)+" exceeds 1")
+	if !(p12+p21 <= 1) {
+		err = argerr.Invalid(fn, "p21", p21, "plus p12 = "+argerr.Format(p12)+" exceeds 1")
 		return
 	}
 	if err = checkAlternative(fn, o.Alternative); err != nil {
@@ -46,12 +56,12 @@ func (o PairedOptions) check(fn string, p10, p01 float64, needEffect bool) (alph
 	if !needEffect {
 		return
 	}
-	if p10 == p01 {
-		err = argerr.Invalid(fn, "p01", p01, "equals p10: a sample size needs discordant probabilities that differ")
+	if p12 == p21 {
+		err = argerr.Invalid(fn, "p21", p21, "equals p12: a sample size needs discordant probabilities that differ")
 		return
 	}
-	if (o.Alternative == Greater && p10 < p01) || (o.Alternative == Less && p10 > p01) {
-		err = argerr.NoSolution(fn, "p10 - p01 lies on the null side for the "+o.Alternative.String()+" alternative: the power never exceeds alpha")
+	if (o.Alternative == test.Higher && p12 < p21) || (o.Alternative == test.Lower && p12 > p21) {
+		err = argerr.NoSolution(fn, "p12 - p21 lies on the null side for the "+o.Alternative.String()+" alternative: the power never exceeds alpha")
 		return
 	}
 	if pw <= alpha {
@@ -61,22 +71,22 @@ func (o PairedOptions) check(fn string, p10, p01 float64, needEffect bool) (alph
 }
 
 // PairedNormalN returns the asymptotic number of pairs for McNemar's test
-// to have the target power when the discordant cell probabilities are p10
-// (success on the first measurement only) and p01 (second only), by
+// to have the target power when the discordant cell probabilities are p12
+// (success on the first measurement only) and p21 (second only), by
 // Connor's formula (Connor RJ 1987, Sample size for testing differences in
 // proportions for the paired-sample design, Biometrics 43:207-211):
 //
 //	n = [ z_a sqrt(psi) + z_b sqrt(psi - delta^2) ]^2 / delta^2,
-//	psi = p10 + p01, delta = p10 - p01.
+//	psi = p12 + p21, delta = p12 - p21.
 //
-// Domain: probabilities in [0, 1] with p10 + p01 <= 1 and p10 != p01.
-func PairedNormalN(p10, p01 float64, o PairedOptions) (NormalSize, error) {
+// Domain: probabilities in [0, 1] with p12 + p21 <= 1 and p12 != p21.
+func PairedNormalN(p12, p21 float64, o PairedOptions) (NormalSize, error) {
 	const fn = "power.PairedNormalN"
-	alpha, pw, err := o.check(fn, p10, p01, true)
+	alpha, pw, err := o.check(fn, p12, p21, true)
 	if err != nil {
 		return NormalSize{}, err
 	}
-	psi, delta := p10+p01, p10-p01
+	psi, delta := p12+p21, p12-p21
 	za, zb := zAlpha(alpha, o.Alternative), zq(pw)
 	num := za*math.Sqrt(psi) + zb*math.Sqrt(math.Max(0, psi-delta*delta))
 	if num <= 0 {
@@ -87,7 +97,7 @@ func PairedNormalN(p10, p01 float64, o PairedOptions) (NormalSize, error) {
 		return NormalSize{}, err
 	}
 	r := NormalSize{Method: "McNemar asymptotic (Connor 1987)", Real: real, Uncorrected: real, N: ceilN(real)}
-	r.Power = pairedNormalPower(float64(r.N), p10, p01, alpha, o.Alternative)
+	r.Power = pairedNormalPower(float64(r.N), p12, p21, alpha, o.Alternative)
 	if float64(r.N)*psi < 20 {
 		r.Warnings = append(r.Warnings, "fewer than 20 discordant pairs expected: check with the exact conditional power")
 	}
@@ -99,24 +109,45 @@ func PairedNormalN(p10, p01 float64, o PairedOptions) (NormalSize, error) {
 //
 //	Phi( (sqrt(n) delta - z_a sqrt(psi)) / sqrt(psi - delta^2) ).
 //
-// p10 may equal p01 (power near alpha).
-func PairedNormalPower(n int64, p10, p01 float64, o PairedOptions) (float64, error) {
+// p12 may equal p21 (power near alpha).
+func PairedNormalPower(n int64, p12, p21 float64, o PairedOptions) (float64, error) {
 	const fn = "power.PairedNormalPower"
 	if n < 1 {
 		return 0, argerr.Invalid(fn, "n", n, "must be at least 1")
 	}
-	alpha, _, err := o.check(fn, p10, p01, false)
+	alpha, _, err := o.check(fn, p12, p21, false)
 	if err != nil {
 		return 0, err
 	}
-	return pairedNormalPower(float64(n), p10, p01, alpha, o.Alternative), nil
+	return pairedNormalPower(float64(n), p12, p21, alpha, o.Alternative), nil
 }
 
-func pairedNormalPower(n, p10, p01, alpha float64, alt Alternative) float64 {
-	psi := p10 + p01
+func pairedNormalPower(n, p12, p21, alpha float64, alt test.Alternative) float64 {
+	psi := p12 + p21
 	if psi == 0 {
 		return 0
 	}
-	s1 := math.Sqrt(math.Max(0, psi-(p10-p01)*(p10-p01)))
-	return sidedPower(n, p10-p01, math.Sqrt(psi), s1, zAlpha(alpha, alt), alt)
+	s1 := math.Sqrt(math.Max(0, psi-(p12-p21)*(p12-p21)))
+	return sidedPower(n, p12-p21, math.Sqrt(psi), s1, zAlpha(alpha, alt), alt)
+}
+
+// checkMethod validates the McNemar test the options plan for.
+func (o PairedOptions) checkMethod(fn string) error {
+	switch o.Method {
+	case test.McNemarExact, test.McNemarAsymptotic:
+		return nil
+	case test.McNemarAsymptoticCC:
+		return argerr.Invalid(fn, "Method", o.Method.String(), "is not planned; use McNemarExact or McNemarAsymptotic")
+	}
+	return argerr.Invalid(fn, "Method", int(o.Method), "is not a test.McNemarMethod")
+}
+
+// testName names the planned test as test.McNemar names it, with the
+// alternative.
+func (o PairedOptions) testName() string {
+	name := o.Method.String()
+	if o.MidP && o.Method == test.McNemarExact {
+		name = "McNemar mid-p"
+	}
+	return name + ", " + o.Alternative.String()
 }

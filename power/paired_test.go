@@ -8,6 +8,7 @@ import (
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
 	"github.com/kofnlab/kofn/internal/golden"
+	"github.com/kofnlab/kofn/test"
 )
 
 // Exact power of McNemar's exact conditional, mid-p and asymptotic tests
@@ -21,22 +22,22 @@ func TestPairedGolden(t *testing.T) {
 		byCase[r.Fields[0]] = append(byCase[r.Fields[0]], r)
 	}
 	for name, c := range cases {
-		p10, p01 := c.Float("p10"), c.Float("p01")
+		p12, p21 := c.Float("p10"), c.Float("p01")
 		o := PairedOptions{Alpha: c.Float("alpha"), Power: c.Float("target"), MaxN: c.Int("nmax")}
 		var err error
-		if o.Alternative, err = ParseAlternative(c.Values["3"]); err != nil {
+		if o.Alternative, err = goldenAlt(c.Values["3"]); err != nil {
 			t.Fatal(err)
 		}
 		switch c.Values["mid"] {
 		case "1":
-			o.Method = McNemarMidP
+			o.Method, o.MidP = test.McNemarExact, true
 		case "2":
-			o.Method, o.Enumerate = McNemarAsymptotic, true
+			o.Method, o.Enumerate = test.McNemarAsymptotic, true
 		}
 		var want, got []float64
 		for _, r := range byCase[name] {
 			want = append(want, r.Float(2))
-			ep, err := PairedPower(context.Background(), r.Int(1), p10, p01, o)
+			ep, err := PairedPower(context.Background(), r.Int(1), p12, p21, o)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -45,7 +46,7 @@ func TestPairedGolden(t *testing.T) {
 		if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-9, 1e-300)); diff != "" {
 			t.Errorf("%s power (-want +got):\n%s", name, diff)
 		}
-		ss, err := PairedN(context.Background(), p10, p01, o)
+		ss, err := PairedN(context.Background(), p12, p21, o)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -67,19 +68,19 @@ func TestPairedGolden(t *testing.T) {
 // hundreds: the property "normal n close to exact n for large samples").
 func TestPairedNormalAgreesWithExact(t *testing.T) {
 	t.Parallel()
-	for _, tc := range []struct{ p10, p01 float64 }{{0.25, 0.10}, {0.12, 0.08}, {0.3, 0.25}} {
-		ns, err := PairedNormalN(tc.p10, tc.p01, PairedOptions{})
+	for _, tc := range []struct{ p12, p21 float64 }{{0.25, 0.10}, {0.12, 0.08}, {0.3, 0.25}} {
+		ns, err := PairedNormalN(tc.p12, tc.p21, PairedOptions{})
 		if err != nil {
 			t.Fatal(err)
 		}
-		pw := pairedNormalPower(ns.Real, tc.p10, tc.p01, 0.05, TwoSided)
+		pw := pairedNormalPower(ns.Real, tc.p12, tc.p21, 0.05, test.TwoSided)
 		if diff := cmp.Diff(0.80, pw, cmpopts.EquateApprox(2e-3, 0)); diff != "" {
 			t.Errorf("%+v: power at the formula n (-want +got):\n%s", tc, diff)
 		}
 		if testing.Short() && ns.N > 1000 {
 			continue
 		}
-		ex, err := PairedN(context.Background(), tc.p10, tc.p01, PairedOptions{Method: McNemarMidP})
+		ex, err := PairedN(context.Background(), tc.p12, tc.p21, PairedOptions{Method: test.McNemarExact, MidP: true})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -97,7 +98,7 @@ func TestPairedErrors(t *testing.T) {
 	if _, err := PairedNormalN(0.7, 0.4, PairedOptions{}); !errors.Is(err, ErrInvalidArgument) {
 		t.Errorf("sum above 1: %v", err)
 	}
-	if _, err := PairedN(context.Background(), 0.1, 0.2, PairedOptions{Alternative: Greater}); !errors.Is(err, ErrNoSolution) {
+	if _, err := PairedN(context.Background(), 0.1, 0.2, PairedOptions{Alternative: test.Higher}); !errors.Is(err, ErrNoSolution) {
 		t.Errorf("wrong side: %v", err)
 	}
 	if _, err := PairedPower(context.Background(), 0, 0.1, 0.2, PairedOptions{}); !errors.Is(err, ErrInvalidArgument) {

@@ -46,7 +46,7 @@ func TestPrecisionGolden(t *testing.T) {
 	}
 	for name, c := range cases {
 		p, eps := c.Float("p"), c.Float("eps")
-		o := PrecisionOptions{Target: c.Float("target"), MaxN: c.Int("nmax")}
+		o := PrecisionOptions{Level: c.Float("target"), MaxN: c.Int("nmax")}
 		r, err := PrecisionN(ctx, p, eps, o)
 		if err != nil {
 			t.Fatal(err)

@@ -52,18 +52,18 @@ func TestMarginOfError(t *testing.T) {
 // C = 0.95 with no failures needs 299 trials; 298 achieve only 0.94996.
 func TestSuccessRun(t *testing.T) {
 	t.Parallel()
-	got, err := DemonstrationTrials(0.99, 0.95, 0)
+	got, err := DemonstrationTrials(0, 0.99, 0.95)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if got.Trials != 299 {
-		t.Errorf("DemonstrationTrials(0.99, 0.95, 0).Trials = %d, want 299", got.Trials)
+		t.Errorf("DemonstrationTrials(0, 0.99, 0.95).Trials = %d, want 299", got.Trials)
 	}
-	if diff := cmp.Diff(0.94996, got.PreviousConfidence, cmpopts.EquateApprox(1e-5, 0)); diff != "" {
+	if diff := cmp.Diff(0.94996, got.PreviousLevel, cmpopts.EquateApprox(1e-5, 0)); diff != "" {
 		t.Errorf("confidence of 298 trials (-want +got):\n%s", diff)
 	}
-	if got.AchievedConfidence < 0.95 {
-		t.Errorf("achieved confidence %v below 0.95", got.AchievedConfidence)
+	if got.AchievedLevel < 0.95 {
+		t.Errorf("achieved confidence %v below 0.95", got.AchievedLevel)
 	}
 }
 

@@ -58,18 +58,18 @@ func (r *region) at(n int64) (lo, hi int64) {
 	}
 	r.n = n
 	switch r.t.Alternative {
-	case onesample.Greater:
+	case onesample.Higher:
 		r.lo = 0
 		if r.hi+1 <= n && r.ok(r.hi+1, n) {
 			r.hi++
 		}
-	case onesample.Less:
+	case onesample.Lower:
 		r.hi = n
 		if !r.ok(r.lo, n) {
 			r.lo++
 		}
 	case onesample.TwoSided:
-		if r.t.Method == onesample.Central && r.hi-r.lo >= 2 {
+		if r.t.Rule == onesample.Central && r.hi-r.lo >= 2 {
 			// Each boundary is a one-sided boundary at alpha/2 (the doubled
 			// smaller tail): the same 0-or-1 step holds while the region
 			// keeps at least three outcomes, so neither boundary's
@@ -82,7 +82,7 @@ func (r *region) at(n int64) (lo, hi int64) {
 			}
 			break
 		}
-		if r.t.Method == onesample.PointProbability {
+		if r.t.Rule == onesample.PointProbability {
 			if lo, hi, ok := r.certify(n); ok {
 				r.lo, r.hi = lo, hi
 				break
@@ -90,7 +90,7 @@ func (r *region) at(n int64) (lo, hi int64) {
 			r.full(n)
 			break
 		}
-		if r.t.Method == onesample.Blaker {
+		if r.t.Rule == onesample.Blaker {
 			// Blaker's p-value is P(e(X) <= e(k)) for the smaller tail
 			// e(k) = min(P(X <= k), P(X >= k)), also unimodal in k, so the
 			// same two-decision certificate applies with e for f.
@@ -178,7 +178,7 @@ func (r *region) certify(n int64) (lo, hi int64, ok bool) {
 	if r.null == nil {
 		r.null = newTailPair(r.t.P0)
 	}
-	if !r.t.Mid && lo <= hi {
+	if !r.t.MidP && lo <= hi {
 		s := r.null.at(n, lo, hi)
 		lp := func(k int64) float64 {
 			if k < 0 || k > n {

@@ -24,15 +24,15 @@ func TestReliabilityGolden(t *testing.T) {
 	for _, r := range rows {
 		switch r.Fields[0] {
 		case "demo":
-			d, err := DemonstrationTrials(r.Float(1), r.Float(2), r.Int(3))
+			d, err := DemonstrationTrials(r.Int(3), r.Float(1), r.Float(2))
 			if err != nil {
 				t.Fatal(err)
 			}
 			if d.Trials != r.Int(4) {
 				t.Errorf("DemonstrationTrials%v = %d, want %s", r.Fields[1:4], d.Trials, r.Fields[4])
 			}
-			if d.AchievedConfidence < d.Confidence || (d.PreviousConfidence >= d.Confidence) {
-				t.Errorf("%v: achieved %v previous %v", r.Fields[1:4], d.AchievedConfidence, d.PreviousConfidence)
+			if d.AchievedLevel < d.Level || (d.PreviousLevel >= d.Level) {
+				t.Errorf("%v: achieved %v previous %v", r.Fields[1:4], d.AchievedLevel, d.PreviousLevel)
 			}
 		case "bound":
 			got, err := DemonstratedReliability(r.Int(1), r.Int(2), r.Float(3))
@@ -56,13 +56,13 @@ func TestReliabilityGolden(t *testing.T) {
 
 func TestReliabilityErrors(t *testing.T) {
 	t.Parallel()
-	if _, err := DemonstrationTrials(1, 0.9, 0); !errors.Is(err, ErrInvalidArgument) {
+	if _, err := DemonstrationTrials(0, 1, 0.9); !errors.Is(err, ErrInvalidArgument) {
 		t.Errorf("R = 1: %v", err)
 	}
-	if _, err := DemonstrationTrials(0.9, 0.9, -1); !errors.Is(err, ErrInvalidArgument) {
+	if _, err := DemonstrationTrials(-1, 0.9, 0.9); !errors.Is(err, ErrInvalidArgument) {
 		t.Errorf("failures = -1: %v", err)
 	}
-	if _, err := DemonstrationTrials(1-1e-15, 0.9, 0); !errors.Is(err, ErrTooLarge) {
+	if _, err := DemonstrationTrials(0, 1-1e-15, 0.9); !errors.Is(err, ErrTooLarge) {
 		t.Errorf("R = 1 - 1e-15: %v", err)
 	}
 	if _, err := DemonstratedReliability(10, 11, 0.9); !errors.Is(err, ErrInvalidArgument) {

@@ -19,8 +19,10 @@ type NormalSize struct {
 	// Uncorrected is the unrounded size before a continuity correction;
 	// equal to Real when none was applied.
 	Uncorrected float64 `json:"uncorrected"`
-	// Power is the approximate power at N by the same approximation.
-	Power float64 `json:"power"`
+	// Power is the approximate power at N by the same approximation; 0,
+	// and omitted from JSON, where the formula is not a test's (the
+	// margin-of-error sizes).
+	Power float64 `json:"power,omitempty"`
 	// Warnings lists caveats that do not stop the answer.
 	Warnings []string `json:"warnings,omitempty"`
 }

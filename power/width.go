@@ -2,7 +2,6 @@ package power
 
 import (
 	"context"
-	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
@@ -19,7 +18,7 @@ type WidthOptions struct {
 	// Side must be two-sided).
 	Interval interval.Options
 	// Assurance is the required probability that the half-width is at most
-	// d (AssuranceN), in (0, 1); 0 means 0.80.
+	// halfWidth (AssuranceN), in (0, 1); 0 means 0.80.
 	Assurance float64
 	// MaxN bounds the search; 0 means DefaultMaxWidthN, at most MaxWidthN.
 	MaxN int64
@@ -39,10 +38,10 @@ type WidthPlan struct {
 	// N is the planned number of trials.
 	N int64 `json:"n"`
 	// Value is the expected half-width at N (ExpectedWidthN) or the
-	// probability that the half-width is at most d (AssuranceN); Previous
-	// is the same at N - 1 (NaN when N = 1).
+	// probability that the half-width is at most halfWidth (AssuranceN); Previous
+	// is the same at N - 1 (0, and omitted from JSON, when N = 1).
 	Value    float64 `json:"value"`
-	Previous float64 `json:"previous"`
+	Previous float64 `json:"previous,omitempty"`
 	// Checked lists the (n, value) pairs evaluated by the search, for
 	// plotting.
 	Checked []Point `json:"checked"`
@@ -71,12 +70,12 @@ func halfWidthSum(n int64, p float64, opt interval.Options, g func(float64) floa
 	return s, nil
 }
 
-func (o WidthOptions) check(fn string, p, d float64) (int64, error) {
+func (o WidthOptions) check(fn string, p, halfWidth float64) (int64, error) {
 	if err := argerr.OpenProb(fn, "p", p); err != nil {
 		return 0, err
 	}
-	if !(d > 0 && d < 0.5) {
-		return 0, argerr.Invalid(fn, "d", d, "must lie in (0, 0.5)")
+	if !(halfWidth > 0 && halfWidth < 0.5) {
+		return 0, argerr.Invalid(fn, "halfWidth", halfWidth, "must lie in (0, 0.5)")
 	}
 	if o.Interval.Side != interval.TwoSided {
 		return 0, argerr.Invalid(fn, "Interval.Side", o.Interval.Side.String(), "must be two-sided for a half-width")
@@ -128,7 +127,7 @@ func searchN(ctx context.Context, fn string, limit int64, val func(int64) (float
 }
 
 // ExpectedWidthN returns the smallest n whose expected half-width of the
-// chosen two-sided interval, at the planning proportion p, is at most d:
+// chosen two-sided interval, at the planning proportion p, is at most halfWidth:
 //
 //	E[(U(X) - L(X))/2] = sum_k P(X = k) (U(k) - L(k))/2,  X ~ Binomial(n, p),
 //
@@ -137,32 +136,32 @@ func searchN(ctx context.Context, fn string, limit int64, val func(int64) (float
 // falls with n but, for exact methods, with small ripples; the search
 // (doubling then bisection) treats it as monotone, and the result reports
 // the value at N and at N - 1 so the ripple can be seen. Domain:
-// 0 < p < 1, 0 < d < 0.5.
-func ExpectedWidthN(ctx context.Context, p, d float64, o WidthOptions) (WidthPlan, error) {
+// 0 < p < 1, 0 < halfWidth < 0.5.
+func ExpectedWidthN(ctx context.Context, p, halfWidth float64, o WidthOptions) (WidthPlan, error) {
 	const fn = "power.ExpectedWidthN"
-	limit, err := o.check(fn, p, d)
+	limit, err := o.check(fn, p, halfWidth)
 	if err != nil {
 		return WidthPlan{}, err
 	}
 	val := func(n int64) (float64, error) {
 		return halfWidthSum(n, p, o.Interval, func(h float64) float64 { return h })
 	}
-	return widthPlan(ctx, fn, limit, o, val, func(v float64) bool { return v <= d })
+	return widthPlan(ctx, fn, limit, o, val, func(v float64) bool { return v <= halfWidth })
 }
 
 // AssuranceN returns the smallest n for which the half-width of the
-// chosen two-sided interval is at most d with probability at least
+// chosen two-sided interval is at most halfWidth with probability at least
 // o.Assurance (default 0.80) at the planning proportion p:
 //
-//	P( (U(X) - L(X))/2 <= d ) >= assurance,  X ~ Binomial(n, p).
+//	P( (U(X) - L(X))/2 <= halfWidth ) >= assurance,  X ~ Binomial(n, p).
 //
 // The probability jumps as counts enter or leave the set of narrow
 // enough intervals, so it is a sawtooth; the search treats it as monotone
 // (doubling then bisection) and reports the value at N - 1 beside the one
 // at N. Domain as ExpectedWidthN.
-func AssuranceN(ctx context.Context, p, d float64, o WidthOptions) (WidthPlan, error) {
+func AssuranceN(ctx context.Context, p, halfWidth float64, o WidthOptions) (WidthPlan, error) {
 	const fn = "power.AssuranceN"
-	limit, err := o.check(fn, p, d)
+	limit, err := o.check(fn, p, halfWidth)
 	if err != nil {
 		return WidthPlan{}, err
 	}
@@ -172,7 +171,7 @@ func AssuranceN(ctx context.Context, p, d float64, o WidthOptions) (WidthPlan, e
 	}
 	val := func(n int64) (float64, error) {
 		return halfWidthSum(n, p, o.Interval, func(h float64) float64 {
-			if h <= d {
+			if h <= halfWidth {
 				return 1
 			}
 			return 0
@@ -186,7 +185,7 @@ func widthPlan(ctx context.Context, fn string, limit int64, o WidthOptions, val 
 	if err != nil {
 		return WidthPlan{}, err
 	}
-	r := WidthPlan{Method: o.Interval.Method.String(), N: n, Checked: pts, Previous: math.NaN()}
+	r := WidthPlan{Method: o.Interval.Method.String(), N: n, Checked: pts}
 	if r.Value, err = val(n); err != nil {
 		return WidthPlan{}, err
 	}

@@ -47,7 +47,7 @@ func TestEach(t *testing.T) {
 	}
 	data, _ := os.ReadFile(to)
 	got := strings.Split(strings.TrimSpace(string(data)), "\n")
-	fisher, _ := test.Fisher(7, 15, 12, 15, test.FisherOptions{Alternative: test.Less})
+	fisher, _ := test.Fisher(7, 15, 12, 15, test.FisherOptions{Alternative: test.Lower})
 	if len(got) != 3 || got[0] != "k1,n1,k2,n2,difference,p_value,method,side,error" || got[1] != fmt.Sprintf("7,15,12,15,%v,%v,fisher,low,", fisher.Estimate, fisher.PValue) {
 		t.Errorf("versus rows:\n%s", data)
 	}

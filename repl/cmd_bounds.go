@@ -12,7 +12,7 @@ func intervalWord(name string) string {
 	return strings.ReplaceAll(methodWord(name), "-with-continuity-correction", "-cc")
 }
 
-var boundsMethods = enumWords(func(m interval.Method) string { return intervalWord(m.String()) })
+var boundsMethods = enumWords(interval.MethodValues(), func(m interval.Method) string { return intervalWord(m.String()) })
 
 var optBound = opt{Name: "bound", Doc: "two (default): both limits; lower: a lower bound only (at least ...); upper: an upper bound only (at most ...)", Values: []string{"two", "lower", "upper"}}
 

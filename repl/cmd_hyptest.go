@@ -6,14 +6,43 @@ import (
 	"github.com/kofnlab/kofn/test"
 )
 
-var binomialTestMethods = enumWords(func(m test.BinomialMethod) string { return m.String() })
-var mcnemarMethods = enumWords(func(m test.McNemarMethod) string {
-	s := m.String()
-	if len(s) > 8 && s[:8] == "McNemar " {
-		return s[8:]
+// binomialTestMethods are the method words of check: the exact test under
+// each two-sided rule, with and without mid-p, then the asymptotic tests;
+// binomialTestOptions[i] is the test binomialTestMethods[i] names.
+var binomialTestMethods, binomialTestOptions = func() ([]string, []test.BinomialOptions) {
+	var ws []string
+	var os []test.BinomialOptions
+	for _, r := range test.TwoSidedRuleValues() {
+		for _, mid := range []bool{false, true} {
+			w := methodWord(r.String())
+			if mid {
+				w += "-mid-p"
+			}
+			ws, os = append(ws, w), append(os, test.BinomialOptions{Rule: r, MidP: mid})
+		}
 	}
-	return s
-})
+	for _, m := range test.BinomialMethodValues()[1:] {
+		ws, os = append(ws, methodWord(m.String())), append(os, test.BinomialOptions{Method: m})
+	}
+	return ws, os
+}()
+
+// mcnemarMethods are the method words of flips; the first is the default,
+// the exact conditional test, as in test.McNemarOptions and power.
+var mcnemarMethods = []string{"exact", "mid-p", "asymptotic", "asymptotic-cc"}
+
+// mcnemarOptions returns the test a flips method word names.
+func mcnemarOptions(word string) test.McNemarOptions {
+	switch word {
+	case "mid-p":
+		return test.McNemarOptions{MidP: true}
+	case "asymptotic":
+		return test.McNemarOptions{Method: test.McNemarAsymptotic}
+	case "asymptotic-cc":
+		return test.McNemarOptions{Method: test.McNemarAsymptoticCC}
+	}
+	return test.McNemarOptions{}
+}
 
 const cautionSides = "side=high or side=low is honest only when the direction was fixed before the data were seen."
 
@@ -53,9 +82,9 @@ func testSide(a *argSet) (test.Alternative, string, error) {
 	}
 	switch w {
 	case "high":
-		return test.Greater, "one-sided, higher", nil
+		return test.Higher, "one-sided, higher", nil
 	case "low":
-		return test.Less, "one-sided, lower", nil
+		return test.Lower, "one-sided, lower", nil
 	}
 	return test.TwoSided, "two-sided", nil
 }
@@ -73,7 +102,11 @@ func checkSetup(c *call) (p0 float64, o test.BinomialOptions, sideText string, e
 	if err != nil {
 		return
 	}
-	o.Method = enumValue[test.BinomialMethod](binomialTestMethods, m)
+	for i, w := range binomialTestMethods {
+		if w == m {
+			o = binomialTestOptions[i]
+		}
+	}
 	if o.Alternative, sideText, err = testSide(a); err != nil {
 		return
 	}
@@ -110,7 +143,7 @@ func runCheck(c *call) error {
 // inverted interval, warnings.
 func testRows(s *Session, b *block, r test.Result, what string) {
 	b.Row("p-value", s.logNum(r.LogPValue))
-	b.Row("statistic", r.StatisticName+" = "+s.stat(r.Statistic))
+	b.Row("statistic", r.Statistic.Name+" = "+s.stat(r.Statistic.Value))
 	if r.Interval != nil {
 		b.Row(pct(r.Interval.Level)+" interval", s.num(r.Interval.Lower)+" to "+s.num(r.Interval.Upper), what+" values this test does not reject")
 	}
@@ -165,7 +198,7 @@ func flipsSetup(c *call) (o test.McNemarOptions, sideText string, err error) {
 	if err != nil {
 		return
 	}
-	o.Method = enumValue[test.McNemarMethod](mcnemarMethods, m)
+	o = mcnemarOptions(m)
 	o.Alternative, sideText, err = testSide(c.Args)
 	return
 }

@@ -11,21 +11,21 @@ func TestCheckAndFlipsValues(t *testing.T) {
 	tests := []valueCase{
 		// Fagerland MW, Lydersen S, Laake P (2013), BMC Med Res Methodol 13:91: pairs 1, 1, 7, 12
 		// (data read; p-values recalled, recomputed): exact 18/256, mid-p 10/256, asymptotic 0.034, cc 0.077.
-		{"flips 1 1 7 12 method=exact", "PValue", 18.0 / 256, 1e-12, "Fagerland 2013"},
-		{"flips 1 1 7 12", "PValue", 10.0 / 256, 1e-12, "Fagerland 2013"},
-		{"flips 1 1 7 12 method=asymptotic", "Statistic", 4.5, 1e-12, "Fagerland 2013"},
-		{"flips 1 1 7 12 method=asymptotic", "PValue", 0.0339, 2e-3, "Fagerland 2013"},
-		{"flips 1 1 7 12 method=asymptotic-cc", "PValue", 0.0771, 2e-3, "Fagerland 2013"},
+		{"flips 1 1 7 12 method=exact", "p_value", 18.0 / 256, 1e-12, "Fagerland 2013"},
+		{"flips 1 1 7 12 method=mid-p", "p_value", 10.0 / 256, 1e-12, "Fagerland 2013"},
+		{"flips 1 1 7 12 method=asymptotic", "statistic.value", 4.5, 1e-12, "Fagerland 2013"},
+		{"flips 1 1 7 12 method=asymptotic", "p_value", 0.0339, 2e-3, "Fagerland 2013"},
+		{"flips 1 1 7 12 method=asymptotic-cc", "p_value", 0.0771, 2e-3, "Fagerland 2013"},
 		// Newcombe RG (1998), Stat Med 17:857-872, Table II, method 3 (Wilson score, which the score
 		// test inverts), 81/263 (recalled, recomputed): 0.2553 to 0.3662.
-		{"check 81/263 p=0.3 method=score", "Interval.Lower", 0.2553, 2e-4, "Newcombe 1998 single"},
-		{"check 81/263 p=0.3 method=score", "Interval.Upper", 0.3662, 2e-4, "Newcombe 1998 single"},
+		{"check 81/263 p=0.3 method=score", "interval.lower", 0.2553, 2e-4, "Newcombe 1998 single"},
+		{"check 81/263 p=0.3 method=score", "interval.upper", 0.3662, 2e-4, "Newcombe 1998 single"},
 		// Same table, method 5 (Clopper-Pearson, which the central test inverts): 0.2527 to 0.3676.
-		{"check 81/263 p=0.3 method=central", "Interval.Lower", 0.2527, 2e-4, "Newcombe 1998 single"},
-		{"check 81/263 p=0.3 method=central", "Interval.Upper", 0.3676, 2e-4, "Newcombe 1998 single"},
+		{"check 81/263 p=0.3 method=central", "interval.lower", 0.2527, 2e-4, "Newcombe 1998 single"},
+		{"check 81/263 p=0.3 method=central", "interval.upper", 0.3676, 2e-4, "Newcombe 1998 single"},
 		// NIST/SEMATECH e-Handbook 7.2.4: 4 defectives in 20, 90% (limits recalled, recomputed).
-		{"check 4/20 p=0.2 method=central level=90%", "Interval.Lower", 0.0714, 1e-3, "NIST 7.2.4"},
-		{"check 4/20 p=0.2 method=central level=90%", "Interval.Upper", 0.4010, 1e-3, "NIST 7.2.4"},
+		{"check 4/20 p=0.2 method=central level=90%", "interval.lower", 0.0714, 1e-3, "NIST 7.2.4"},
+		{"check 4/20 p=0.2 method=central level=90%", "interval.upper", 0.4010, 1e-3, "NIST 7.2.4"},
 	}
 	checkValues(t, tests)
 }
@@ -38,17 +38,19 @@ func TestCheckMatchesPackage(t *testing.T) {
 		for _, side := range []struct {
 			word string
 			alt  test.Alternative
-		}{{"two", test.TwoSided}, {"high", test.Greater}, {"low", test.Less}} {
+		}{{"two", test.TwoSided}, {"high", test.Higher}, {"low", test.Lower}} {
 			line := "check 17/40 p=0.3 method=" + m + " side=" + side.word + " level=0.9"
 			obj := runJSON(t, line)
-			want, err := test.Binomial(17, 40, 0.3, test.BinomialOptions{Method: test.BinomialMethod(i), Alternative: side.alt, Level: 0.9})
+			o := binomialTestOptions[i]
+			o.Alternative, o.Level = side.alt, 0.9
+			want, err := test.Binomial(17, 40, 0.3, o)
 			if err != nil {
 				t.Fatal(err)
 			}
-			if got := num(t, obj, "PValue"); got != want.PValue {
+			if got := num(t, obj, "p_value"); got != want.PValue {
 				t.Errorf("%s: p-value %v, package %v", line, got, want.PValue)
 			}
-			if got := num(t, obj, "Interval.Upper"); got != want.Interval.Upper {
+			if got := num(t, obj, "interval.upper"); got != want.Interval.Upper {
 				t.Errorf("%s: upper %v, package %v", line, got, want.Interval.Upper)
 			}
 		}

@@ -42,7 +42,7 @@ func marginExact(c *call, d, p, level float64) (bool, error) {
 		if err != nil {
 			return true, err
 		}
-		o := power.PrecisionOptions{Target: want, MaxN: upto}
+		o := power.PrecisionOptions{Level: want, MaxN: upto}
 		var r power.ExactSize
 		title := "trials for k/n within " + fmtIn(d) + " of p = " + fmtIn(p) + " with chance " + fmtIn(want)
 		if a.Has("p") {

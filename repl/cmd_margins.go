@@ -6,7 +6,7 @@ import (
 	"github.com/kofnlab/kofn/test"
 )
 
-var marginTestMethods = enumWords(func(m test.MarginMethod) string { return m.String() })
+var marginTestMethods = enumWords(test.MarginMethodValues(), func(m test.MarginMethod) string { return m.String() })
 
 // marginMethodsHelp, marginAssumptions and marginSources are shared by
 // noninf and equiv.
@@ -105,7 +105,7 @@ func runNoninf(c *call) error {
 	if err != nil {
 		return err
 	}
-	alt := map[string]test.Alternative{"two": test.TwoSided, "high": test.Greater, "low": test.Less}[w]
+	alt := map[string]test.Alternative{"two": test.TwoSided, "high": test.Higher, "low": test.Lower}[w]
 	o := test.MarginOptions{Method: enumValue[test.MarginMethod](marginTestMethods, m), Alternative: alt}
 	var r test.Result
 	param := "p1 - p2"
@@ -179,6 +179,6 @@ func marginBlock(c *call, r test.Result, k1, n1, k2, n2 int64, param, claim stri
 	b.Row("group 2", kn(k2, n2), "k/n = "+s.num(float64(k2)/float64(n2)))
 	b.Row("estimate", s.num(r.Estimate), param)
 	b.Row("p-value", s.logNum(r.LogPValue))
-	b.Row("statistic", r.StatisticName+" = "+s.stat(r.Statistic), "at the null value "+in(r.Null))
+	b.Row("statistic", r.Statistic.Name+" = "+s.stat(r.Statistic.Value), "at the null value "+in(r.Null))
 	b.Warn(r.Warnings...)
 }

@@ -6,13 +6,14 @@ import (
 	"strings"
 
 	"github.com/kofnlab/kofn/power"
+	"github.com/kofnlab/kofn/test"
 )
 
 // oneSampleMethods are the method words of the one-sample planning forms:
 // the exact test's two-sided definitions, their mid-p variants, and the
 // normal approximation.
 var oneSampleMethods = func() []string {
-	ws := enumWords(func(m power.TwoSidedMethod) string { return m.String() })
+	ws := enumWords(test.TwoSidedRuleValues(), func(m test.TwoSidedRule) string { return m.String() })
 	for _, w := range ws[:len(ws):len(ws)] {
 		ws = append(ws, w+"-mid-p")
 	}
@@ -23,8 +24,8 @@ var oneSampleMethods = func() []string {
 // (default) or the exact enumeration of a test's power; pairedPlanMethods
 // the McNemar tests whose power is computed (exact first, the default).
 var (
-	twoPlanMethods    = append([]string{"normal"}, enumWords(func(t power.ExactTest) string { return t.String() })...)
-	pairedPlanMethods = enumWords(func(m power.PairedMethod) string { return m.String() })
+	twoPlanMethods    = append([]string{"normal"}, enumWords(power.ExactTestValues(), func(t power.ExactTest) string { return t.String() })...)
+	pairedPlanMethods = []string{"exact", "mid-p", "asymptotic"}
 	planMethods       = unique(oneSampleMethods, twoPlanMethods, pairedPlanMethods)
 )
 
@@ -44,9 +45,9 @@ func unique(lists ...[]string) []string {
 }
 
 var twoSampleWords = struct{ variance, correction, hypothesis []string }{
-	enumWords(func(v power.Variance) string { return v.String() }),
-	enumWords(func(v power.Correction) string { return v.String() }),
-	enumWords(func(v power.Hypothesis) string { return v.String() }),
+	enumWords(power.VarianceValues(), func(v power.Variance) string { return v.String() }),
+	enumWords(power.CorrectionValues(), func(v power.Correction) string { return v.String() }),
+	enumWords(power.HypothesisValues(), func(v power.Hypothesis) string { return v.String() }),
 }
 
 var planOptions = []opt{
@@ -144,7 +145,7 @@ type planInputs struct {
 	q1, q2       float64 // two groups
 	yn, ny       float64 // paired
 	alpha        float64
-	alt          power.Alternative
+	alt          test.Alternative
 	sideText     string
 	method       string
 	two          power.TwoSampleOptions
@@ -200,21 +201,23 @@ func planArgs(c *call) (planInputs, error) {
 	if err != nil {
 		return in, err
 	}
-	in.alt, in.sideText = map[string]power.Alternative{"two": power.TwoSided, "high": power.Greater, "low": power.Less}[w], map[string]string{"two": "two-sided", "high": "one-sided, higher", "low": "one-sided, lower"}[w]
+	in.alt, in.sideText = map[string]test.Alternative{"two": test.TwoSided, "high": test.Higher, "low": test.Lower}[w], map[string]string{"two": "two-sided", "high": "one-sided, higher", "low": "one-sided, lower"}[w]
 	if in.form == oneSample {
 		if in.method, err = a.Choice("method", oneSampleMethods[0], oneSampleMethods...); err != nil {
 			return in, err
 		}
 		base := strings.TrimSuffix(in.method, "-mid-p")
-		in.exactOneSide = power.OneSampleOptions{Alpha: in.alpha, Alternative: in.alt, Mid: base != in.method,
-			Method: enumValue[power.TwoSidedMethod](oneSampleMethods, base)}
+		in.exactOneSide = power.OneSampleOptions{Alpha: in.alpha, Alternative: in.alt, MidP: base != in.method,
+			Rule: enumValue[test.TwoSidedRule](oneSampleMethods, base)}
 	}
 	if in.form == paired {
 		if in.method, err = a.Choice("method", pairedPlanMethods[0], pairedPlanMethods...); err != nil {
 			return in, err
 		}
-		in.pair = power.PairedOptions{Alpha: in.alpha, Alternative: in.alt,
-			Method: enumValue[power.PairedMethod](pairedPlanMethods, in.method)}
+		in.pair = power.PairedOptions{Alpha: in.alpha, Alternative: in.alt, MidP: in.method == "mid-p"}
+		if in.method == "asymptotic" {
+			in.pair.Method = test.McNemarAsymptotic
+		}
 	}
 	if in.form == twoSample {
 		if in.method, err = a.Choice("method", twoPlanMethods[0], twoPlanMethods...); err != nil {

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"github.com/kofnlab/kofn/power"
+	"github.com/kofnlab/kofn/test"
 )
 
 func TestPlanningValues(t *testing.T) {
@@ -22,7 +23,7 @@ func TestPlanningValues(t *testing.T) {
 		{"margin d=0.03", "n", 1068, 0, "common practice"},
 		// Success-run formula, common practice: R = 0.99 at C = 0.95: 299 trials, 298 give 0.94996.
 		{"prove rel=0.99 conf=0.95", "trials", 299, 0, "success run"},
-		{"prove rel=0.99 conf=0.95", "previous_confidence", 0.94996, 1e-5, "success run"},
+		{"prove rel=0.99 conf=0.95", "previous_level", 0.94996, 1e-5, "success run"},
 		// 30 units, no failures, 90%: 0.10^(1/30) = 0.9261 (common practice).
 		{"prove n=30 conf=0.9", "reliability", 0.9261, 1e-4, "success run"},
 		// Hanley and Lippman-Hand (1983): n = 14, exact one-sided 95% upper limit 1 - 0.05^(1/14) = 0.1926.
@@ -41,14 +42,14 @@ func TestPlanningValues(t *testing.T) {
 // its numbers equal the power package's for the same call.
 func TestPlanningMatchesPackage(t *testing.T) {
 	t.Parallel()
-	ex, err := power.OneSamplePower(40, 0.3, 0.5, power.OneSampleOptions{Alpha: 0.05, Method: power.Central})
+	ex, err := power.OneSamplePower(40, 0.3, 0.5, power.OneSampleOptions{Alpha: 0.05, Rule: test.Central})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if got := num(t, runJSON(t, "detect n=40 p=0.3 truth=0.5 method=central"), "power"); got != ex.Power {
 		t.Errorf("detect: %v, package %v", got, ex.Power)
 	}
-	sz, err := power.OneSampleN(context.Background(), 0.3, 0.5, power.OneSampleOptions{Alpha: 0.1, Power: 0.9, Alternative: power.Greater})
+	sz, err := power.OneSampleN(context.Background(), 0.3, 0.5, power.OneSampleOptions{Alpha: 0.1, Power: 0.9, Alternative: test.Higher})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -73,7 +74,7 @@ func TestPlanningMatchesPackage(t *testing.T) {
 	if got := num(t, runJSON(t, "detect n=100 yn=0.15 ny=0.05"), "power"); got != pe.Power {
 		t.Errorf("paired exact detect: %v, package %v", got, pe.Power)
 	}
-	te, err := power.TwoSamplePower(context.Background(), 60, 60, 0.2, 0.5, power.TwoSampleOptions{Alpha: 0.05, Test: power.Fisher})
+	te, err := power.TwoSamplePower(context.Background(), 60, 60, 0.2, 0.5, power.TwoSampleOptions{Alpha: 0.05, Test: power.FisherExactTest})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -92,7 +93,7 @@ func TestPlanningMatchesPackage(t *testing.T) {
 
 func TestMarginExactMatchesPackage(t *testing.T) {
 	t.Parallel()
-	want, err := power.PrecisionN(context.Background(), 0.3, 0.05, power.PrecisionOptions{Target: 0.95})
+	want, err := power.PrecisionN(context.Background(), 0.3, 0.05, power.PrecisionOptions{Level: 0.95})
 	if err != nil {
 		t.Fatal(err)
 	}

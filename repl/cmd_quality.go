@@ -148,15 +148,15 @@ func runProve(c *call) error {
 	if err != nil {
 		return err
 	}
-	r, err := power.DemonstrationTrials(rel, conf, fails)
+	r, err := power.DemonstrationTrials(fails, rel, conf)
 	if err != nil {
 		return err
 	}
 	c.Data(r)
 	b := c.Block("demonstrate reliability " + fmtIn(rel) + " at " + pct(conf) + " confidence, " + count(fails) + " failures allowed")
 	b.Row("trials", count(r.Trials))
-	b.Row("achieved confidence", s.numApart(r.AchievedConfidence, conf), "at least "+fmtIn(conf))
-	b.Row("with one trial fewer", s.numApart(r.PreviousConfidence, conf), "falls short of "+fmtIn(conf))
+	b.Row("achieved confidence", s.numApart(r.AchievedLevel, conf), "at least "+fmtIn(conf))
+	b.Row("with one trial fewer", s.numApart(r.PreviousLevel, conf), "falls short of "+fmtIn(conf))
 	return nil
 }
 

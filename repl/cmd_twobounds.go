@@ -17,10 +17,10 @@ var shortWords = strings.NewReplacer(
 func shortWord(name string) string { return shortWords.Replace(methodWord(name)) }
 
 var (
-	gapMethods   = enumWords(func(m interval.DiffMethod) string { return shortWord(m.String()) })
-	ratioMethods = enumWords(func(m interval.RatioMethod) string { return shortWord(m.String()) })
-	oddsMethods  = enumWords(func(m interval.OddsMethod) string { return shortWord(m.String()) })
-	pairMethods  = enumWords(func(m interval.PairedMethod) string { return shortWord(m.String()) })
+	gapMethods   = enumWords(interval.DiffMethodValues(), func(m interval.DiffMethod) string { return shortWord(m.String()) })
+	ratioMethods = enumWords(interval.RatioMethodValues(), func(m interval.RatioMethod) string { return shortWord(m.String()) })
+	oddsMethods  = enumWords(interval.OddsMethodValues(), func(m interval.OddsMethod) string { return shortWord(m.String()) })
+	pairMethods  = enumWords(interval.PairedMethodValues(), func(m interval.PairedMethod) string { return shortWord(m.String()) })
 )
 
 // twoInterval computes one two-group interval from the method's index.

@@ -87,7 +87,7 @@ func versusSetup(c *call) (run func(ctx context.Context, k1, n1, k2, n2 int64) (
 	default:
 		o := test.FisherOptions{Alternative: alt, MidP: m == "fisher-mid-p" || m == "fisher-central-mid-p"}
 		if m == "fisher-central" || m == "fisher-central-mid-p" {
-			o.Method = test.FisherCentral
+			o.Rule = test.Central
 		}
 		run = func(_ context.Context, k1, n1, k2, n2 int64) (test.Result, error) {
 			return test.Fisher(k1, n1, k2, n2, o)
@@ -118,7 +118,7 @@ func runVersus(c *call) error {
 	b.Row("difference", s.num(r.Estimate), "p1 - p2")
 	testRows(s, b, r, "")
 	if m == "barnard" || m == "boschloo" {
-		b.Row("nuisance", s.num(r.Nuisance), "common proportion where the p-value's supremum is attained")
+		b.Row("nuisance", s.num(r.Nuisance.At), "common proportion where the p-value's supremum is attained")
 	}
 	return nil
 }

@@ -8,7 +8,7 @@ import (
 
 // The large-sample two-sample tests of versus: pooled and unpooled z,
 // Pearson's chi-square with and without Yates's correction.
-var asymptoticTwoMethods = enumWords(func(m test.TwoSampleMethod) string { return m.String() })
+var asymptoticTwoMethods = enumWords(test.TwoSampleMethodValues(), func(m test.TwoSampleMethod) string { return m.String() })
 
 // asymptoticVersusHelp ends the Methods section of versus's help.
 const asymptoticVersusHelp = " Large-sample tests: z-pooled (the score test, the signed root of Pearson's " +

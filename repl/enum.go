@@ -1,9 +1,6 @@
 package repl
 
-import (
-	"fmt"
-	"strings"
-)
+import "strings"
 
 // methodWord turns a package method name into a shell word: lowercase,
 // blanks as hyphens ("Blaker mid-p" -> "blaker-mid-p").
@@ -11,17 +8,13 @@ func methodWord(name string) string {
 	return strings.ToLower(strings.ReplaceAll(strings.TrimSpace(name), " ", "-"))
 }
 
-// enumWords lists the shell words of an enum's values 0, 1, 2, ... as
-// long as String() gives a name (the packages print "Type(n)" past the
-// last value). The first word is the zero value, the package default.
-func enumWords[T ~int](name func(T) string) []string {
-	var out []string
-	for i := 0; i < 64; i++ {
-		s := name(T(i))
-		if strings.Contains(s, "(") && strings.HasSuffix(s, ")") && strings.Contains(s, fmt.Sprint(i)) {
-			break
-		}
-		out = append(out, methodWord(s))
+// enumWords lists the shell words of an enum's values, from the package's
+// list of values (values[i] is the value i, so the index is the value).
+// The first word is the zero value, the package default.
+func enumWords[T ~int](values []T, name func(T) string) []string {
+	out := make([]string, len(values))
+	for i, v := range values {
+		out[i] = methodWord(name(v))
 	}
 	return out
 }

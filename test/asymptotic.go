@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/internal/argerr"
 )
 
@@ -29,28 +31,30 @@ const (
 	ChiSquareYates
 )
 
-var twoSampleNames = [...]string{"z pooled", "z unpooled", "Pearson chi-square", "Pearson chi-square Yates"}
+var twoSampleNames = enum.New[TwoSampleMethod]("test.TwoSampleMethod", []string{"z pooled", "z unpooled", "Pearson chi-square", "Pearson chi-square Yates"}, nil)
 
-// String returns "z pooled", "z unpooled", "Pearson chi-square" or
-// "Pearson chi-square Yates".
-func (m TwoSampleMethod) String() string {
-	return enumName(int(m), twoSampleNames[:], "TwoSampleMethod")
-}
+// String returns the method's published name.
+func (m TwoSampleMethod) String() string { return twoSampleNames.String(m) }
 
-// MarshalText encodes the method by its name.
-func (m TwoSampleMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+// MarshalText encodes the method by its String form.
+func (m TwoSampleMethod) MarshalText() ([]byte, error) { return twoSampleNames.MarshalText(m) }
+
+// UnmarshalText decodes any spelling ParseTwoSampleMethod accepts.
+func (m *TwoSampleMethod) UnmarshalText(b []byte) error { return twoSampleNames.UnmarshalText(m, b) }
 
 // ParseTwoSampleMethod returns the method whose String() is s, ignoring case.
 func ParseTwoSampleMethod(s string) (TwoSampleMethod, error) {
-	i, err := parseEnum("test.ParseTwoSampleMethod", s, twoSampleNames[:], "", "a two-sample method")
-	return TwoSampleMethod(i), err
+	return twoSampleNames.Parse("test.ParseTwoSampleMethod", s)
 }
+
+// TwoSampleMethodValues lists the methods in order.
+func TwoSampleMethodValues() []TwoSampleMethod { return twoSampleNames.Values() }
 
 // TwoSampleOptions are the options of TwoSample; the zero value is the
 // two-sided pooled z test.
 type TwoSampleOptions struct {
 	Method      TwoSampleMethod
-	Alternative Alternative // Less: p1 < p2; Greater: p1 > p2
+	Alternative Alternative // Lower: p1 < p2; Higher: p1 > p2
 }
 
 // TwoSample performs an asymptotic test of H0: p1 = p2 for k1 successes
@@ -81,8 +85,8 @@ func TwoSample(k1, n1, k2, n2 int64, opt TwoSampleOptions) (Result, error) {
 	if n2 == 0 {
 		return Result{}, argerr.Invalid(fn, "n2", n2, "is 0; each sample needs at least one trial")
 	}
-	if opt.Method < 0 || int(opt.Method) >= len(twoSampleNames) {
-		return Result{}, argerr.Invalid(fn, "method", int(opt.Method), "is not a two-sample method")
+	if err := twoSampleNames.Check(fn, "Method", opt.Method); err != nil {
+		return Result{}, err
 	}
 	if err := checkAlt(fn, opt.Alternative); err != nil {
 		return Result{}, err
@@ -124,9 +128,9 @@ func TwoSample(k1, n1, k2, n2 int64, opt TwoSampleOptions) (Result, error) {
 		warn = append(warn, fmt.Sprintf("smallest expected cell count %.3g is below 5 (common practice): prefer Fisher, Barnard or Boschloo", e))
 	}
 	r := newResult(opt.Method.String(), opt.Alternative, logZP(z, opt.Alternative))
-	r.Statistic, r.StatisticName = z, "z"
+	r.Statistic = Statistic{Name: "z", Value: z}
 	if opt.Method == ChiSquare || opt.Method == ChiSquareYates {
-		r.Statistic, r.StatisticName = z*z, "chi-square"
+		r.Statistic = Statistic{Name: "chi-square", Value: z * z}
 	}
 	r.Estimate = p1 - p2
 	r.Warnings = warn

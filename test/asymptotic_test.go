@@ -17,7 +17,7 @@ func TestTwoSampleAgresti(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	se := r.Estimate / r.Statistic
+	se := r.Estimate / r.Statistic.Value
 	lo, hi := r.Estimate-1.959964*se, r.Estimate+1.959964*se
 	if math.Round(r.Estimate*1e4) != 77 || math.Round(lo*1e3) != 5 || math.Round(hi*1e3) != 11 {
 		t.Errorf("estimate %v, Wald interval (%v, %v)", r.Estimate, lo, hi)
@@ -25,8 +25,8 @@ func TestTwoSampleAgresti(t *testing.T) {
 	// The pooled z squared is Pearson's chi-square (identity).
 	z, _ := TwoSample(189, 11034, 104, 11037, TwoSampleOptions{})
 	x, _ := TwoSample(189, 11034, 104, 11037, TwoSampleOptions{Method: ChiSquare})
-	if math.Abs(z.Statistic*z.Statistic-x.Statistic) > 1e-12*x.Statistic || math.Abs(z.PValue-x.PValue) > 1e-12*x.PValue {
-		t.Errorf("z^2 = %v, X2 = %v; p %v, %v", z.Statistic*z.Statistic, x.Statistic, z.PValue, x.PValue)
+	if math.Abs(z.Statistic.Value*z.Statistic.Value-x.Statistic.Value) > 1e-12*x.Statistic.Value || math.Abs(z.PValue-x.PValue) > 1e-12*x.PValue {
+		t.Errorf("z^2 = %v, X2 = %v; p %v, %v", z.Statistic.Value*z.Statistic.Value, x.Statistic.Value, z.PValue, x.PValue)
 	}
 }
 
@@ -37,7 +37,7 @@ func TestTwoSampleDegenerate(t *testing.T) {
 		t.Errorf("all failures: %+v", r)
 	}
 	r, _ = TwoSample(0, 5, 7, 7, TwoSampleOptions{Method: ZUnpooled})
-	if r.PValue != 0 || !math.IsInf(r.Statistic, -1) || len(r.Warnings) == 0 {
+	if r.PValue != 0 || !math.IsInf(r.Statistic.Value, -1) || len(r.Warnings) == 0 {
 		t.Errorf("unpooled zero variance: %+v", r)
 	}
 	if _, err := TwoSample(0, 0, 1, 2, TwoSampleOptions{}); err == nil || err.Error() != "test.TwoSample: n1 = 0 is 0; each sample needs at least one trial" {

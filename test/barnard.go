@@ -89,7 +89,7 @@ func (a zkey) value(n1, n2 int) float64 {
 //
 //	sup over pi of P(T(X) as or more extreme than T(x) | p1 = p2 = pi),
 //
-// with "more extreme" meaning Z <= z (Less), Z >= z (Greater) or
+// with "more extreme" meaning Z <= z (Lower), Z >= z (Higher) or
 // |Z| >= |z| (two-sided), decided exactly in integer arithmetic. The
 // supremum is found by the grid and golden-section refinement described on
 // supremum, so it is located to better than 1e-6 in pi; opt.BergerBoos
@@ -97,7 +97,7 @@ func (a zkey) value(n1, n2 int) float64 {
 //
 // The pooled score statistic satisfies Barnard's convexity condition (if a
 // table is in the rejection region, so is every table with a smaller x1 or
-// a larger x2, for Less; tested in barnard_test.go for n1, n2 up to 25),
+// a larger x2, for Lower; tested in barnard_test.go for n1, n2 up to 25),
 // so each row of the rejection region is a prefix and/or suffix of x2
 // values and each nuisance value costs O(n1 + n2); the region itself costs
 // O(n1 n2) exact comparisons, once. (Rows that broke the condition would
@@ -134,9 +134,9 @@ func Barnard(ctx context.Context, k1, n1, k2, n2 int64, opt UnconditionalOptions
 		obs := newZKey(int(k1), int(k2), a, b)
 		var in func(x1, x2 int) bool
 		switch opt.Alternative {
-		case Less:
+		case Lower:
 			in = func(x1, x2 int) bool { return newZKey(x1, x2, a, b).le(obs) }
-		case Greater:
+		case Higher:
 			in = func(x1, x2 int) bool { return obs.le(newZKey(x1, x2, a, b)) }
 		default:
 			in = func(x1, x2 int) bool { return cmpAbs(newZKey(x1, x2, a, b), obs) >= 0 }

@@ -15,19 +15,19 @@ import (
 // REFERENCES.md). The integer comparison keeps it.
 func TestBarnardMehtaSenchaudhuri(t *testing.T) {
 	t.Parallel()
-	r, err := Barnard(context.Background(), 7, 15, 12, 15, UnconditionalOptions{Alternative: Less})
+	r, err := Barnard(context.Background(), 7, 15, 12, 15, UnconditionalOptions{Alternative: Lower})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if math.Abs(r.PValue-0.034109) > 0.0000005 {
-		t.Errorf("p = %v (at pi = %v), want 0.034109", r.PValue, r.Nuisance)
+		t.Errorf("p = %v (at pi = %v), want 0.034109", r.PValue, r.Nuisance.At)
 	}
 }
 
 // TestBarnardConvexity checks Barnard's convexity condition for the pooled
 // score ordering, for every n1 <= 25, n2 = 1, 4, ..., 25 (n1 <= 12 under
 // -short) and every observed table: the
-// one-sided (Less) rejection region is closed under decreasing x1 and under
+// one-sided (Lower) rejection region is closed under decreasing x1 and under
 // increasing x2, and every row of every region built is a prefix and/or a
 // suffix (no interior runs), so the O(n1 + n2) evaluation applies.
 func TestBarnardConvexity(t *testing.T) {

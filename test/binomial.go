@@ -6,39 +6,29 @@ import (
 
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/enum"
 	"github.com/kofnlab/kofn/internal/onesample"
 	"github.com/kofnlab/kofn/internal/xmath"
 )
 
 // BinomialMethod selects the one-sample test of Binomial.
 //
-// The zero value, ExactPoint, is the default: it is exact (its size never
-// exceeds alpha), it is the two-sided definition most software and
-// textbooks use ("outcomes no more likely than the observed one"), and it
-// is usually less conservative than the central test.
+// The zero value, Exact, is the default: its size never exceeds alpha,
+// and with the default two-sided rule (PointProbability: the outcomes no
+// more likely than the observed one) it is the usual exact binomial test,
+// less conservative than doubling the smaller tail.
 type BinomialMethod int
 
-// One-sample methods. The exact ones are defined in detail in the package
-// comment of internal/onesample; the one-sided p-values of the six exact
-// methods are the binomial tails (mid-p tails for the mid-p ones).
+// One-sample methods.
 const (
-	// ExactPoint: two-sided p-value P(f(X) <= f(k)), f the binomial PMF
-	// under p0, with "<=" up to the relative tolerance 1e-7; inverts to
-	// Sterne's interval.
-	ExactPoint BinomialMethod = iota
-	// ExactPointMidP: P(f(X) < f(k)) + P(f(X) = f(k))/2.
-	ExactPointMidP
-	// ExactCentral: twice the smaller tail, capped at 1; inverts to the
-	// Clopper-Pearson interval.
-	ExactCentral
-	// ExactCentralMidP: twice the smaller mid-p tail P(X < k) + f(k)/2,
-	// capped at 1; inverts to the mid-p interval.
-	ExactCentralMidP
-	// ExactBlaker: Blaker's (2000) acceptability P(t(X) <= t(k)),
-	// t(j) = min(P(X <= j), P(X >= j)); inverts to Blaker's interval.
-	ExactBlaker
-	// ExactBlakerMidP: P(t(X) < t(k)) + P(t(X) = t(k))/2.
-	ExactBlakerMidP
+	// Exact refers k to the binomial distribution under p0. One-sided
+	// p-values are the tails P(X <= k) and P(X >= k); the two-sided
+	// p-value follows the options' Rule (defined in detail in the package
+	// comment of internal/onesample), and MidP counts half the probability
+	// of the outcomes exactly as extreme. It inverts to Sterne's interval
+	// (PointProbability), the Clopper-Pearson interval (Central), Blaker's
+	// interval (Blaker), or their mid-p versions.
+	Exact BinomialMethod = iota
 	// Score: z = (k - n p0) / sqrt(n p0 (1-p0)) against the standard
 	// normal; inverts to the Wilson interval.
 	Score
@@ -52,53 +42,65 @@ const (
 	LikelihoodRatio
 )
 
-var binomialNames = [...]string{
-	"point-probability", "point-probability mid-p", "central", "central mid-p",
-	"Blaker", "Blaker mid-p", "score", "score-cc", "likelihood-ratio",
-}
+var binomialNames = enum.New[BinomialMethod]("test.BinomialMethod",
+	[]string{"exact", "score", "score-cc", "likelihood-ratio"},
+	map[string]BinomialMethod{"lr": LikelihoodRatio, "wilson": Score})
 
-// String returns the method's name: "point-probability",
-// "point-probability mid-p", "central", "central mid-p", "Blaker",
-// "Blaker mid-p", "score", "score-cc" or "likelihood-ratio".
-func (m BinomialMethod) String() string { return enumName(int(m), binomialNames[:], "BinomialMethod") }
+// String returns "exact", "score", "score-cc" or "likelihood-ratio".
+func (m BinomialMethod) String() string { return binomialNames.String(m) }
 
-// MarshalText encodes the method by its name.
-func (m BinomialMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+// MarshalText encodes the method by its String form.
+func (m BinomialMethod) MarshalText() ([]byte, error) { return binomialNames.MarshalText(m) }
+
+// UnmarshalText decodes any spelling ParseBinomialMethod accepts.
+func (m *BinomialMethod) UnmarshalText(b []byte) error { return binomialNames.UnmarshalText(m, b) }
 
 // ParseBinomialMethod returns the method whose String() is s, ignoring case.
 func ParseBinomialMethod(s string) (BinomialMethod, error) {
-	i, err := parseEnum("test.ParseBinomialMethod", s, binomialNames[:], "", "a one-sample method")
-	return BinomialMethod(i), err
+	return binomialNames.Parse("test.ParseBinomialMethod", s)
 }
 
-// exact reports whether m is one of the exact methods, and its definition.
-func (m BinomialMethod) exact() (onesample.Method, bool, bool) {
-	switch m {
-	case ExactPoint, ExactPointMidP:
-		return onesample.PointProbability, m == ExactPointMidP, true
-	case ExactCentral, ExactCentralMidP:
-		return onesample.Central, m == ExactCentralMidP, true
-	case ExactBlaker, ExactBlakerMidP:
-		return onesample.Blaker, m == ExactBlakerMidP, true
-	}
-	return 0, false, false
-}
+// BinomialMethodValues lists the one-sample methods in order.
+func BinomialMethodValues() []BinomialMethod { return binomialNames.Values() }
 
 // BinomialOptions are the options of Binomial. The zero value is the
 // two-sided exact point-probability test with a 95% interval.
 type BinomialOptions struct {
-	Method      BinomialMethod // test; default ExactPoint
+	Method      BinomialMethod // test; default Exact
+	Rule        TwoSidedRule   // two-sided rule of the exact test; default PointProbability
+	MidP        bool           // mid-p version of the exact test
 	Alternative Alternative    // default TwoSided
 	// Level is the confidence level of the interval that inverts the test;
 	// 0 means 0.95.
 	Level float64
-	// SkipInterval leaves Result.Interval nil. The p-value alone costs
-	// microseconds; the interval, found by bisection, costs about a
-	// hundred p-value evaluations (a few hundred for Blaker's test, and
-	// for the point-probability test, whose exact search visits every jump
-	// of the p-value near the ends, of order sqrt(n) evaluations: about
-	// 10 ms at n = 1e6).
+	// SkipInterval leaves Result.Interval nil. The p-value alone costs a
+	// few PMF and tail evaluations; the interval costs about a hundred
+	// p-value evaluations (more for Blaker's rule and for the
+	// point-probability rule, whose exact search visits the jumps of the
+	// p-value near the ends).
 	SkipInterval bool
+}
+
+// spec is the one-sample exact test the options select, with the name of
+// the test and of the interval that inverts it.
+func (o BinomialOptions) spec() (test, ivl string) {
+	if o.Method != Exact {
+		return o.Method.String(), map[BinomialMethod]string{Score: "Wilson", ScoreCC: "Wilson with continuity correction", LikelihoodRatio: "likelihood ratio"}[o.Method]
+	}
+	rule := o.Rule
+	if o.Alternative != TwoSided {
+		rule = Central // the one-sided exact tests are the tails, whatever the rule
+	}
+	test = "exact " + o.Rule.String()
+	if o.Alternative != TwoSided {
+		test = "exact"
+	}
+	ivl = map[TwoSidedRule]string{PointProbability: "Sterne", Central: "Clopper-Pearson", Blaker: "Blaker"}[rule]
+	if o.MidP {
+		test += " mid-p"
+		ivl += " mid-p"
+	}
+	return test, ivl
 }
 
 // Binomial tests H0: P = p0 given k successes in n independent trials, by
@@ -134,8 +136,11 @@ func Binomial(k, n int64, p0 float64, opt BinomialOptions) (Result, error) {
 	if err := argerr.OpenProb(fn, "p0", p0); err != nil {
 		return Result{}, err
 	}
-	if opt.Method < 0 || int(opt.Method) >= len(binomialNames) {
-		return Result{}, argerr.Invalid(fn, "method", int(opt.Method), "is not a one-sample method")
+	if err := binomialNames.Check(fn, "Method", opt.Method); err != nil {
+		return Result{}, err
+	}
+	if err := opt.Rule.Check(fn, "Rule"); err != nil {
+		return Result{}, err
 	}
 	if err := checkAlt(fn, opt.Alternative); err != nil {
 		return Result{}, err
@@ -145,39 +150,39 @@ func Binomial(k, n int64, p0 float64, opt BinomialOptions) (Result, error) {
 		return Result{}, err
 	}
 	m, alt := opt.Method, opt.Alternative
-	r := newResult(m.String(), alt, binomialLogP(m, k, n, p0, alt))
+	name, ivlName := opt.spec()
+	r := newResult(name, alt, binomialLogP(opt, k, n, p0))
 	r.Estimate = float64(k) / float64(n)
 	r.Null = p0
 	switch m {
 	case Score, ScoreCC:
-		r.Statistic, r.StatisticName = scoreZ(k, n, p0, m == ScoreCC), "z"
+		r.Statistic = Statistic{Name: "z", Value: scoreZ(k, n, p0, m == ScoreCC)}
 	case LikelihoodRatio:
-		r.Statistic, r.StatisticName = lrG2(k, n, p0), "G2"
+		r.Statistic = Statistic{Name: "G2", Value: lrG2(k, n, p0)}
 	default:
-		r.Statistic, r.StatisticName = float64(k), "k"
+		r.Statistic = Statistic{Name: "k", Value: float64(k)}
 	}
-	if _, mid, ex := m.exact(); !ex {
+	if m != Exact {
 		if e := math.Min(float64(n)*p0, float64(n)*(1-p0)); e < 5 {
 			r.Warnings = append(r.Warnings, fmt.Sprintf("normal approximation with min(n p0, n (1-p0)) = %.3g below 5 (common practice asks for 5 or more); prefer an exact method", e))
 		}
-	} else if mid {
+	} else if opt.MidP {
 		r.Warnings = append(r.Warnings, "mid-p value: not guaranteed to keep the size at or below alpha")
 	}
 	if n == 0 {
 		r.Estimate = math.NaN()
 		r.Warnings = append(r.Warnings, "no trials: the data carry no information (p-value 1, interval [0, 1])")
 		if !opt.SkipInterval {
-			r.Interval = &Interval{Lower: 0, Upper: 1, Level: lvl}
+			r.Interval = invertedInterval(0, 1, r.Estimate, lvl, alt, ivlName, "p")
 		}
 		return r, nil
 	}
 	if !opt.SkipInterval {
-		lp := func(p float64) float64 { return binomialLogP(m, k, n, p, alt) }
-		om, _, ex := m.exact()
-		scan := ex && om != onesample.Central && alt == TwoSided
+		lp := func(p float64) float64 { return binomialLogP(opt, k, n, p) }
+		scan := m == Exact && opt.Rule != Central && alt == TwoSided
 		var lo, hi float64
 		var gaps, ok bool
-		if m == ExactPoint && alt == TwoSided {
+		if m == Exact && opt.Rule == PointProbability && !opt.MidP && alt == TwoSided {
 			lo, hi, gaps, ok = sterne(k, n, math.Log1p(-lvl))
 		} else {
 			lo, hi, gaps, ok = invert(lp, math.Log1p(-lvl), r.Estimate, alt, scan)
@@ -187,16 +192,20 @@ func Binomial(k, n int64, p0 float64, opt BinomialOptions) (Result, error) {
 		} else if gaps {
 			r.Warnings = append(r.Warnings, "the set of p0 this test accepts has gaps; the interval is its hull, and some p0 inside it are rejected")
 		}
-		r.Interval = &Interval{Lower: lo, Upper: hi, Level: lvl}
+		r.Interval = invertedInterval(lo, hi, r.Estimate, lvl, alt, ivlName, "p")
+		if gaps {
+			r.Interval.Warnings = append(r.Interval.Warnings, "hull of an accepted set with gaps")
+		}
 	}
 	return r, nil
 }
 
 // binomialLogP returns the log p-value of method m for k of n at p0 in
 // [0, 1] (the interval search evaluates the ends 0 and 1).
-func binomialLogP(m BinomialMethod, k, n int64, p0 float64, alt Alternative) float64 {
-	if om, mid, ok := m.exact(); ok {
-		lp, err := onesample.LogPValue(k, n, onesample.Test{P0: p0, Method: om, Mid: mid, Alternative: onesample.Alternative(alt)})
+func binomialLogP(opt BinomialOptions, k, n int64, p0 float64) float64 {
+	m, alt := opt.Method, opt.Alternative
+	if m == Exact {
+		lp, err := onesample.LogPValue(k, n, onesample.Test{P0: p0, Rule: opt.Rule, MidP: opt.MidP, Alternative: alt})
 		if err != nil {
 			return math.NaN()
 		}

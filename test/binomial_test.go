@@ -18,22 +18,22 @@ func TestBinomialIntervalsNewcombe(t *testing.T) {
 	t.Parallel()
 	tests := []struct {
 		k, n   int64
-		m      BinomialMethod
+		m      BinomialOptions
 		lo, hi float64
 	}{
-		{81, 263, Score, 0.2553, 0.3662},
-		{81, 263, ScoreCC, 0.2535, 0.3682},
-		{81, 263, ExactCentral, 0.2527, 0.3676},
-		{81, 263, ExactCentralMidP, 0.2544, 0.3658},
-		{81, 263, LikelihoodRatio, 0.2542, 0.3655},
-		{0, 20, Score, 0, 0.1611},
-		{0, 20, ScoreCC, 0, 0.2005},
-		{0, 20, ExactCentral, 0, 0.1684},
-		{0, 20, ExactCentralMidP, 0, 0.1391},
-		{0, 20, LikelihoodRatio, 0, 0.0916},
+		{81, 263, optScore, 0.2553, 0.3662},
+		{81, 263, optScoreCC, 0.2535, 0.3682},
+		{81, 263, optCentral, 0.2527, 0.3676},
+		{81, 263, optCentralMidP, 0.2544, 0.3658},
+		{81, 263, optLR, 0.2542, 0.3655},
+		{0, 20, optScore, 0, 0.1611},
+		{0, 20, optScoreCC, 0, 0.2005},
+		{0, 20, optCentral, 0, 0.1684},
+		{0, 20, optCentralMidP, 0, 0.1391},
+		{0, 20, optLR, 0, 0.0916},
 	}
 	for _, tc := range tests {
-		r, err := Binomial(tc.k, tc.n, 0.5, BinomialOptions{Method: tc.m})
+		r, err := Binomial(tc.k, tc.n, 0.5, tc.m)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -49,7 +49,7 @@ func TestBinomialIntervalsNewcombe(t *testing.T) {
 // limits 0.0714 and 0.4010 (limits recalled, recomputed).
 func TestBinomialClopperPearsonNIST(t *testing.T) {
 	t.Parallel()
-	r, err := Binomial(4, 20, 0.2, BinomialOptions{Method: ExactCentral, Level: 0.90})
+	r, err := Binomial(4, 20, 0.2, BinomialOptions{Rule: Central, Level: 0.90})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -69,12 +69,12 @@ func TestBinomialIntervalAgreesWithTest(t *testing.T) {
 	if testing.Short() {
 		ns = ns[:3]
 	}
-	for m := ExactPoint; m <= LikelihoodRatio; m++ {
-		for _, alt := range []Alternative{TwoSided, Less, Greater} {
+	for _, m := range allOneSample {
+		for _, alt := range []Alternative{TwoSided, Lower, Higher} {
 			for _, n := range ns {
 				for k := int64(0); k <= n; k += 1 + n/9 {
 					for _, p0 := range p0s {
-						r, err := Binomial(k, n, p0, BinomialOptions{Method: m, Alternative: alt})
+						r, err := Binomial(k, n, p0, with(m, alt))
 						if err != nil {
 							t.Fatal(err)
 						}
@@ -83,8 +83,8 @@ func TestBinomialIntervalAgreesWithTest(t *testing.T) {
 						}
 						rej := r.PValue < 0.05
 						out := !r.Interval.Contains(p0)
-						_, _, ex := m.exact()
-						gaps := ex && m != ExactCentral && m != ExactCentralMidP && alt == TwoSided
+						ex := m.Method == Exact
+						gaps := ex && m.Rule != Central && alt == TwoSided
 						if out && !rej || !gaps && rej != out {
 							t.Errorf("%v %v %d/%d p0=%v: p=%v interval %+v", m, alt, k, n, p0, r.PValue, *r.Interval)
 						}
@@ -98,12 +98,12 @@ func TestBinomialIntervalAgreesWithTest(t *testing.T) {
 // TestBinomialOneSidedMonotone: one-sided p-values are monotone in k.
 func TestBinomialOneSidedMonotone(t *testing.T) {
 	t.Parallel()
-	for m := ExactPoint; m <= LikelihoodRatio; m++ {
+	for _, m := range allOneSample {
 		for _, n := range []int64{7, 50, 333} {
 			prevL, prevG := -1.0, 2.0
 			for k := int64(0); k <= n; k++ {
-				l, _ := Binomial(k, n, 0.3, BinomialOptions{Method: m, Alternative: Less, SkipInterval: true})
-				g, _ := Binomial(k, n, 0.3, BinomialOptions{Method: m, Alternative: Greater, SkipInterval: true})
+				l, _ := Binomial(k, n, 0.3, skipIv(with(m, Lower)))
+				g, _ := Binomial(k, n, 0.3, skipIv(with(m, Higher)))
 				if l.PValue < prevL || g.PValue > prevG {
 					t.Errorf("%v n=%d k=%d: less %v after %v, greater %v after %v", m, n, k, l.PValue, prevL, g.PValue, prevG)
 				}
@@ -117,14 +117,14 @@ func TestBinomialOneSidedMonotone(t *testing.T) {
 // P(p(X) < alpha) under p0 summed over every outcome, is at most alpha.
 func TestBinomialExactSize(t *testing.T) {
 	t.Parallel()
-	for _, m := range []BinomialMethod{ExactPoint, ExactCentral, ExactBlaker} {
-		for _, alt := range []Alternative{TwoSided, Less, Greater} {
+	for _, m := range []BinomialOptions{optPoint, optCentral, optBlaker} {
+		for _, alt := range []Alternative{TwoSided, Lower, Higher} {
 			for n := int64(1); n <= 60; n += 3 {
 				for _, p0 := range []float64{0.05, 0.2, 0.5, 0.73} {
 					for _, alpha := range []float64{0.01, 0.05, 0.1} {
 						size := 0.0
 						for k := int64(0); k <= n; k++ {
-							r, _ := Binomial(k, n, p0, BinomialOptions{Method: m, Alternative: alt, SkipInterval: true})
+							r, _ := Binomial(k, n, p0, skipIv(with(m, alt)))
 							if r.PValue < alpha {
 								size += math.Exp(lbinom(k, n, p0))
 							}
@@ -157,7 +157,7 @@ func TestBinomialUnderflow(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	one, _ := Binomial(480000, 1000000, 0.5, BinomialOptions{Alternative: Less, SkipInterval: true})
+	one, _ := Binomial(480000, 1000000, 0.5, BinomialOptions{Alternative: Lower, SkipInterval: true})
 	if two.PValue != 0 || math.IsInf(two.LogPValue, 0) || math.Abs(two.LogPValue-(one.LogPValue+math.Ln2)) > 1e-12*math.Abs(two.LogPValue) {
 		t.Errorf("two-sided %v (log %v), one-sided log %v", two.PValue, two.LogPValue, one.LogPValue)
 	}
@@ -180,8 +180,8 @@ func TestBinomialErrors(t *testing.T) {
 		{1, -4, 0.5, BinomialOptions{}, "test.Binomial: n = -4 is negative; counts are 0 or more"},
 		{1, 4, 0, BinomialOptions{}, "test.Binomial: p0 = 0 must lie strictly between 0 and 1"},
 		{1, 4, math.NaN(), BinomialOptions{}, "test.Binomial: p0 = NaN must lie strictly between 0 and 1"},
-		{1, 4, 0.5, BinomialOptions{Method: 99}, "test.Binomial: method = 99 is not a one-sample method"},
-		{1, 4, 0.5, BinomialOptions{Alternative: 3}, "test.Binomial: alternative = 3 is not two-sided, less or greater"},
+		{1, 4, 0.5, BinomialOptions{Method: 99}, "test.Binomial: Method = 99 is not a test.BinomialMethod; use one of exact, score, score-cc, likelihood-ratio"},
+		{1, 4, 0.5, BinomialOptions{Alternative: 3}, "test.Binomial: Alternative = 3 is not a test.Alternative; use one of two-sided, lower, higher"},
 		{1, 4, 0.5, BinomialOptions{Level: 1}, "test.Binomial: level = 1 must lie strictly between 0 and 1 (0 means 0.95)"},
 	}
 	for _, tc := range tests {
@@ -194,7 +194,7 @@ func TestBinomialErrors(t *testing.T) {
 
 func TestParseBinomialMethod(t *testing.T) {
 	t.Parallel()
-	for m := ExactPoint; m <= LikelihoodRatio; m++ {
+	for _, m := range BinomialMethodValues() {
 		got, err := ParseBinomialMethod(m.String())
 		if err != nil || got != m {
 			t.Errorf("ParseBinomialMethod(%q) = %v, %v", m.String(), got, err)
@@ -231,27 +231,29 @@ func TestBinomialLowLevelBounds(t *testing.T) {
 	t.Parallel()
 	const k, n = 40, 1000
 	for _, c := range []struct {
-		m     BinomialMethod
+		m     BinomialOptions
 		alt   Alternative
 		level float64
 	}{
-		{ExactCentral, Less, 1e-300}, {ExactCentral, Greater, 1e-300}, {ExactPoint, Less, 1e-300},
-		{ExactCentral, Less, 0.3}, {ExactCentralMidP, Greater, 0.5}, {ExactCentralMidP, Less, 0.2}, {Score, Less, 0.1},
+		{optCentral, Lower, 1e-300}, {optCentral, Higher, 1e-300}, {optPoint, Lower, 1e-300},
+		{optCentral, Lower, 0.3}, {optCentralMidP, Higher, 0.5}, {optCentralMidP, Lower, 0.2}, {optScore, Lower, 0.1},
 	} {
-		r, err := Binomial(k, n, 0.01, BinomialOptions{Method: c.m, Alternative: c.alt, Level: c.level})
+		o := with(c.m, c.alt)
+		o.Level = c.level
+		r, err := Binomial(k, n, 0.01, o)
 		if err != nil {
 			t.Fatalf("%v %v %g: %v", c.m, c.alt, c.level, err)
 		}
 		iv := r.Interval
 		b := iv.Upper
-		if c.alt == Greater {
+		if c.alt == Higher {
 			b = iv.Lower
 		}
-		if math.IsNaN(b) || (c.alt == Less && !(b < 0.04)) || (c.alt == Greater && !(b > 0.04)) {
+		if math.IsNaN(b) || (c.alt == Lower && !(b < 0.04)) || (c.alt == Higher && !(b > 0.04)) {
 			t.Errorf("%v %v %g: interval [%g, %g], want a finite bound beyond k/n = 0.04", c.m, c.alt, c.level, iv.Lower, iv.Upper)
 			continue
 		}
-		lp := binomialLogP(c.m, k, n, b, c.alt)
+		lp := binomialLogP(o, k, n, b)
 		if want := math.Log1p(-c.level); math.Abs(lp-want) > 1e-9*math.Max(1e-300, math.Abs(want)) && math.Abs(lp-want) > 1e-9 {
 			t.Errorf("%v %v %g: log p-value at the bound %g = %g, want %g", c.m, c.alt, c.level, b, lp, want)
 		}

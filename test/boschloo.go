@@ -14,7 +14,7 @@ import (
 // coefficients from lgamma; the ordering needs them only to far better
 // than the tolerance 1e-7 that decides ties). Cost O(n1 n2), with a sort
 // per margin for the point-probability definition.
-func fisherTable(ctx context.Context, fn string, n1, n2 int, alt Alternative, m FisherMethod) ([]float64, error) {
+func fisherTable(ctx context.Context, fn string, n1, n2 int, alt Alternative, m TwoSidedRule) ([]float64, error) {
 	lg := logFactorials(n1 + n2)
 	lc1, lc2, lcn := logChooseFrom(lg, n1), logChooseFrom(lg, n2), logChooseFrom(lg, n1+n2)
 	w := n2 + 1
@@ -34,21 +34,21 @@ func fisherTable(ctx context.Context, fn string, n1, n2 int, alt Alternative, m 
 		for x := lo; x <= hi; x++ {
 			lf[x] = lc1[x] + lc2[s-x] - lcn[s]
 		}
-		if alt != Greater {
+		if alt != Higher {
 			mm, ss := math.Inf(-1), 0.0
 			for x := lo; x <= hi; x++ {
 				mm, ss = addScaled(mm, ss, lf[x])
 				lower[x] = math.Min(0, mm+math.Log(ss))
 			}
 		}
-		if alt != Less {
+		if alt != Lower {
 			mm, ss := math.Inf(-1), 0.0
 			for x := hi; x >= lo; x-- {
 				mm, ss = addScaled(mm, ss, lf[x])
 				upper[x] = math.Min(0, mm+math.Log(ss))
 			}
 		}
-		if alt == TwoSided && m == FisherPointProbability {
+		if alt == TwoSided && m == PointProbability {
 			sorted = append(sorted[:0], lf[lo:hi+1]...)
 			sort.Float64s(sorted)
 			cum = cum[:0]
@@ -61,11 +61,11 @@ func fisherTable(ctx context.Context, fn string, n1, n2 int, alt Alternative, m 
 		for x := lo; x <= hi; x++ {
 			var v float64
 			switch {
-			case alt == Less:
+			case alt == Lower:
 				v = lower[x]
-			case alt == Greater:
+			case alt == Higher:
 				v = upper[x]
-			case m == FisherCentral:
+			case m == Central:
 				v = math.Min(0, math.Ln2+math.Min(lower[x], upper[x]))
 			default:
 				j := sort.SearchFloat64s(sorted, lf[x]+logRelTol)
@@ -86,7 +86,7 @@ var logRelTol = math.Log1p(1e-7)
 
 // Boschloo performs Boschloo's unconditional exact test of H0: p1 = p2 for
 // k1 successes of n1 and k2 of n2: the tables are ordered by their Fisher
-// exact p-value (one-sided for Less and Greater; two-sided by opt.Fisher),
+// exact p-value (one-sided for Lower and Higher; two-sided by opt.Rule),
 // smaller being more extreme, with ties within the relative tolerance 1e-7,
 // and the p-value is the supremum over the common proportion pi of the
 // probability of the tables whose Fisher p-value is at most the observed
@@ -97,7 +97,7 @@ var logRelTol = math.Log1p(1e-7)
 //
 // Two-sided definition. The two-sided p-value here is a test in its own
 // right: the tables are ordered by Fisher's two-sided p-value (by default
-// the point-probability one, FisherPointProbability; FisherCentral for
+// the point-probability one, PointProbability; Central for
 // twice the smaller conditional tail) and the supremum is taken of that
 // two-sided region. Other software commonly defines the two-sided
 // Boschloo p-value instead as twice the smaller one-sided Boschloo
@@ -107,7 +107,7 @@ var logRelTol = math.Log1p(1e-7)
 // p-value is 1), twice the one-sided value gives 2 x 0.25 = 0.5. A user
 // comparing with such software should expect that definition there and
 // can reproduce it here as min(1, 2 min(p_Less, p_Greater)) from two
-// one-sided calls; neither FisherCentral nor the default gives it.
+// one-sided calls; neither Central nor the default gives it.
 // Checked against an exact math/big enumeration with the same ordering in
 // uncond_brute_test.go.
 //
@@ -128,12 +128,12 @@ var logRelTol = math.Log1p(1e-7)
 func Boschloo(ctx context.Context, k1, n1, k2, n2 int64, opt UnconditionalOptions) (Result, error) {
 	const fn = "test.Boschloo"
 	name := "Boschloo"
-	if opt.Alternative == TwoSided && opt.Fisher == FisherCentral {
+	if opt.Alternative == TwoSided && opt.Rule == Central {
 		name += " central"
 	}
 	return unconditional(ctx, fn, name, k1, n1, k2, n2, opt, "Fisher p", 1, func(ctx context.Context) (*region, float64, error) {
 		a, b := int(n1), int(n2)
-		pf, err := fisherTable(ctx, fn, a, b, opt.Alternative, opt.Fisher)
+		pf, err := fisherTable(ctx, fn, a, b, opt.Alternative, opt.Rule)
 		if err != nil {
 			return nil, 0, err
 		}

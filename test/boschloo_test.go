@@ -13,15 +13,15 @@ import (
 func TestBoschlooStatistic(t *testing.T) {
 	t.Parallel()
 	for _, c := range [][4]int64{{7, 15, 12, 15}, {3, 4, 1, 4}, {0, 10, 5, 12}, {30, 60, 20, 45}} {
-		for _, alt := range []Alternative{TwoSided, Less, Greater} {
-			for _, m := range []FisherMethod{FisherPointProbability, FisherCentral} {
-				r, err := Boschloo(context.Background(), c[0], c[1], c[2], c[3], UnconditionalOptions{Alternative: alt, Fisher: m})
+		for _, alt := range []Alternative{TwoSided, Lower, Higher} {
+			for _, m := range []TwoSidedRule{PointProbability, Central} {
+				r, err := Boschloo(context.Background(), c[0], c[1], c[2], c[3], UnconditionalOptions{Alternative: alt, Rule: m})
 				if err != nil {
 					t.Fatal(err)
 				}
-				f, _ := Fisher(c[0], c[1], c[2], c[3], FisherOptions{Alternative: alt, Method: m})
-				if math.Abs(r.Statistic-f.PValue) > 1e-10*f.PValue {
-					t.Errorf("%v %v %v: statistic %v, Fisher p %v", c, alt, m, r.Statistic, f.PValue)
+				f, _ := Fisher(c[0], c[1], c[2], c[3], FisherOptions{Alternative: alt, Rule: m})
+				if math.Abs(r.Statistic.Value-f.PValue) > 1e-10*f.PValue {
+					t.Errorf("%v %v %v: statistic %v, Fisher p %v", c, alt, m, r.Statistic.Value, f.PValue)
 				}
 				if r.PValue < 0 || r.PValue > 1 {
 					t.Errorf("%v %v: p = %v", c, alt, r.PValue)

@@ -12,33 +12,33 @@ import (
 // faulty; an incoming inspection finds 9 faulty in 200. Is that
 // consistent with 2%?
 func ExampleBinomial() {
-	r, err := test.Binomial(9, 200, 0.02, test.BinomialOptions{Alternative: test.Greater})
+	r, err := test.Binomial(9, 200, 0.02, test.BinomialOptions{Alternative: test.Higher})
 	if err != nil {
 		panic(err)
 	}
 	fmt.Printf("%s, %s: p = %.4f\n", r.Method, r.Alternative, r.PValue)
 	fmt.Printf("95%% lower bound on the faulty rate: %.4f\n", r.Interval.Lower)
 	// Output:
-	// point-probability, greater: p = 0.0202
+	// exact, higher: p = 0.0202
 	// 95% lower bound on the faulty rate: 0.0237
 }
 
 // Invented scenario: the same inspection, two-sided, by Blaker's test and
 // by the score test with its Wilson interval.
 func ExampleBinomial_methods() {
-	for _, m := range []test.BinomialMethod{test.ExactBlaker, test.Score} {
-		r, _ := test.Binomial(9, 200, 0.02, test.BinomialOptions{Method: m})
-		fmt.Printf("%-8s p = %.4f  95%% interval [%.4f, %.4f]\n", r.Method, r.PValue, r.Interval.Lower, r.Interval.Upper)
+	for _, opt := range []test.BinomialOptions{{Rule: test.Blaker}, {Method: test.Score}} {
+		r, _ := test.Binomial(9, 200, 0.02, opt)
+		fmt.Printf("%-14s p = %.4f  95%% interval [%.4f, %.4f]\n", r.Method, r.PValue, r.Interval.Lower, r.Interval.Upper)
 	}
 	// Output:
-	// Blaker   p = 0.0378  95% interval [0.0226, 0.0831]
-	// score    p = 0.0116  95% interval [0.0239, 0.0833]
+	// exact Blaker   p = 0.0378  95% interval [0.0226, 0.0831]
+	// score          p = 0.0116  95% interval [0.0239, 0.0833]
 }
 
 // Invented scenario: 30 reviewers rate two screen layouts; 4 prefer only
 // the old one, 13 only the new one.
 func ExampleMcNemar() {
-	r, _ := test.McNemar(4, 13, test.McNemarOptions{})
+	r, _ := test.McNemar(4, 13, test.McNemarOptions{MidP: true})
 	fmt.Printf("%s: p = %.4f\n", r.Method, r.PValue)
 	// Output:
 	// McNemar mid-p: p = 0.0309
@@ -56,19 +56,19 @@ func ExampleFisher() {
 // Invented scenario: the same e-mail test, one-sided, by Barnard's
 // unconditional test.
 func ExampleBarnard() {
-	r, err := test.Barnard(context.Background(), 3, 14, 10, 15, test.UnconditionalOptions{Alternative: test.Less})
+	r, err := test.Barnard(context.Background(), 3, 14, 10, 15, test.UnconditionalOptions{Alternative: test.Lower})
 	if err != nil {
 		panic(err)
 	}
-	fmt.Printf("%s, %s: z = %.3f, p = %.4f\n", r.Method, r.Alternative, r.Statistic, r.PValue)
+	fmt.Printf("%s, %s: z = %.3f, p = %.4f\n", r.Method, r.Alternative, r.Statistic.Value, r.PValue)
 	// Output:
-	// Barnard, less: z = -2.448, p = 0.0084
+	// Barnard, lower: z = -2.448, p = 0.0084
 }
 
 // Invented scenario: the same e-mail test by Boschloo's test.
 func ExampleBoschloo() {
-	r, _ := test.Boschloo(context.Background(), 3, 14, 10, 15, test.UnconditionalOptions{Alternative: test.Less})
-	fmt.Printf("%s: Fisher p = %.4f, p = %.4f\n", r.Method, r.Statistic, r.PValue)
+	r, _ := test.Boschloo(context.Background(), 3, 14, 10, 15, test.UnconditionalOptions{Alternative: test.Lower})
+	fmt.Printf("%s: Fisher p = %.4f, p = %.4f\n", r.Method, r.Statistic.Value, r.PValue)
 	// Output:
 	// Boschloo: Fisher p = 0.0180, p = 0.0084
 }
@@ -77,7 +77,7 @@ func ExampleBoschloo() {
 // in 820.
 func ExampleTwoSample() {
 	r, _ := test.TwoSample(48, 800, 71, 820, test.TwoSampleOptions{Method: test.ChiSquareYates})
-	fmt.Printf("%s: X2 = %.3f, p = %.4f\n", r.Method, r.Statistic, r.PValue)
+	fmt.Printf("%s: X2 = %.3f, p = %.4f\n", r.Method, r.Statistic.Value, r.PValue)
 	// Output:
 	// Pearson chi-square Yates: X2 = 3.824, p = 0.0505
 }
@@ -86,8 +86,8 @@ func ExampleTwoSample() {
 // 10 percentage points of stains less than the current one: 168 of 200
 // against 176 of 200.
 func ExampleDifferenceMargin() {
-	r, _ := test.DifferenceMargin(168, 200, 176, 200, -0.10, test.MarginOptions{Alternative: test.Greater})
-	fmt.Printf("%s: z = %.3f, p = %.4f\n", r.Method, r.Statistic, r.PValue)
+	r, _ := test.DifferenceMargin(168, 200, 176, 200, -0.10, test.MarginOptions{Alternative: test.Higher})
+	fmt.Printf("%s: z = %.3f, p = %.4f\n", r.Method, r.Statistic.Value, r.PValue)
 	// Output:
 	// Miettinen-Nurminen difference: z = 1.702, p = 0.0444
 }
@@ -95,7 +95,7 @@ func ExampleDifferenceMargin() {
 // Invented scenario: the same comparison as a ratio, non-inferiority
 // margin 0.9.
 func ExampleRatioMargin() {
-	r, _ := test.RatioMargin(168, 200, 176, 200, 0.9, test.MarginOptions{Alternative: test.Greater})
+	r, _ := test.RatioMargin(168, 200, 176, 200, 0.9, test.MarginOptions{Alternative: test.Higher})
 	fmt.Printf("ratio %.3f: p = %.4f\n", r.Estimate, r.PValue)
 	// Output:
 	// ratio 0.955: p = 0.0787
@@ -120,19 +120,19 @@ func ExampleRatioEquivalence() {
 }
 
 func ExampleParseAlternative() {
-	a, err := test.ParseAlternative("greater")
+	a, err := test.ParseAlternative("higher")
 	fmt.Println(a, err)
 	_, err = test.ParseAlternative("bigger")
 	fmt.Println(err)
 	// Output:
-	// greater <nil>
-	// test.ParseAlternative: s = "bigger" is not an alternative; use two-sided, less or greater
+	// higher <nil>
+	// test.ParseAlternative: s = "bigger" is not a test.Alternative; use one of two-sided, lower, higher
 }
 
 func ExampleParseBinomialMethod() {
-	m, _ := test.ParseBinomialMethod("blaker mid-p")
+	m, _ := test.ParseBinomialMethod("likelihood ratio")
 	fmt.Println(m)
-	// Output: Blaker mid-p
+	// Output: likelihood-ratio
 }
 
 func ExampleParseMcNemarMethod() {
@@ -141,10 +141,11 @@ func ExampleParseMcNemarMethod() {
 	// Output: McNemar exact
 }
 
-func ExampleParseFisherMethod() {
-	m, _ := test.ParseFisherMethod("central")
-	fmt.Println(m)
-	// Output: Fisher central
+func ExampleParseTwoSidedRule() {
+	m, _ := test.ParseTwoSidedRule("central")
+	r, _ := test.Fisher(3, 14, 10, 15, test.FisherOptions{Rule: m})
+	fmt.Printf("%s: p = %.4f\n", r.Method, r.PValue)
+	// Output: Fisher central: p = 0.0361
 }
 
 func ExampleParseTwoSampleMethod() {
@@ -159,18 +160,21 @@ func ExampleParseMarginMethod() {
 	// Output: Farrington-Manning
 }
 
-// Invented scenario: a result as JSON; the nuisance field of a
-// non-unconditional test is NaN and is written as a string.
+// Invented scenario: a result as JSON, in the project's schema (README,
+// "JSON schema"); fields that do not apply (the interval, the nuisance
+// location of an unconditional test) are left out.
 func ExampleResult_MarshalJSON() {
 	r, _ := test.McNemar(1, 7, test.McNemarOptions{Method: test.McNemarExact})
 	b, _ := json.Marshal(r)
 	fmt.Println(string(b))
 	// Output:
-	// {"Method":"McNemar exact","Alternative":"two-sided","Statistic":1,"StatisticName":"x12","PValue":0.07031250000000003,"LogPValue":-2.6548056865833973,"Estimate":-0.75,"Null":0,"Nuisance":"NaN"}
+	// {"method":"McNemar exact","alternative":"two-sided","null":0,"estimate":-0.75,"statistic":{"name":"n12","value":1},"p_value":0.07031250000000003,"log_p_value":-2.6548056865833973}
 }
 
-func ExampleInterval_Contains() {
-	r, _ := test.Binomial(4, 20, 0.5, test.BinomialOptions{Method: test.ExactCentral, Level: 0.90})
+// Invented scenario: 4 defective parts in 20; the equal-tailed exact test
+// of p = 0.5 and the 90% Clopper-Pearson interval that inverts it.
+func ExampleBinomial_interval() {
+	r, _ := test.Binomial(4, 20, 0.5, test.BinomialOptions{Rule: test.Central, Level: 0.90})
 	fmt.Printf("[%.4f, %.4f] contains 0.5: %v\n", r.Interval.Lower, r.Interval.Upper, r.Interval.Contains(0.5))
 	// Output: [0.0714, 0.4010] contains 0.5: false
 }

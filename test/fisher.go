@@ -6,52 +6,19 @@ import (
 	"github.com/kofnlab/kofn/internal/onesample"
 )
 
-// FisherMethod is the two-sided definition of Fisher's exact test.
-//
-// The zero value, FisherPointProbability, is the default: it is Fisher's
-// own definition (tables no more probable than the observed one) and the
-// one most software reports.
-type FisherMethod int
-
-// Two-sided definitions of Fisher's test, on the conditional
-// (hypergeometric) distribution f of x1 given the margins.
-const (
-	// FisherPointProbability: P(f(X1) <= f(x1)), "<=" within the relative
-	// tolerance 1e-7, so tables of equal probability in exact arithmetic
-	// are counted together.
-	FisherPointProbability FisherMethod = iota
-	// FisherCentral: twice the smaller conditional tail, capped at 1.
-	FisherCentral
-)
-
-var fisherNames = [...]string{"Fisher point-probability", "Fisher central"}
-
-// String returns "Fisher point-probability" or "Fisher central".
-func (m FisherMethod) String() string { return enumName(int(m), fisherNames[:], "FisherMethod") }
-
-// MarshalText encodes the method by its name.
-func (m FisherMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
-
-// ParseFisherMethod returns the method whose String() is s, ignoring case;
-// "point-probability" and "central" are accepted without the prefix.
-func ParseFisherMethod(s string) (FisherMethod, error) {
-	i, err := parseEnum("test.ParseFisherMethod", s, fisherNames[:], "Fisher ", "a Fisher two-sided definition")
-	return FisherMethod(i), err
-}
-
-func (m FisherMethod) onesample() onesample.Method {
-	if m == FisherCentral {
-		return onesample.Central
-	}
-	return onesample.PointProbability
-}
-
 // FisherOptions are the options of Fisher; the zero value is the two-sided
 // point-probability test without mid-p.
 type FisherOptions struct {
-	Method      FisherMethod // two-sided definition
-	MidP        bool         // mid-p: half the probability of the tables exactly as extreme
-	Alternative Alternative  // Less: p1 < p2; Greater: p1 > p2
+	// Rule is the two-sided rule on the conditional (hypergeometric)
+	// distribution f of x1 given the margins: PointProbability (the zero
+	// value, Fisher's own definition: P(f(X1) <= f(x1)), "<=" within the
+	// relative tolerance 1e-7, so tables of equal probability in exact
+	// arithmetic are counted together) or Central (twice the smaller
+	// conditional tail, capped at 1). Blaker is not offered for Fisher's
+	// test.
+	Rule        TwoSidedRule
+	MidP        bool        // mid-p: half the probability of the tables exactly as extreme
+	Alternative Alternative // Lower: p1 < p2; Higher: p1 > p2
 }
 
 // Fisher performs Fisher's exact test of H0: p1 = p2 for k1 successes of
@@ -60,8 +27,8 @@ type FisherOptions struct {
 //
 //	P(X1 = x) = C(n1, x) C(n2, s-x) / C(n1+n2, s).
 //
-// One-sided p-values are the tails P(X1 <= k1) (Less) and P(X1 >= k1)
-// (Greater); two-sided as opt.Method says. The mid-p value replaces the
+// One-sided p-values are the tails P(X1 <= k1) (Lower) and P(X1 >= k1)
+// (Higher); two-sided as opt.Rule says. The mid-p value replaces the
 // probability of the tables exactly as extreme as the observed one by half
 // of it (Lancaster 1961; for one-sided tests P(X1 < k1) + P(X1 = k1)/2).
 //
@@ -86,8 +53,8 @@ func Fisher(k1, n1, k2, n2 int64, opt FisherOptions) (Result, error) {
 	if err := checkTwo(fn, k1, n1, k2, n2); err != nil {
 		return Result{}, err
 	}
-	if opt.Method < 0 || int(opt.Method) >= len(fisherNames) {
-		return Result{}, argerr.Invalid(fn, "method", int(opt.Method), "is not a Fisher two-sided definition")
+	if opt.Rule != PointProbability && opt.Rule != Central {
+		return Result{}, argerr.Invalid(fn, "Rule", int(opt.Rule), "is not a two-sided rule of Fisher's test; use PointProbability or Central")
 	}
 	if err := checkAlt(fn, opt.Alternative); err != nil {
 		return Result{}, err
@@ -95,12 +62,15 @@ func Fisher(k1, n1, k2, n2 int64, opt FisherOptions) (Result, error) {
 	if _, err := binom.NewHyper(n1+n2, n1, k1+k2); err != nil {
 		return Result{}, argerr.TooLarge(fn, "n1 + n2", n1+n2, "makes the conditional distribution too wide for an exact sum ("+err.Error()+"); at this size use TwoSample (the asymptotic tests agree with Fisher's there)")
 	}
-	name := opt.Method.String()
+	name := "Fisher " + opt.Rule.String()
+	if opt.Alternative != TwoSided {
+		name = "Fisher"
+	}
 	if opt.MidP {
 		name += " mid-p"
 	}
 	r := newResult(name, opt.Alternative, fisherLogP(k1, n1, k2, n2, opt))
-	r.Statistic, r.StatisticName = float64(k1), "x1"
+	r.Statistic = Statistic{Name: "x1", Value: float64(k1)}
 	r.Estimate = diffEstimate(k1, n1, k2, n2)
 	if opt.MidP {
 		r.Warnings = append(r.Warnings, "mid-p value: not guaranteed to keep the size at or below alpha")
@@ -118,5 +88,5 @@ func fisherLogP(k1, n1, k2, n2 int64, opt FisherOptions) float64 {
 	if lo == hi {
 		return 0
 	}
-	return onesample.LogPValueOf(h, lo, hi, k1, opt.Method.onesample(), opt.MidP, onesample.Alternative(opt.Alternative))
+	return onesample.LogPValueOf(h, lo, hi, k1, opt.Rule, opt.MidP, opt.Alternative)
 }

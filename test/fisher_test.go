@@ -20,16 +20,16 @@ func TestFisherTeaTasting(t *testing.T) {
 		opt    FisherOptions
 		want   float64
 	}{
-		{3, 1, FisherOptions{Alternative: Greater}, 17.0 / 70},
-		{3, 1, FisherOptions{Alternative: Greater, MidP: true}, 9.0 / 70},
-		{4, 0, FisherOptions{Alternative: Greater}, 1.0 / 70},
-		{3, 1, FisherOptions{}, 34.0 / 70},                      // symmetric margins: twice the tail
-		{3, 1, FisherOptions{Method: FisherCentral}, 34.0 / 70}, // same here
-		{1, 3, FisherOptions{Alternative: Less}, 17.0 / 70},     // mirror table
-		{2, 2, FisherOptions{}, 1},                              // the most probable table
-		{2, 2, FisherOptions{MidP: true}, 1 - 0.5*36.0/70},      // ties: only itself
-		{4, 0, FisherOptions{MidP: true}, 1.0 / 70},             // 2 * (1/70) / 2: its mirror ties
-		{3, 1, FisherOptions{MidP: true}, (2.0+16.0)/70 - 0},    // 1/70+1/70 + (16+16)/70/2
+		{3, 1, FisherOptions{Alternative: Higher}, 17.0 / 70},
+		{3, 1, FisherOptions{Alternative: Higher, MidP: true}, 9.0 / 70},
+		{4, 0, FisherOptions{Alternative: Higher}, 1.0 / 70},
+		{3, 1, FisherOptions{}, 34.0 / 70},                   // symmetric margins: twice the tail
+		{3, 1, FisherOptions{Rule: Central}, 34.0 / 70},      // same here
+		{1, 3, FisherOptions{Alternative: Lower}, 17.0 / 70}, // mirror table
+		{2, 2, FisherOptions{}, 1},                           // the most probable table
+		{2, 2, FisherOptions{MidP: true}, 1 - 0.5*36.0/70},   // ties: only itself
+		{4, 0, FisherOptions{MidP: true}, 1.0 / 70},          // 2 * (1/70) / 2: its mirror ties
+		{3, 1, FisherOptions{MidP: true}, (2.0+16.0)/70 - 0}, // 1/70+1/70 + (16+16)/70/2
 	}
 	for _, tc := range tests {
 		r, err := Fisher(tc.k1, 4, tc.k2, 4, tc.opt)
@@ -47,7 +47,7 @@ func TestFisherTeaTasting(t *testing.T) {
 // (read): vaccine 7/15 infected, placebo 12/15, one-sided Fisher P = 0.0641.
 func TestFisherMehtaSenchaudhuri(t *testing.T) {
 	t.Parallel()
-	r, err := Fisher(7, 15, 12, 15, FisherOptions{Alternative: Less})
+	r, err := Fisher(7, 15, 12, 15, FisherOptions{Alternative: Lower})
 	if err != nil {
 		t.Fatal(err)
 	}

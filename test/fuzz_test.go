@@ -56,7 +56,7 @@ func FuzzFisher(f *testing.F) {
 	f.Add(int64(3), int64(4), int64(1), int64(4), 0, false, 0)
 	f.Add(int64(7), int64(15), int64(12), int64(15), 1, true, 1)
 	f.Fuzz(func(t *testing.T, k1, n1, k2, n2 int64, m int, mid bool, a int) {
-		r, err := Fisher(k1, n1, k2, n2, FisherOptions{Method: FisherMethod(m), MidP: mid, Alternative: Alternative(a)})
+		r, err := Fisher(k1, n1, k2, n2, FisherOptions{Rule: TwoSidedRule(m), MidP: mid, Alternative: Alternative(a)})
 		checkFuzz(t, "test.Fisher", r, err)
 	})
 }
@@ -70,7 +70,7 @@ func FuzzUnconditional(f *testing.F) {
 				return // valid but slow sizes are covered by the unit tests
 			}
 		}
-		opt := UnconditionalOptions{Alternative: Alternative(a), BergerBoos: gamma, Fisher: FisherMethod(fm)}
+		opt := UnconditionalOptions{Alternative: Alternative(a), BergerBoos: gamma, Rule: TwoSidedRule(fm)}
 		if bos {
 			r, err := Boschloo(context.Background(), k1, n1, k2, n2, opt)
 			checkFuzz(t, "test.Boschloo", r, err)
@@ -120,7 +120,7 @@ func FuzzParse(f *testing.F) {
 		check(ParseAlternative(s))
 		check(ParseBinomialMethod(s))
 		check(ParseMcNemarMethod(s))
-		check(ParseFisherMethod(s))
+		check(ParseTwoSidedRule(s))
 		check(ParseTwoSampleMethod(s))
 		check(ParseMarginMethod(s))
 	})

@@ -25,15 +25,15 @@ func TestGoldenR(t *testing.T) {
 			if err != nil || !relClose(got.PValue, r.Float(5), 1e-9) {
 				t.Errorf("%s: p = %v (%v)", what, got.PValue, err)
 			}
-			cp, _ := Binomial(k, n, p0, BinomialOptions{Alternative: a, Method: ExactCentral})
+			cp, _ := Binomial(k, n, p0, with(optCentral, a))
 			checkInterval(t, what, cp.Interval, r.Float(6), r.Float(7), 1e-9)
 		case "score1":
 			k, n, p0, a := r.Int(1), r.Int(2), r.Float(3), alt(t, r.Str(4))
-			m := Score
+			m := optScore
 			if r.Fields[5] == "TRUE" {
-				m = ScoreCC
+				m = optScoreCC
 			}
-			got, err := Binomial(k, n, p0, BinomialOptions{Alternative: a, Method: m})
+			got, err := Binomial(k, n, p0, with(m, a))
 			if err != nil || !relClose(got.PValue, r.Float(6), 1e-9) {
 				t.Errorf("%s: p = %v (%v)", what, got.PValue, err)
 			}
@@ -41,7 +41,7 @@ func TestGoldenR(t *testing.T) {
 			// |k - n p0| when that is below 1/2, so its interval then depends
 			// on p0; it is the Wilson interval with continuity correction
 			// (which inverts the corrected score test) only otherwise.
-			if d := float64(k) - float64(n)*p0; m == Score || d >= 0.5 || d <= -0.5 {
+			if d := float64(k) - float64(n)*p0; m.Method == Score || d >= 0.5 || d <= -0.5 {
 				checkInterval(t, what, got.Interval, r.Float(7), r.Float(8), 1e-9)
 			}
 		case "fisher":
@@ -59,11 +59,11 @@ func TestGoldenR(t *testing.T) {
 			got, err := TwoSample(k1, n1, k2, n2, TwoSampleOptions{Alternative: a, Method: m})
 			// Where the exact statistic is 0, R's floating-point cell
 			// arithmetic leaves about 1e-31; the integer numerator gives 0.
-			if w := r.Float(7); w < 1e-20 && got.Statistic < 1e-20 {
+			if w := r.Float(7); w < 1e-20 && got.Statistic.Value < 1e-20 {
 				r.Fields[7] = "0"
 			}
-			if err != nil || !relClose(got.Statistic, r.Float(7), 1e-9) || !relClose(got.PValue, r.Float(8), 1e-9) {
-				t.Errorf("%s: X2 = %v, p = %v (%v)", what, got.Statistic, got.PValue, err)
+			if err != nil || !relClose(got.Statistic.Value, r.Float(7), 1e-9) || !relClose(got.PValue, r.Float(8), 1e-9) {
+				t.Errorf("%s: X2 = %v, p = %v (%v)", what, got.Statistic.Value, got.PValue, err)
 			}
 		case "mcnemar":
 			m := McNemarAsymptotic
@@ -71,8 +71,8 @@ func TestGoldenR(t *testing.T) {
 				m = McNemarAsymptoticCC
 			}
 			got, err := McNemar(r.Int(1), r.Int(2), McNemarOptions{Method: m})
-			if err != nil || !relClose(got.Statistic, r.Float(4), 1e-9) || !relClose(got.PValue, r.Float(5), 1e-9) {
-				t.Errorf("%s: X2 = %v, p = %v (%v)", what, got.Statistic, got.PValue, err)
+			if err != nil || !relClose(got.Statistic.Value, r.Float(4), 1e-9) || !relClose(got.PValue, r.Float(5), 1e-9) {
+				t.Errorf("%s: X2 = %v, p = %v (%v)", what, got.Statistic.Value, got.PValue, err)
 			}
 		}
 	}

@@ -3,10 +3,20 @@ package test
 import (
 	"math"
 	"testing"
+
+	"github.com/kofnlab/kofn/interval"
 )
 
+// alt reads an alternative written in a golden file, whose generators use
+// the reference libraries' words "less" and "greater" for Lower and Higher.
 func alt(t *testing.T, s string) Alternative {
 	t.Helper()
+	switch s {
+	case "less":
+		return Lower
+	case "greater":
+		return Higher
+	}
 	a, err := ParseAlternative(s)
 	if err != nil {
 		t.Fatal(err)
@@ -21,7 +31,7 @@ func relClose(got, want, rel float64) bool {
 
 // checkInterval compares an attached interval with a reference one, to
 // abs (the references print interval ends at about 1e-15 absolute).
-func checkInterval(t *testing.T, what string, iv *Interval, lo, hi, abs float64) {
+func checkInterval(t *testing.T, what string, iv *interval.Interval, lo, hi, abs float64) {
 	t.Helper()
 	if iv == nil || math.Abs(iv.Lower-lo) > abs || math.Abs(iv.Upper-hi) > abs {
 		t.Errorf("%s: interval %+v, want [%v, %v]", what, iv, lo, hi)

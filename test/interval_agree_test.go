@@ -14,28 +14,28 @@ import (
 func TestIntervalPackageAgrees(t *testing.T) {
 	t.Parallel()
 	pairs := []struct {
-		m  BinomialMethod
+		m  BinomialOptions
 		im interval.Method
 	}{
-		{ExactCentral, interval.ClopperPearson},
-		{ExactCentralMidP, interval.MidP},
-		{ExactBlaker, interval.Blaker},
-		{Score, interval.Wilson},
-		{ScoreCC, interval.WilsonCC},
-		{LikelihoodRatio, interval.LikelihoodRatio},
+		{optCentral, interval.ClopperPearson},
+		{optCentralMidP, interval.MidP},
+		{optBlaker, interval.Blaker},
+		{optScore, interval.Wilson},
+		{optScoreCC, interval.WilsonCC},
+		{optLR, interval.LikelihoodRatio},
 	}
 	sides := []struct {
 		a Alternative
 		s interval.Side
-	}{{TwoSided, interval.TwoSided}, {Less, interval.UpperBound}, {Greater, interval.LowerBound}}
+	}{{TwoSided, interval.TwoSided}, {Lower, interval.UpperBound}, {Higher, interval.LowerBound}}
 	for _, p := range pairs {
 		for _, sd := range sides {
-			if p.m == ExactBlaker && sd.a != TwoSided {
+			if p.m == optBlaker && sd.a != TwoSided {
 				continue // one-sided Blaker is the one-sided exact test
 			}
 			for _, n := range []int64{1, 3, 10, 27, 100, 263, 1000} {
 				for k := int64(0); k <= n; k += 1 + n/7 {
-					r, err := Binomial(k, n, 0.5, BinomialOptions{Method: p.m, Alternative: sd.a})
+					r, err := Binomial(k, n, 0.5, with(p.m, sd.a))
 					if err != nil {
 						t.Fatal(err)
 					}

@@ -13,8 +13,8 @@ const invertGrid = 100
 
 // invert returns the confidence set {p : lp(p) >= la} of a one-parameter
 // test with log p-value lp, as its hull [lo, hi] within [0, 1], given the
-// estimate phat (where the p-value is largest). For alternative Less only
-// the upper end is searched (lo = 0), for Greater only the lower (hi = 1).
+// estimate phat (where the p-value is largest). For alternative Lower only
+// the upper end is searched (lo = 0), for Higher only the lower (hi = 1).
 //
 // With scan false the p-value must be monotone on each side of phat, and
 // each end is found by bisection to 1e-12 relative. With scan true (tests
@@ -49,16 +49,16 @@ func invert(lp func(float64) float64, la, phat float64, alt Alternative, scan bo
 }
 
 // invertOneSided is invert for a one-sided alternative, whose p-value is
-// monotone in the null value over all of [0, 1]: increasing for Greater
-// (the lower bound), decreasing for Less (the upper bound). The bound is
+// monotone in the null value over all of [0, 1]: increasing for Higher
+// (the lower bound), decreasing for Lower (the upper bound). The bound is
 // found by bisection between the rejected end and an accepted point: the
 // estimate when it is accepted, otherwise the opposite end (at a level
 // below 1/2 the bound lies beyond the estimate); ok is false when not even
 // that end is accepted (a mid-p test at a level below 1/2 with k at the
 // end of its range).
 func invertOneSided(acc func(float64) bool, phat float64, alt Alternative) (lo, hi float64, gaps, ok bool) {
-	out, in := 1.0, 0.0 // Less: the upper bound, between accepted 0 and rejected 1
-	if alt == Greater {
+	out, in := 1.0, 0.0 // Lower: the upper bound, between accepted 0 and rejected 1
+	if alt == Higher {
 		out, in = 0, 1
 	}
 	if acc(out) {
@@ -70,7 +70,7 @@ func invertOneSided(acc func(float64) bool, phat float64, alt Alternative) (lo, 
 		return math.NaN(), math.NaN(), false, false
 	}
 	b, _, _ := end(acc, out, in, false)
-	if alt == Greater {
+	if alt == Higher {
 		return b, 1, false, true
 	}
 	return 0, b, false, true

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/score"
 )
@@ -38,19 +40,24 @@ const (
 	FarringtonManning
 )
 
-var marginNames = [...]string{"Miettinen-Nurminen", "Farrington-Manning"}
+var marginNames = enum.New[MarginMethod]("test.MarginMethod", []string{"Miettinen-Nurminen", "Farrington-Manning"}, nil)
 
-// String returns "Miettinen-Nurminen" or "Farrington-Manning".
-func (m MarginMethod) String() string { return enumName(int(m), marginNames[:], "MarginMethod") }
+// String returns the method's published name.
+func (m MarginMethod) String() string { return marginNames.String(m) }
 
-// MarshalText encodes the method by its name.
-func (m MarginMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+// MarshalText encodes the method by its String form.
+func (m MarginMethod) MarshalText() ([]byte, error) { return marginNames.MarshalText(m) }
+
+// UnmarshalText decodes any spelling ParseMarginMethod accepts.
+func (m *MarginMethod) UnmarshalText(b []byte) error { return marginNames.UnmarshalText(m, b) }
 
 // ParseMarginMethod returns the method whose String() is s, ignoring case.
 func ParseMarginMethod(s string) (MarginMethod, error) {
-	i, err := parseEnum("test.ParseMarginMethod", s, marginNames[:], "", "a margin method")
-	return MarginMethod(i), err
+	return marginNames.Parse("test.ParseMarginMethod", s)
 }
+
+// MarginMethodValues lists the methods in order.
+func MarginMethodValues() []MarginMethod { return marginNames.Values() }
 
 func (m MarginMethod) variance() score.Variance {
 	if m == FarringtonManning {
@@ -78,8 +85,8 @@ func checkMargin(fn string, k1, n1, k2, n2 int64, m MarginMethod, a Alternative)
 	if n2 == 0 {
 		return argerr.Invalid(fn, "n2", n2, "is 0; each sample needs at least one trial")
 	}
-	if m < 0 || int(m) >= len(marginNames) {
-		return argerr.Invalid(fn, "method", int(m), "is not a margin method")
+	if err := marginNames.Check(fn, "Method", m); err != nil {
+		return err
 	}
 	return checkAlt(fn, a)
 }
@@ -110,8 +117,8 @@ func marginWarnings(k1, n1, k2, n2 int64) []string {
 // opt.Method for k1 successes of n1 and k2 of n2. One-sided versions are
 // the margin tests of clinical and product comparisons: with higher
 // proportions better, non-inferiority of sample 1 within a margin m > 0 is
-// Greater with delta = -m (H0: p1 - p2 <= -m), superiority by m is Greater
-// with delta = m; with lower proportions better use Less and the mirrored
+// Higher with delta = -m (H0: p1 - p2 <= -m), superiority by m is Higher
+// with delta = m; with lower proportions better use Lower and the mirrored
 // delta.
 //
 // Result: Statistic is the score z ("z"), Estimate p1 - p2, Null delta.
@@ -132,7 +139,7 @@ func DifferenceMargin(k1, n1, k2, n2 int64, delta float64, opt MarginOptions) (R
 	}
 	z := score.DiffZ(k1, n1, k2, n2, delta, opt.Method.variance())
 	r := newResult(opt.Method.String()+" difference", opt.Alternative, logZP(z, opt.Alternative))
-	r.Statistic, r.StatisticName = z, "z"
+	r.Statistic = Statistic{Name: "z", Value: z}
 	r.Estimate, r.Null = diffEstimate(k1, n1, k2, n2), delta
 	r.Warnings = marginWarnings(k1, n1, k2, n2)
 	return r, nil
@@ -140,7 +147,7 @@ func DifferenceMargin(k1, n1, k2, n2 int64, delta float64, opt MarginOptions) (R
 
 // RatioMargin tests H0: p1/p2 = rho (rho > 0) with the score statistic of
 // opt.Method, as DifferenceMargin does for the difference: non-inferiority
-// of sample 1 with margin rho < 1 is Greater (H0: p1/p2 <= rho).
+// of sample 1 with margin rho < 1 is Higher (H0: p1/p2 <= rho).
 //
 // Result: Statistic is the score z, Estimate p1/p2 (+Inf when only k2 is
 // 0, NaN when both are), Null rho.
@@ -156,7 +163,7 @@ func RatioMargin(k1, n1, k2, n2 int64, rho float64, opt MarginOptions) (Result, 
 	}
 	z := score.RatioZ(k1, n1, k2, n2, rho, opt.Method.variance())
 	r := newResult(opt.Method.String()+" ratio", opt.Alternative, logZP(z, opt.Alternative))
-	r.Statistic, r.StatisticName = z, "z"
+	r.Statistic = Statistic{Name: "z", Value: z}
 	r.Estimate, r.Null = ratioEstimate(k1, n1, k2, n2), rho
 	r.Warnings = marginWarnings(k1, n1, k2, n2)
 	return r, nil
@@ -171,8 +178,8 @@ func ratioEstimate(k1, n1, k2, n2 int64) float64 {
 
 // DifferenceEquivalence tests equivalence, H1: lower < p1 - p2 < upper
 // against H0: p1 - p2 <= lower or >= upper, by two one-sided tests
-// (Schuirmann 1987): the p-value is the larger of the Greater p-value at
-// lower and the Less p-value at upper, and equivalence is shown at level
+// (Schuirmann 1987): the p-value is the larger of the Higher p-value at
+// lower and the Lower p-value at upper, and equivalence is shown at level
 // alpha when it is below alpha (equivalently, when the 1 - 2 alpha
 // two-sided score interval lies inside (lower, upper)).
 //
@@ -230,16 +237,16 @@ func RatioEquivalence(k1, n1, k2, n2 int64, lower, upper float64, opt MarginOpti
 	return r, nil
 }
 
-// tost combines the two one-sided tests: Greater at the lower bound, Less
+// tost combines the two one-sided tests: Higher at the lower bound, Lower
 // at the upper; the p-value is the larger.
 func tost(method string, zl, zu, lower, upper float64) Result {
-	pl, pu := logZP(zl, Greater), logZP(zu, Less)
+	pl, pu := logZP(zl, Higher), logZP(zu, Lower)
 	r := newResult(method, TwoSided, math.Max(pl, pu))
-	r.StatisticName = "z"
+	r.Statistic.Name = "z"
 	if pl >= pu {
-		r.Statistic, r.Null = zl, lower
+		r.Statistic.Value, r.Null = zl, lower
 	} else {
-		r.Statistic, r.Null = zu, upper
+		r.Statistic.Value, r.Null = zu, upper
 	}
 	return r
 }

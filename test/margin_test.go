@@ -31,8 +31,8 @@ func TestGoldenMargin(t *testing.T) {
 			got, err = RatioMargin(k1, n1, k2, n2, null, opt)
 		}
 		z, p := r.Float(8), r.Float(9)
-		if err != nil || !relClose(got.Statistic, z, 1e-9) && abs(got.Statistic-z) > 1e-12 || !relClose(got.PValue, p, 1e-8) {
-			t.Errorf("%s: z = %v, p = %v (%v)", what, got.Statistic, got.PValue, err)
+		if err != nil || !relClose(got.Statistic.Value, z, 1e-9) && abs(got.Statistic.Value-z) > 1e-12 || !relClose(got.PValue, p, 1e-8) {
+			t.Errorf("%s: z = %v, p = %v (%v)", what, got.Statistic.Value, got.PValue, err)
 		}
 	}
 }
@@ -53,14 +53,14 @@ func TestEquivalence(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		lo, _ := DifferenceMargin(c[0], c[1], c[2], c[3], -0.1, MarginOptions{Alternative: Greater})
-		hi, _ := DifferenceMargin(c[0], c[1], c[2], c[3], 0.1, MarginOptions{Alternative: Less})
+		lo, _ := DifferenceMargin(c[0], c[1], c[2], c[3], -0.1, MarginOptions{Alternative: Higher})
+		hi, _ := DifferenceMargin(c[0], c[1], c[2], c[3], 0.1, MarginOptions{Alternative: Lower})
 		if want := max(lo.PValue, hi.PValue); e.PValue != want {
 			t.Errorf("%v: TOST p = %v, want %v", c, e.PValue, want)
 		}
 		re, _ := RatioEquivalence(c[0], c[1], c[2], c[3], 0.8, 1.25, MarginOptions{})
-		rl, _ := RatioMargin(c[0], c[1], c[2], c[3], 0.8, MarginOptions{Alternative: Greater})
-		rh, _ := RatioMargin(c[0], c[1], c[2], c[3], 1.25, MarginOptions{Alternative: Less})
+		rl, _ := RatioMargin(c[0], c[1], c[2], c[3], 0.8, MarginOptions{Alternative: Higher})
+		rh, _ := RatioMargin(c[0], c[1], c[2], c[3], 1.25, MarginOptions{Alternative: Lower})
 		if want := max(rl.PValue, rh.PValue); re.PValue != want {
 			t.Errorf("%v: ratio TOST p = %v, want %v", c, re.PValue, want)
 		}

@@ -18,28 +18,29 @@ func TestMcNemarFagerland(t *testing.T) {
 	t.Parallel()
 	tests := []struct {
 		m       McNemarMethod
+		mid     bool
 		p, stat float64
 		rel     float64
 	}{
-		{McNemarExact, 18.0 / 256, 1, 1e-12},
-		{McNemarMidP, 10.0 / 256, 1, 1e-12},
-		{McNemarAsymptotic, 0.0338948535246892729, 4.5, 1e-12},     // 2 Phi(-sqrt(4.5)), mpmath
-		{McNemarAsymptoticCC, 0.0770998717435417699, 3.125, 1e-12}, // 2 Phi(-sqrt(3.125)), mpmath
+		{McNemarExact, false, 18.0 / 256, 1, 1e-12},
+		{McNemarExact, true, 10.0 / 256, 1, 1e-12},
+		{McNemarAsymptotic, false, 0.0338948535246892729, 4.5, 1e-12},     // 2 Phi(-sqrt(4.5)), mpmath
+		{McNemarAsymptoticCC, false, 0.0770998717435417699, 3.125, 1e-12}, // 2 Phi(-sqrt(3.125)), mpmath
 	}
 	for _, tc := range tests {
-		r, err := McNemar(1, 7, McNemarOptions{Method: tc.m})
+		r, err := McNemar(1, 7, McNemarOptions{Method: tc.m, MidP: tc.mid})
 		if err != nil {
 			t.Fatal(err)
 		}
-		if diff := cmp.Diff([]float64{tc.p, tc.stat}, []float64{r.PValue, r.Statistic}, cmpopts.EquateApprox(tc.rel, 0)); diff != "" {
-			t.Errorf("%v (-want +got):\n%s", tc.m, diff)
+		if diff := cmp.Diff([]float64{tc.p, tc.stat}, []float64{r.PValue, r.Statistic.Value}, cmpopts.EquateApprox(tc.rel, 0)); diff != "" {
+			t.Errorf("%v mid-p %v (-want +got):\n%s", tc.m, tc.mid, diff)
 		}
 	}
 }
 
 func TestMcNemarEdges(t *testing.T) {
 	t.Parallel()
-	for m := McNemarMidP; m <= McNemarAsymptoticCC; m++ {
+	for _, m := range McNemarMethodValues() {
 		r, err := McNemar(0, 0, McNemarOptions{Method: m})
 		if err != nil || r.PValue != 1 || len(r.Warnings) == 0 {
 			t.Errorf("%v (0, 0): %+v, %v", m, r, err)

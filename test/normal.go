@@ -37,9 +37,9 @@ func logPhi(x float64) float64 {
 // log1p(-erf(|z|/sqrt 2)) for |z| < 1 (no cancellation near z = 0).
 func logZP(z float64, alt Alternative) float64 {
 	switch alt {
-	case Less:
+	case Lower:
 		return logPhi(z)
-	case Greater:
+	case Higher:
 		return logPhi(-z)
 	}
 	a := math.Abs(z)

@@ -32,7 +32,7 @@ func twoSampleTests() []twoSampleP {
 			return r.PValue
 		}, false, false},
 		{"Fisher central", func(k1, n1, k2, n2 int64, a Alternative) float64 {
-			r, _ := Fisher(k1, n1, k2, n2, FisherOptions{Alternative: a, Method: FisherCentral})
+			r, _ := Fisher(k1, n1, k2, n2, FisherOptions{Alternative: a, Rule: Central})
 			return r.PValue
 		}, false, false},
 		{"Fisher mid-p", func(k1, n1, k2, n2 int64, a Alternative) float64 {
@@ -72,7 +72,7 @@ func TestTwoSampleExactSize(t *testing.T) {
 	for _, tc := range twoSampleTests() {
 		for _, sz := range sizes {
 			n1, n2 := sz[0], sz[1]
-			for _, a := range []Alternative{TwoSided, Less, Greater} {
+			for _, a := range []Alternative{TwoSided, Lower, Higher} {
 				p := make([][]float64, n1+1)
 				for k1 := int64(0); k1 <= n1; k1++ {
 					p[k1] = make([]float64, n2+1)
@@ -89,10 +89,10 @@ func TestTwoSampleExactSize(t *testing.T) {
 						if tc.notMonotone || tc.mid && (k1+k2 <= 1 || k1+k2 >= n1+n2-1) {
 							continue
 						}
-						if k1 > 0 && (a == Less && v < p[k1-1][k2]*(1-1e-9) || a == Greater && v > p[k1-1][k2]*(1+1e-9)) {
+						if k1 > 0 && (a == Lower && v < p[k1-1][k2]*(1-1e-9) || a == Higher && v > p[k1-1][k2]*(1+1e-9)) {
 							t.Errorf("%s %v: p(%d, %d) = %v against p(%d, %d) = %v", tc.name, a, k1, k2, v, k1-1, k2, p[k1-1][k2])
 						}
-						if k2 > 0 && (a == Less && v > p[k1][k2-1]*(1+1e-9) || a == Greater && v < p[k1][k2-1]*(1-1e-9)) {
+						if k2 > 0 && (a == Lower && v > p[k1][k2-1]*(1+1e-9) || a == Higher && v < p[k1][k2-1]*(1-1e-9)) {
 							t.Errorf("%s %v: p(%d, %d) = %v against p(%d, %d) = %v", tc.name, a, k1, k2, v, k1, k2-1, p[k1][k2-1])
 						}
 					}
@@ -135,8 +135,8 @@ func TestUnconditionalTinyP(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := -1999 * math.Ln2; math.Abs(r.LogPValue-want) > 1e-9*math.Abs(want) || r.PValue != 0 || math.Abs(r.Nuisance-0.5) > 1e-6 {
-		t.Errorf("log p = %v at %v, want %v at 0.5", r.LogPValue, r.Nuisance, want)
+	if want := -1999 * math.Ln2; math.Abs(r.LogPValue-want) > 1e-9*math.Abs(want) || r.PValue != 0 || math.Abs(r.Nuisance.At-0.5) > 1e-6 {
+		t.Errorf("log p = %v at %v, want %v at 0.5", r.LogPValue, r.Nuisance.At, want)
 	}
 }
 
@@ -184,7 +184,7 @@ func TestBergerBoosBounds(t *testing.T) {
 	t.Parallel()
 	ctx := context.Background()
 	for _, c := range [][4]int64{{7, 15, 12, 15}, {0, 30, 15, 25}, {40, 100, 55, 100}, {3, 10, 3, 10}} {
-		for _, a := range []Alternative{TwoSided, Less, Greater} {
+		for _, a := range []Alternative{TwoSided, Lower, Higher} {
 			full, _ := Barnard(ctx, c[0], c[1], c[2], c[3], UnconditionalOptions{Alternative: a})
 			bb, err := Barnard(ctx, c[0], c[1], c[2], c[3], UnconditionalOptions{Alternative: a, BergerBoos: 0.001})
 			if err != nil {

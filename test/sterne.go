@@ -32,7 +32,7 @@ import (
 // the thresholds are decided by the p-value itself, evaluated just inside
 // each piece (1e-9 of its width), clear of the rounding of t_j.
 func sterneEnd(k, n int64, la float64, up bool) float64 {
-	acc := func(p float64) bool { return binomialLogP(ExactPoint, k, n, p, TwoSided) >= la }
+	acc := func(p float64) bool { return binomialLogP(BinomialOptions{}, k, n, p) >= la }
 	phat := float64(k) / float64(n)
 	// could(p): the bound lets the p-value reach alpha at p.
 	could := func(p float64) bool {
@@ -105,7 +105,7 @@ func sterne(k, n int64, la float64) (lo, hi float64, gaps, ok bool) {
 	}
 	for i := 1; i < invertGrid; i++ {
 		p := lo + (hi-lo)*float64(i)/invertGrid
-		if binomialLogP(ExactPoint, k, n, p, TwoSided) < la {
+		if binomialLogP(BinomialOptions{}, k, n, p) < la {
 			return lo, hi, true, true
 		}
 	}

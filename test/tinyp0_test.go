@@ -18,12 +18,12 @@ import (
 func TestAsymptoticTinyP0(t *testing.T) {
 	t.Parallel()
 	for _, r := range golden.Read(t, "../testdata/test_tinyp0.tsv") {
-		m, err := ParseBinomialMethod(r.Fields[0])
+		m, err := binomialSpec(r.Fields[0])
 		if err != nil {
 			t.Fatal(err)
 		}
 		k, n, p0, a, want := r.Int(1), r.Int(2), r.Float(3), alt(t, r.Str(4)), r.Float(5)
-		got, err := Binomial(k, n, p0, BinomialOptions{Method: m, Alternative: a})
+		got, err := Binomial(k, n, p0, with(m, a))
 		if err != nil {
 			t.Errorf("%v %d/%d p0=%g %v: %v", m, k, n, p0, a, err)
 			continue
@@ -36,8 +36,8 @@ func TestAsymptoticTinyP0(t *testing.T) {
 		if iv := got.Interval; iv == nil || math.IsNaN(iv.Lower) || math.IsNaN(iv.Upper) || iv.Lower < 0 || iv.Upper > 1 || iv.Lower > iv.Upper {
 			t.Errorf("%v %d/%d p0=%g %v: interval %+v", m, k, n, p0, a, iv)
 		}
-		if math.IsNaN(got.Statistic) || math.IsNaN(got.PValue) {
-			t.Errorf("%v %d/%d p0=%g %v: NaN statistic %v or p-value %v", m, k, n, p0, a, got.Statistic, got.PValue)
+		if math.IsNaN(got.Statistic.Value) || math.IsNaN(got.PValue) {
+			t.Errorf("%v %d/%d p0=%g %v: NaN statistic %v or p-value %v", m, k, n, p0, a, got.Statistic.Value, got.PValue)
 		}
 	}
 }

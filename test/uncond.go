@@ -21,7 +21,7 @@ const MaxUnconditionalTables = 4_100_000
 // value is the two-sided test with the supremum over the whole range
 // [0, 1] of the nuisance parameter.
 type UnconditionalOptions struct {
-	Alternative Alternative // Less: p1 < p2; Greater: p1 > p2
+	Alternative Alternative // Lower: p1 < p2; Higher: p1 > p2
 	// BergerBoos is the gamma of the Berger-Boos restriction: the
 	// supremum is taken over the (1 - gamma) Clopper-Pearson interval for
 	// the common proportion from the pooled count, and gamma is added to
@@ -30,9 +30,10 @@ type UnconditionalOptions struct {
 	// (1994), P values maximised over a confidence set for the nuisance
 	// parameter, JASA 89:1012-1016.
 	BergerBoos float64
-	// Fisher is the two-sided definition of Fisher's p-value that orders
-	// the tables in Boschloo's test; Barnard ignores it.
-	Fisher FisherMethod
+	// Rule is the two-sided rule of Fisher's p-value that orders the
+	// tables in Boschloo's test (PointProbability or Central); Barnard
+	// ignores it.
+	Rule TwoSidedRule
 }
 
 // region is a rejection region of 2x2 tables (x1 of n1, x2 of n2): for
@@ -544,8 +545,8 @@ func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64,
 	if !(opt.BergerBoos == 0 || opt.BergerBoos > 0 && opt.BergerBoos < 0.5) {
 		return Result{}, argerr.Invalid(fn, "BergerBoos", opt.BergerBoos, "must be 0 (no restriction) or lie in (0, 0.5); 0.001 is usual")
 	}
-	if opt.Fisher < 0 || int(opt.Fisher) >= len(fisherNames) {
-		return Result{}, argerr.Invalid(fn, "Fisher", int(opt.Fisher), "is not a Fisher two-sided definition")
+	if opt.Rule != PointProbability && opt.Rule != Central {
+		return Result{}, argerr.Invalid(fn, "Rule", int(opt.Rule), "is not a two-sided rule of Fisher's test; use PointProbability or Central")
 	}
 	if float64(n1+1)*float64(n2+1) > MaxUnconditionalTables {
 		return Result{}, argerr.TooLarge(fn, "n1", n1, "with n2 = "+argerr.Format(n2)+" gives more than 4.1e6 possible tables, the size limit of the unconditional tests; use Fisher or an asymptotic test")
@@ -568,7 +569,7 @@ func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64,
 		lo, hi := 0.0, 1.0
 		if g := opt.BergerBoos; g > 0 {
 			s, n := k1+k2, n1+n2
-			lp := func(p float64) float64 { return binomialLogP(ExactCentral, s, n, p, TwoSided) }
+			lp := func(p float64) float64 { return binomialLogP(BinomialOptions{Rule: Central}, s, n, p) }
 			lo, hi, _, _ = invert(lp, xmath.Log(g), float64(s)/float64(n), TwoSided, false)
 			switch s {
 			case 0:
@@ -586,9 +587,9 @@ func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64,
 		}
 	}
 	res := newResult(method, opt.Alternative, lp)
-	res.Statistic, res.StatisticName = stat, statName
+	res.Statistic = Statistic{Name: statName, Value: stat}
 	res.Estimate = diffEstimate(k1, n1, k2, n2)
-	res.Nuisance = at
+	res.Nuisance = &Nuisance{At: at}
 	switch {
 	case n1 == 0 || n2 == 0:
 		res.Warnings = append(res.Warnings, "an empty sample: the data carry no information on p1 - p2")

@@ -101,7 +101,7 @@ func bruteZ(x1, x2, n1, n2 int) *big.Rat {
 // rational: the lower or upper conditional tail, or the two-sided value by
 // method m (point probabilities <= that of x1 times 1 + 1e-7; or twice the
 // smaller tail, capped at 1).
-func bruteFisher(x1, x2, n1, n2 int, alt Alternative, m FisherMethod) *big.Rat {
+func bruteFisher(x1, x2, n1, n2 int, alt Alternative, m TwoSidedRule) *big.Rat {
 	s := x1 + x2
 	total := new(big.Int).Binomial(int64(n1+n2), int64(s))
 	h := func(x int) *big.Rat {
@@ -125,11 +125,11 @@ func bruteFisher(x1, x2, n1, n2 int, alt Alternative, m FisherMethod) *big.Rat {
 		}
 	}
 	switch {
-	case alt == Less:
+	case alt == Lower:
 		return lower
-	case alt == Greater:
+	case alt == Higher:
 		return upper
-	case m == FisherCentral:
+	case m == Central:
 		c := lower
 		if upper.Cmp(lower) < 0 {
 			c = upper
@@ -150,16 +150,16 @@ func bruteBarnard(k1, n1, k2, n2 int, alt Alternative) float64 {
 	return bruteSup(bruteRegion(n1, n2, func(x1, x2 int) bool {
 		z := bruteZ(x1, x2, n1, n2)
 		switch alt {
-		case Less:
+		case Lower:
 			return z.Cmp(obs) <= 0
-		case Greater:
+		case Higher:
 			return z.Cmp(obs) >= 0
 		}
 		return new(big.Rat).Abs(z).Cmp(absObs) >= 0
 	}))
 }
 
-func bruteBoschloo(k1, n1, k2, n2 int, alt Alternative, m FisherMethod) float64 {
+func bruteBoschloo(k1, n1, k2, n2 int, alt Alternative, m TwoSidedRule) float64 {
 	thr := new(big.Rat).Mul(bruteFisher(k1, k2, n1, n2, alt, m), big.NewRat(10_000_001, 10_000_000))
 	return bruteSup(bruteRegion(n1, n2, func(x1, x2 int) bool {
 		return bruteFisher(x1, x2, n1, n2, alt, m).Cmp(thr) <= 0
@@ -191,7 +191,7 @@ func checkBrute(t *testing.T, name string, k1, n1, k2, n2 int, got Result, err e
 		t.Fatalf("%s %d/%d vs %d/%d: %v", name, k1, n1, k2, n2, err)
 	}
 	if math.Abs(got.PValue-want) > 1e-6*want || math.IsNaN(got.PValue) {
-		t.Errorf("%s %d/%d vs %d/%d: p = %.12g (at pi = %.6g), enumeration %.12g", name, k1, n1, k2, n2, got.PValue, got.Nuisance, want)
+		t.Errorf("%s %d/%d vs %d/%d: p = %.12g (at pi = %.6g), enumeration %.12g", name, k1, n1, k2, n2, got.PValue, got.Nuisance.At, want)
 	}
 }
 
@@ -202,7 +202,7 @@ func TestBarnardBrute(t *testing.T) {
 	for _, sh := range bruteShapes() {
 		for k1 := 0; k1 <= sh.n1; k1++ {
 			for k2 := 0; k2 <= sh.n2; k2++ {
-				for _, alt := range []Alternative{TwoSided, Less, Greater} {
+				for _, alt := range []Alternative{TwoSided, Lower, Higher} {
 					r, err := Barnard(context.Background(), int64(k1), int64(sh.n1), int64(k2), int64(sh.n2), UnconditionalOptions{Alternative: alt})
 					checkBrute(t, "Barnard "+alt.String(), k1, sh.n1, k2, sh.n2, r, err, bruteBarnard(k1, sh.n1, k2, sh.n2, alt))
 				}
@@ -219,14 +219,14 @@ func TestBoschlooBrute(t *testing.T) {
 	t.Parallel()
 	type variant struct {
 		alt Alternative
-		m   FisherMethod
+		m   TwoSidedRule
 	}
-	variants := []variant{{TwoSided, FisherPointProbability}, {TwoSided, FisherCentral}, {Less, 0}, {Greater, 0}}
+	variants := []variant{{TwoSided, PointProbability}, {TwoSided, Central}, {Lower, 0}, {Higher, 0}}
 	for _, sh := range bruteShapes() {
 		for k1 := 0; k1 <= sh.n1; k1++ {
 			for k2 := 0; k2 <= sh.n2; k2++ {
 				for _, v := range variants {
-					r, err := Boschloo(context.Background(), int64(k1), int64(sh.n1), int64(k2), int64(sh.n2), UnconditionalOptions{Alternative: v.alt, Fisher: v.m})
+					r, err := Boschloo(context.Background(), int64(k1), int64(sh.n1), int64(k2), int64(sh.n2), UnconditionalOptions{Alternative: v.alt, Rule: v.m})
 					checkBrute(t, "Boschloo "+v.alt.String()+" "+v.m.String(), k1, sh.n1, k2, sh.n2, r, err, bruteBoschloo(k1, sh.n1, k2, sh.n2, v.alt, v.m))
 				}
 			}
@@ -252,19 +252,19 @@ func TestUnconditionalDegenerate(t *testing.T) {
 		warn           string
 	}{
 		{0, 1000000, 0, 0, TwoSided, 0, empty},
-		{0, 0, 0, 1000000, Less, 0, empty},
-		{17, 1000000, 0, 0, Greater, 0, empty},
+		{0, 0, 0, 1000000, Lower, 0, empty},
+		{17, 1000000, 0, 0, Higher, 0, empty},
 		{0, 0, 0, 0, TwoSided, 0, empty},
 		{0, 5, 0, 0, TwoSided, 0.001, empty},
 		{0, 500, 0, 1, TwoSided, 0, none},
-		{0, 2000, 0, 1, Less, 0, none},
-		{0, 20000, 0, 1, Greater, 0, none},
+		{0, 2000, 0, 1, Lower, 0, none},
+		{0, 20000, 0, 1, Higher, 0, none},
 		{0, 1000000, 0, 1, TwoSided, 0, none},
 		{0, 2000, 0, 2000, TwoSided, 0.001, none},
 		{1000000, 1000000, 1, 1, TwoSided, 0, all},
-		{7, 7, 3, 3, Less, 0.001, all},
-		{999990, 1000000, 0, 1, Less, 0, ""}, // p1 estimated above p2: Less has p = 1
-		{3, 1000000, 1, 1, Greater, 0, ""},   // p1 estimated below p2: Greater has p = 1
+		{7, 7, 3, 3, Lower, 0.001, all},
+		{999990, 1000000, 0, 1, Lower, 0, ""}, // p1 estimated above p2: Lower has p = 1
+		{3, 1000000, 1, 1, Higher, 0, ""},     // p1 estimated below p2: Higher has p = 1
 	}
 	for _, c := range cases {
 		for name, f := range map[string]func(context.Context, int64, int64, int64, int64, UnconditionalOptions) (Result, error){"Barnard": Barnard, "Boschloo": Boschloo} {

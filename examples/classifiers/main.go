@@ -88,8 +88,8 @@ func run(w io.Writer) error {
 
 	r.Line("")
 	r.Line("2. McNemar's test of equal accuracy (two-sided), from the %d disagreements", onlyA+onlyB)
-	for _, m := range []test.McNemarMethod{test.McNemarExact, test.McNemarMidP} {
-		res, err := test.McNemar(onlyA, onlyB, test.McNemarOptions{Method: m})
+	for _, midP := range []bool{false, true} {
+		res, err := test.McNemar(onlyA, onlyB, test.McNemarOptions{MidP: midP})
 		if err != nil {
 			return err
 		}

@@ -94,7 +94,7 @@ func run(w io.Writer) error {
 	r.Line("")
 	r.Line("2. Exact test of H0: error rate >= %g against H1: below it", maxRate)
 	bt, err := test.Binomial(failures, requests, maxRate, test.BinomialOptions{
-		Alternative: test.Less, Level: confidence, SkipInterval: true,
+		Alternative: test.Lower, Level: confidence, SkipInterval: true,
 	})
 	if err != nil {
 		return err
@@ -106,11 +106,11 @@ func run(w io.Writer) error {
 	r.Line("3. Requests needed to demonstrate %.1f%% success at %.0f%% confidence", 100*objective, 100*confidence)
 	r.Line("  failures allowed\trequests\tconfidence reached\twith one request fewer")
 	for _, c := range allowed {
-		d, err := power.DemonstrationTrials(objective, confidence, c)
+		d, err := power.DemonstrationTrials(c, objective, confidence)
 		if err != nil {
 			return err
 		}
-		r.Line("  c = %d\t%d\t%.6f\t%.6f", c, d.Trials, d.AchievedConfidence, d.PreviousConfidence)
+		r.Line("  c = %d\t%d\t%.6f\t%.6f", c, d.Trials, d.AchievedLevel, d.PreviousLevel)
 	}
 	r.Line("  A plan passes only if the failures stay at or below c; allowing more")
 	r.Line("  failures costs more requests but makes a good release less likely to fail.")

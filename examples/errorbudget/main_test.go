@@ -35,7 +35,7 @@ func TestRun(t *testing.T) {
 		{"error budget of window", []float64{48, 65}},
 		{"Clopper-Pearson upper bound", []float64{upper, 0.001}},
 		{"demonstrated success rate", []float64{1 - upper, 95}},
-		{"exact binomial, one-sided (less)", []float64{pLess, 0.05}},
+		{"exact binomial, one-sided (lower)", []float64{pLess, 0.05}},
 	} {
 		if diff := cmp.Diff(c.want, check.Values(t, out, c.label), printed); diff != "" {
 			t.Errorf("%s (-want +got):\n%s", c.label, diff)
@@ -66,14 +66,14 @@ func TestRun(t *testing.T) {
 // and 298 give only 0.94996 (success-run formula n = ln(1-C)/ln R, common practice).
 func TestSuccessRun(t *testing.T) {
 	t.Parallel()
-	d, err := power.DemonstrationTrials(0.99, 0.95, 0)
+	d, err := power.DemonstrationTrials(0, 0.99, 0.95)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if d.Trials != 299 {
 		t.Errorf("trials = %d, want 299", d.Trials)
 	}
-	if diff := cmp.Diff(0.94996, d.PreviousConfidence, cmpopts.EquateApprox(0, 5e-6)); diff != "" {
+	if diff := cmp.Diff(0.94996, d.PreviousLevel, cmpopts.EquateApprox(0, 5e-6)); diff != "" {
 		t.Errorf("confidence of 298 trials (-want +got):\n%s", diff)
 	}
 }

@@ -84,14 +84,14 @@ func run(w io.Writer) error {
 	r.Line("")
 	r.Line("1. Patients for %.0f%% power: exact binomial test of H0: p = %.2f vs %.2f, one-sided alpha %.2f",
 		100*target, nullRate, targetRate, alpha)
-	opt := power.OneSampleOptions{Alpha: alpha, Power: target, Alternative: power.Greater}
+	opt := power.OneSampleOptions{Alpha: alpha, Power: target, Alternative: test.Higher}
 	size, err := power.OneSampleN(ctx, nullRate, targetRate, opt)
 	if err != nil {
 		return err
 	}
 	r.Warnings(size.Warnings)
 	r.Line("  patients\treject H0 if responders >=\tattained size\texact power")
-	// The test is one-sided (greater), so its acceptance region is
+	// The test is one-sided (higher), so its acceptance region is
 	// 0..AcceptHi and H0 is rejected from AcceptHi+1 responders on.
 	for n := max(1, size.First-5); n <= size.Stable+3; n++ {
 		pw, err := power.OneSamplePower(n, nullRate, targetRate, opt)
@@ -129,7 +129,7 @@ func run(w io.Writer) error {
 	r.Line("")
 	r.Line("2. Precision: P(|k/n - %.2f| <= eps) >= %.2f", targetRate, precProb)
 	for _, eps := range epsilons {
-		prec, err := power.PrecisionN(ctx, targetRate, eps, power.PrecisionOptions{Target: precProb})
+		prec, err := power.PrecisionN(ctx, targetRate, eps, power.PrecisionOptions{Level: precProb})
 		if err != nil {
 			return err
 		}
@@ -148,7 +148,7 @@ func run(w io.Writer) error {
 	r.Line("")
 	r.Line("3. Report for an invented outcome: %d of %d responded", responders, planned)
 	res, err := test.Binomial(responders, planned, nullRate, test.BinomialOptions{
-		Alternative: test.Greater, Level: 1 - alpha,
+		Alternative: test.Higher, Level: 1 - alpha,
 	})
 	if err != nil {
 		return err

@@ -145,9 +145,9 @@ func run(w io.Writer) error {
 		if err != nil {
 			return err
 		}
-		opt.Test = power.Barnard
+		opt.Test = power.BarnardExactTest
 		bp, err := power.TwoSamplePower(ctx, n, n, planA, planB, opt)
-		opt.Test = power.Fisher
+		opt.Test = power.FisherExactTest
 		if err != nil {
 			return err
 		}

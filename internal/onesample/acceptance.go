@@ -35,9 +35,9 @@ func Acceptance(n int64, alpha float64, t Test) (lo, hi int64, err error) {
 	la := math.Log(alpha)
 	ok := func(k int64) bool { return t.logP(d, k) >= la }
 	switch t.Alternative {
-	case Less: // p(k) = P(X <= k) increases in k
+	case Lower: // p(k) = P(X <= k) increases in k
 		lo, hi = root.SmallestInt(ok, 0, n), n
-	case Greater: // p(k) = P(X >= k) decreases in k
+	case Higher: // p(k) = P(X >= k) decreases in k
 		lo, hi = 0, root.SmallestInt(func(k int64) bool { return !ok(k) }, 0, n)-1
 	}
 	if t.Alternative != TwoSided {
@@ -49,7 +49,7 @@ func Acceptance(n int64, alpha float64, t Test) (lo, hi int64, err error) {
 	// The p-value is unimodal in k with its maximum at the mode (point
 	// probability) or at one of the two outcomes around the median split.
 	var m int64
-	if t.Method == PointProbability {
+	if t.Rule == PointProbability {
 		m = d.Mode()
 	} else {
 		m = blakerOrder(d, 0, n).peak

@@ -11,7 +11,7 @@ func FuzzLogPValue(f *testing.F) {
 	f.Add(int64(500), int64(1000), 0.5, 2, true, 0)
 	f.Add(int64(0), int64(0), 1.0, 1, false, 2)
 	f.Fuzz(func(t *testing.T, k, n int64, p0 float64, m int, mid bool, a int) {
-		tt := Test{P0: p0, Method: Method(m), Mid: mid, Alternative: Alternative(a)}
+		tt := Test{P0: p0, Rule: Rule(m), MidP: mid, Alternative: Alternative(a)}
 		lp, err := LogPValue(k, n, tt)
 		if err != nil {
 			if !strings.HasPrefix(err.Error(), "onesample.LogPValue: ") {
@@ -32,7 +32,7 @@ func FuzzAcceptance(f *testing.F) {
 		if n > 100000 {
 			n %= 100000
 		}
-		tt := Test{P0: p0, Method: Method(m), Mid: mid, Alternative: Alternative(a)}
+		tt := Test{P0: p0, Rule: Rule(m), MidP: mid, Alternative: Alternative(a)}
 		lo, hi, err := Acceptance(n, alpha, tt)
 		if err != nil {
 			if !strings.HasPrefix(err.Error(), "onesample.Acceptance: ") {

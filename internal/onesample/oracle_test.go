@@ -88,17 +88,17 @@ func minRat(a, b *big.Rat) *big.Rat {
 // p returns the exact p-value of test t (P0 ignored: the oracle's p0).
 func (o ratOracle) p(k int64, t Test) *big.Rat {
 	switch t.Alternative {
-	case Less:
-		return o.lower(k, t.Mid)
-	case Greater:
-		return o.upper(k, t.Mid)
+	case Lower:
+		return o.lower(k, t.MidP)
+	case Higher:
+		return o.upper(k, t.MidP)
 	}
-	switch t.Method {
+	switch t.Rule {
 	case Central:
-		v := new(big.Rat).Mul(big.NewRat(2, 1), minRat(o.lower(k, t.Mid), o.upper(k, t.Mid)))
+		v := new(big.Rat).Mul(big.NewRat(2, 1), minRat(o.lower(k, t.MidP), o.upper(k, t.MidP)))
 		return minRat(v, big.NewRat(1, 1))
 	case Blaker:
-		return o.ordered(k, func(j int64) *big.Rat { return minRat(o.sum(0, j), o.sum(j, o.n)) }, t.Mid)
+		return o.ordered(k, func(j int64) *big.Rat { return minRat(o.sum(0, j), o.sum(j, o.n)) }, t.MidP)
 	}
-	return o.ordered(k, func(j int64) *big.Rat { return o.pmf[j] }, t.Mid)
+	return o.ordered(k, func(j int64) *big.Rat { return o.pmf[j] }, t.MidP)
 }

@@ -5,6 +5,7 @@ import (
 
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/hyp"
 	"github.com/kofnlab/kofn/internal/root"
 	"github.com/kofnlab/kofn/internal/xmath"
 )
@@ -21,60 +22,29 @@ const RelTol = 1e-7
 // logRel is ln(1 + RelTol), the tolerance in log space.
 var logRel = math.Log1p(RelTol)
 
-// Method is the definition of the two-sided p-value.
-type Method int
+// Rule is the two-sided rule (the one type, internal/hyp.TwoSidedRule).
+type Rule = hyp.TwoSidedRule
 
-// The two-sided definitions described in the package comment.
+// Alternative is the alternative hypothesis (internal/hyp.Alternative).
+type Alternative = hyp.Alternative
+
+// The rules and alternatives, re-exported for brevity inside the module.
 const (
-	PointProbability Method = iota
-	Central
-	Blaker
+	PointProbability = hyp.PointProbability
+	Central          = hyp.Central
+	Blaker           = hyp.Blaker
+	TwoSided         = hyp.TwoSided
+	Lower            = hyp.Lower
+	Higher           = hyp.Higher
 )
-
-// String returns the published name of the method.
-func (m Method) String() string {
-	switch m {
-	case PointProbability:
-		return "point-probability"
-	case Central:
-		return "central"
-	case Blaker:
-		return "Blaker"
-	}
-	return "Method(" + argerr.Format(int(m)) + ")"
-}
-
-// Alternative is the alternative hypothesis: TwoSided (P != p0, the zero
-// value), Less (P < p0) or Greater (P > p0).
-type Alternative int
-
-// The alternatives.
-const (
-	TwoSided Alternative = iota
-	Less
-	Greater
-)
-
-// String returns "two-sided", "less" or "greater".
-func (a Alternative) String() string {
-	switch a {
-	case TwoSided:
-		return "two-sided"
-	case Less:
-		return "less"
-	case Greater:
-		return "greater"
-	}
-	return "Alternative(" + argerr.Format(int(a)) + ")"
-}
 
 // Test is a one-sample exact test: the null proportion, the two-sided
 // definition, the mid-p switch and the alternative. Its zero value is the
 // two-sided point-probability test of p0 = 0.
 type Test struct {
 	P0          float64     // null proportion, in [0, 1]
-	Method      Method      // two-sided definition (ignored for one-sided alternatives)
-	Mid         bool        // mid-p variant
+	Rule        Rule        // two-sided rule (ignored for one-sided alternatives)
+	MidP        bool        // mid-p variant
 	Alternative Alternative // alternative hypothesis
 }
 
@@ -89,11 +59,11 @@ func (t Test) check(fn string, n int64) error {
 	if err := argerr.Prob(fn, "p0", t.P0); err != nil {
 		return err
 	}
-	if t.Method < PointProbability || t.Method > Blaker {
-		return argerr.Invalid(fn, "method", int(t.Method), "is not a known two-sided definition")
+	if err := t.Rule.Check(fn, "rule"); err != nil {
+		return err
 	}
-	if t.Alternative < TwoSided || t.Alternative > Greater {
-		return argerr.Invalid(fn, "alternative", int(t.Alternative), "is not two-sided, less or greater")
+	if err := t.Alternative.Check(fn, "alternative"); err != nil {
+		return err
 	}
 	return nil
 }
@@ -123,7 +93,7 @@ func LogPValue(k, n int64, t Test) (float64, error) {
 // the two-sided Blaker p-value, with mid selecting the mid-p variant. The
 // Blaker confidence set at level 1-alpha is {p0 : acceptability >= alpha}.
 func LogAcceptability(k, n int64, p0 float64, mid bool) (float64, error) {
-	t := Test{P0: p0, Method: Blaker, Mid: mid}
+	t := Test{P0: p0, Rule: Blaker, MidP: mid}
 	if err := t.check("onesample.LogAcceptability", n); err != nil {
 		return math.NaN(), err
 	}
@@ -135,7 +105,7 @@ func LogAcceptability(k, n int64, p0 float64, mid bool) (float64, error) {
 
 // logP is LogPValue without the argument checks.
 func (t Test) logP(d binom.Dist, k int64) float64 {
-	return LogPValueOf(d, 0, d.N, k, t.Method, t.Mid, t.Alternative)
+	return LogPValueOf(d, 0, d.N, k, t.Rule, t.MidP, t.Alternative)
 }
 
 // Discrete is a distribution on the integers lo..hi whose PMF increases up
@@ -150,15 +120,15 @@ type Discrete interface {
 
 // LogPValueOf returns the log p-value of the observed value x of d, whose
 // support is lo..hi, under the definition (m, mid, alt) of the package
-// comment: the one-sided tails for Less and Greater, the point-probability,
+// comment: the one-sided tails for Lower and Higher, the point-probability,
 // central or Blaker two-sided p-value otherwise. Fisher's exact test is
 // this applied to the hypergeometric distribution. It does not validate
 // its arguments: x must lie in lo..hi.
-func LogPValueOf(d Discrete, lo, hi, x int64, m Method, mid bool, alt Alternative) float64 {
+func LogPValueOf(d Discrete, lo, hi, x int64, m Rule, mid bool, alt Alternative) float64 {
 	switch alt {
-	case Less:
+	case Lower:
 		return lowerTail(d, x, mid)
-	case Greater:
+	case Higher:
 		return upperTail(d, x, mid)
 	}
 	switch m {

@@ -11,13 +11,13 @@ import (
 // allTests lists every combination of method, mid-p and alternative.
 func allTests(p0 float64) []Test {
 	var ts []Test
-	for _, alt := range []Alternative{TwoSided, Less, Greater} {
-		for _, m := range []Method{PointProbability, Central, Blaker} {
+	for _, alt := range []Alternative{TwoSided, Lower, Higher} {
+		for _, m := range []Rule{PointProbability, Central, Blaker} {
 			if alt != TwoSided && m != PointProbability {
 				continue
 			}
 			for _, mid := range []bool{false, true} {
-				ts = append(ts, Test{P0: p0, Method: m, Mid: mid, Alternative: alt})
+				ts = append(ts, Test{P0: p0, Rule: m, MidP: mid, Alternative: alt})
 			}
 		}
 	}
@@ -98,8 +98,8 @@ func TestLargeN(t *testing.T) {
 		t.Errorf("LogPValue(495000, 1e6) = %v, want %v", lp, want)
 	}
 	k = 400000
-	for _, m := range []Method{PointProbability, Central, Blaker} {
-		lp, err = LogPValue(k, n, Test{P0: 0.5, Method: m})
+	for _, m := range []Rule{PointProbability, Central, Blaker} {
+		lp, err = LogPValue(k, n, Test{P0: 0.5, Rule: m})
 		if err != nil || math.IsInf(lp, 0) || lp > -1000 || math.Abs(lp-(math.Ln2+d.LogCDF(k))) > 1e-10*math.Abs(lp) {
 			t.Errorf("%v: LogPValue(400000, 1e6) = %v, %v; want finite %v", m, lp, err, math.Ln2+d.LogCDF(k))
 		}
@@ -116,8 +116,8 @@ func TestErrors(t *testing.T) {
 		{3, 2, Test{P0: 0.5}, "onesample.LogPValue: k = 3 exceeds n = 2"},
 		{-1, 2, Test{P0: 0.5}, "onesample.LogPValue: k = -1 is negative; counts are 0 or more"},
 		{1, 2, Test{P0: math.NaN()}, "onesample.LogPValue: p0 = NaN is not a probability in [0, 1]"},
-		{1, 2, Test{P0: 0.5, Method: 7}, "onesample.LogPValue: method = 7 is not a known two-sided definition"},
-		{1, 2, Test{P0: 0.5, Alternative: -1}, "onesample.LogPValue: alternative = -1 is not two-sided, less or greater"},
+		{1, 2, Test{P0: 0.5, Rule: 7}, "onesample.LogPValue: rule = 7 is not a test.TwoSidedRule; use one of point-probability, central, Blaker"},
+		{1, 2, Test{P0: 0.5, Alternative: -1}, "onesample.LogPValue: alternative = -1 is not a test.Alternative; use one of two-sided, lower, higher"},
 	}
 	for _, tc := range tests {
 		_, err := LogPValue(tc.k, tc.n, tc.t)
