@@ -5,6 +5,8 @@ import (
 	"math"
 	"strconv"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 )
@@ -43,47 +45,24 @@ const (
 	BenjaminiYekutieli
 )
 
-var adjustmentNames = [...]string{"Holm", "Bonferroni", "Sidak", "Hochberg", "Hommel", "Benjamini-Hochberg", "Benjamini-Yekutieli"}
+var adjustmentNames = enum.New[Adjustment]("test.Adjustment", []string{"Holm", "Bonferroni", "Sidak", "Hochberg", "Hommel", "Benjamini-Hochberg", "Benjamini-Yekutieli"}, map[string]Adjustment{"bh": BenjaminiHochberg, "by": BenjaminiYekutieli})
 
-// String returns the published name: "Holm", "Bonferroni", "Sidak",
-// "Hochberg", "Hommel", "Benjamini-Hochberg" or "Benjamini-Yekutieli".
-func (a Adjustment) String() string { return enumName(int(a), adjustmentNames[:], "Adjustment") }
+// String returns the published name.
+func (a Adjustment) String() string { return adjustmentNames.String(a) }
 
-// MarshalText encodes the adjustment by its name.
-func (a Adjustment) MarshalText() ([]byte, error) { return []byte(a.String()), nil }
+// MarshalText encodes the value by its String form.
+func (a Adjustment) MarshalText() ([]byte, error) { return adjustmentNames.MarshalText(a) }
 
-// UnmarshalText decodes a name accepted by ParseAdjustment.
-func (a *Adjustment) UnmarshalText(b []byte) error {
-	v, err := ParseAdjustment(string(b))
-	if err != nil {
-		return err
-	}
-	*a = v
-	return nil
-}
+// UnmarshalText decodes any spelling ParseAdjustment accepts.
+func (a *Adjustment) UnmarshalText(b []byte) error { return adjustmentNames.UnmarshalText(a, b) }
 
-// ParseAdjustment returns the adjustment whose String() is s, ignoring case
-// and surrounding space; "BH" and "BY" are accepted for the two
-// false-discovery-rate adjustments (the abbreviations of the literature).
+// ParseAdjustment returns the value whose String() is s, ignoring case.
 func ParseAdjustment(s string) (Adjustment, error) {
-	switch t := toLowerTrim(s); t {
-	case "bh":
-		return BenjaminiHochberg, nil
-	case "by":
-		return BenjaminiYekutieli, nil
-	}
-	i, err := parseEnum("test.ParseAdjustment", s, adjustmentNames[:], "", "a multiplicity adjustment")
-	return Adjustment(i), err
+	return adjustmentNames.Parse("test.ParseAdjustment", s)
 }
 
 // AdjustmentValues lists the adjustments in the order of their values.
-func AdjustmentValues() []Adjustment {
-	v := make([]Adjustment, len(adjustmentNames))
-	for i := range v {
-		v[i] = Adjustment(i)
-	}
-	return v
-}
+func AdjustmentValues() []Adjustment { return adjustmentNames.Values() }
 
 // ControlsFDR reports whether the adjustment controls the false discovery
 // rate (Benjamini-Hochberg, Benjamini-Yekutieli) rather than the
@@ -92,7 +71,7 @@ func (a Adjustment) ControlsFDR() bool { return a == BenjaminiHochberg || a == B
 
 // checkAdjustment validates an adjustment for function fn.
 func checkAdjustment(fn string, a Adjustment) error {
-	if a < 0 || int(a) >= len(adjustmentNames) {
+	if a < 0 || !adjustmentNames.Valid(a) {
 		return argerr.Invalid(fn, "method", int(a), "is not a multiplicity adjustment")
 	}
 	return nil
@@ -306,23 +285,4 @@ func harmonic(m int) float64 {
 		h += 1 / float64(l)
 	}
 	return h
-}
-
-// toLowerTrim lower-cases s and trims surrounding space.
-func toLowerTrim(s string) string {
-	b := []byte(s)
-	i, j := 0, len(b)
-	for i < j && (b[i] == ' ' || b[i] == '\t') {
-		i++
-	}
-	for j > i && (b[j-1] == ' ' || b[j-1] == '\t') {
-		j--
-	}
-	b = b[i:j]
-	for k, c := range b {
-		if 'A' <= c && c <= 'Z' {
-			b[k] = c + 'a' - 'A'
-		}
-	}
-	return string(b)
 }

@@ -6,6 +6,8 @@ import (
 	"math"
 	"strconv"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 )
@@ -38,35 +40,24 @@ const (
 	LikelihoodRatioG
 )
 
-var kSampleNames = [...]string{"Freeman-Halton", "Pearson chi-square", "likelihood-ratio G"}
+var kSampleNames = enum.New[KSampleMethod]("test.KSampleMethod", []string{"Freeman-Halton", "Pearson chi-square", "likelihood-ratio G"}, nil)
 
-// String returns "Freeman-Halton", "Pearson chi-square" or
-// "likelihood-ratio G".
-func (m KSampleMethod) String() string { return enumName(int(m), kSampleNames[:], "KSampleMethod") }
+// String returns the published name.
+func (m KSampleMethod) String() string { return kSampleNames.String(m) }
 
-// MarshalText encodes the method by its name.
-func (m KSampleMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+// MarshalText encodes the value by its String form.
+func (m KSampleMethod) MarshalText() ([]byte, error) { return kSampleNames.MarshalText(m) }
 
-// UnmarshalText decodes a name accepted by ParseKSampleMethod.
-func (m *KSampleMethod) UnmarshalText(b []byte) error {
-	v, err := ParseKSampleMethod(string(b))
-	if err != nil {
-		return err
-	}
-	*m = v
-	return nil
-}
+// UnmarshalText decodes any spelling ParseKSampleMethod accepts.
+func (m *KSampleMethod) UnmarshalText(b []byte) error { return kSampleNames.UnmarshalText(m, b) }
 
-// ParseKSampleMethod returns the method whose String() is s, ignoring case.
+// ParseKSampleMethod returns the value whose String() is s, ignoring case.
 func ParseKSampleMethod(s string) (KSampleMethod, error) {
-	i, err := parseEnum("test.ParseKSampleMethod", s, kSampleNames[:], "", "a k-sample method")
-	return KSampleMethod(i), err
+	return kSampleNames.Parse("test.ParseKSampleMethod", s)
 }
 
 // KSampleMethodValues lists the methods in the order of their values.
-func KSampleMethodValues() []KSampleMethod {
-	return []KSampleMethod{FreemanHalton, PearsonChiSquare, LikelihoodRatioG}
-}
+func KSampleMethodValues() []KSampleMethod { return kSampleNames.Values() }
 
 // KSampleOptions are the options of EqualProportions; the zero value is
 // the exact Freeman-Halton test without mid-p.
@@ -184,7 +175,7 @@ func EqualProportions(ctx context.Context, x, n []int64, opt KSampleOptions) (KS
 	if err != nil {
 		return KSampleResult{}, err
 	}
-	if opt.Method < 0 || int(opt.Method) >= len(kSampleNames) {
+	if opt.Method < 0 || !kSampleNames.Valid(opt.Method) {
 		return KSampleResult{}, argerr.Invalid(fn, "method", int(opt.Method), "is not a k-sample method")
 	}
 	if opt.MidP && opt.Method != FreemanHalton {

@@ -6,6 +6,8 @@ import (
 	"math"
 	"strconv"
 
+	"github.com/kofnlab/kofn/internal/enum"
+
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 	"github.com/kofnlab/kofn/internal/xmath"
@@ -40,30 +42,19 @@ const (
 // beyond it the test fails with ErrTooLarge.
 const MaxExactFitOutcomes = 20_000_000
 
-var fitNames = [...]string{"Pearson chi-square", "likelihood-ratio G", "exact multinomial"}
+var fitNames = enum.New[FitMethod]("test.FitMethod", []string{"Pearson chi-square", "likelihood-ratio G", "exact multinomial"}, nil)
 
-// String returns "Pearson chi-square", "likelihood-ratio G" or
-// "exact multinomial".
-func (m FitMethod) String() string { return enumName(int(m), fitNames[:], "FitMethod") }
+// String returns the published name.
+func (m FitMethod) String() string { return fitNames.String(m) }
 
-// MarshalText encodes the method by its name.
-func (m FitMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+// MarshalText encodes the value by its String form.
+func (m FitMethod) MarshalText() ([]byte, error) { return fitNames.MarshalText(m) }
 
-// UnmarshalText decodes a name accepted by ParseFitMethod.
-func (m *FitMethod) UnmarshalText(b []byte) error {
-	v, err := ParseFitMethod(string(b))
-	if err != nil {
-		return err
-	}
-	*m = v
-	return nil
-}
+// UnmarshalText decodes any spelling ParseFitMethod accepts.
+func (m *FitMethod) UnmarshalText(b []byte) error { return fitNames.UnmarshalText(m, b) }
 
-// ParseFitMethod returns the method whose String() is s, ignoring case.
-func ParseFitMethod(s string) (FitMethod, error) {
-	i, err := parseEnum("test.ParseFitMethod", s, fitNames[:], "", "a goodness-of-fit method")
-	return FitMethod(i), err
-}
+// ParseFitMethod returns the value whose String() is s, ignoring case.
+func ParseFitMethod(s string) (FitMethod, error) { return fitNames.Parse("test.ParseFitMethod", s) }
 
 // FitMethodValues lists the methods in the order of their values.
 func FitMethodValues() []FitMethod { return []FitMethod{FitPearson, FitG, FitExact} }
@@ -143,7 +134,7 @@ func SampleRatio(ctx context.Context, counts []int64, weights []float64, opt Sam
 	if len(weights) != k {
 		return SampleRatioResult{}, argerr.Invalid(fn, "weights", len(weights), "weights given for "+strconv.Itoa(k)+" arms; give one per arm")
 	}
-	if opt.Method < 0 || int(opt.Method) >= len(fitNames) {
+	if opt.Method < 0 || !fitNames.Valid(opt.Method) {
 		return SampleRatioResult{}, argerr.Invalid(fn, "method", int(opt.Method), "is not a goodness-of-fit method")
 	}
 	alpha := opt.Alpha
