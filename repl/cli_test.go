@@ -17,13 +17,13 @@ func TestMainExitStatus(t *testing.T) {
 		out    string // expected in stdout
 		errs   string // expected in stderr
 	}{
-		{[]string{"-c", "tail 17/40 p=0.3"}, "", ExitOK, "P(X = 17)", ""},
+		{[]string{"-c", "tail 17/40 p=0.3"}, "", ExitOK, "exactly 17", ""},
 		{[]string{"-c", "tail 41/40 p=0.3"}, "", ExitFailed, "", `"41/40"`},
-		{[]string{"-c", "tail 17/40 p=0.3\nspred"}, "", ExitFailed, "P(X = 17)", "did you mean spread"},
+		{[]string{"-c", "tail 17/40 p=0.3\nspred"}, "", ExitFailed, "exactly 17", "did you mean spread"},
 		{nil, "tail 17/40 p=0.3\n# comment\n\nspread n=40 p=0.3\n", ExitOK, "central 95%", ""},
 		{nil, "tail 17/40 p=0.3\nbogus\nspread n=40 p=0.3\n", ExitFailed, "central 95%", "line 2: error:"},
 		{nil, "quit\nbogus\n", ExitOK, "", ""},
-		{[]string{"-json", "-c", "tail 2/89 p=0.01"}, "", ExitOK, `"p_at_most":0.9396899183135595`, ""},
+		{[]string{"-json", "-c", "tail 2/89 p=0.01"}, "", ExitOK, `"at_most":0.9396899183135595`, ""},
 		{[]string{"-width", "5"}, "", ExitUsage, "", "outside 20 to 400"},
 		{[]string{"-c", "each - bounds"}, "k,n\n17,40\n", ExitOK, "17,40,0.425,", ""},
 		{nil, "each - bounds\n17,40\n", ExitFailed, "", "standard input holds the commands"},

@@ -2,6 +2,7 @@ package repl
 
 import (
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/kofnlab/kofn/binom"
@@ -147,13 +148,15 @@ func tailCommand() *command {
 		Name:    "tail",
 		Group:   "distribution",
 		Summary: "point and tail probabilities of k successes in n trials",
-		Usage:   "tail K/N p=P   or   tail LO..HI/N p=P",
-		Options: []opt{optP},
+		Usage:   "tail K/N p=P   or   tail LO..HI/N p=P   or   tail k=K n=N p=P",
+		Options: []opt{optP, {Name: "k", Doc: "the count K, with n= (instead of K/N)"}, {Name: "n", Doc: "the trials N, with k="}},
 		Help: helpText{
-			Computes: "For K/N: P(X = K), P(X <= K), P(X >= K), P(X < K) and P(X > K) for X binomial with n = N " +
-				"and success probability p. For LO..HI/N: P(LO <= X <= HI). Each tail is computed directly in log " +
-				"space, never as 1 minus the other, so tiny tails keep their digits; values below 1e-300 print as a " +
-				"power of ten.",
+			Computes: "For X, the number of successes in N trials with success probability p, and the " +
+				"count K: first the three chances that split every outcome - below K (X < K), exactly K and above " +
+				"K (X > K), which add up to 1 - then the two cumulative tails, at most K (X <= K) and at least K " +
+				"(X >= K). For LO..HI/N: the chance that X lies from LO to HI. Each probability is computed " +
+				"directly in log space, never as 1 minus another, so tiny tails keep their digits; one below " +
+				"1e-300 prints as a power of ten beside its natural log. The count may also be given as k=K n=N.",
 			Assumptions: "Independent trials with one common success probability.",
 			Examples:    []string{"tail 17/40 p=0.3", "tail 0/299 p=1%", "tail 10..20/40 p=0.3", "tail 900/1000 p=0.5"},
 			Sources:     sourcesBinom,
@@ -162,18 +165,23 @@ func tailCommand() *command {
 	}
 }
 
+// tailResult is tail's JSON: the partition of the outcomes at k (below,
+// exactly, above; they sum to 1) and the two cumulative tails, each with
+// its natural log (finite where the value underflows to 0).
 type tailResult struct {
 	N          int64   `json:"n"`
 	P          float64 `json:"p"`
 	K          int64   `json:"k"`
-	Equal      float64 `json:"p_equal"`
-	AtMost     float64 `json:"p_at_most"`
-	AtLeast    float64 `json:"p_at_least"`
-	Below      float64 `json:"p_below"`
-	Above      float64 `json:"p_above"`
-	LogEqual   float64 `json:"log_p_equal"`
-	LogAtMost  float64 `json:"log_p_at_most"`
-	LogAtLeast float64 `json:"log_p_at_least"`
+	Below      float64 `json:"below"`
+	Exactly    float64 `json:"exactly"`
+	Above      float64 `json:"above"`
+	AtMost     float64 `json:"at_most"`
+	AtLeast    float64 `json:"at_least"`
+	LogBelow   float64 `json:"log_below"`
+	LogExactly float64 `json:"log_exactly"`
+	LogAbove   float64 `json:"log_above"`
+	LogAtMost  float64 `json:"log_at_most"`
+	LogAtLeast float64 `json:"log_at_least"`
 }
 
 type rangeResult struct {
@@ -202,7 +210,7 @@ func (s *Session) ge() string {
 
 func runTail(c *call) error {
 	a := c.Args
-	if err := a.Want(1, 1); err != nil {
+	if err := a.Want(0, 1); err != nil {
 		return err
 	}
 	if err := a.Need("p"); err != nil {
@@ -213,6 +221,15 @@ func runTail(c *call) error {
 		return err
 	}
 	tok := a.Pos(0)
+	if a.Len() == 0 {
+		// tail k=K n=N p=P
+		if err := a.Need("k", "n"); err != nil {
+			return &InputError{Token: "tail", Reason: "needs the count K/N (or k= and n=); usage: " + a.cmd.Usage}
+		}
+		tok = a.Str("k", "") + "/" + a.Str("n", "")
+	} else if a.Has("k") || a.Has("n") {
+		return inputErr(tok, "gives the count twice: write K/N or k= n=, not both")
+	}
 	s := c.S
 	if ks, ns, ok := strings.Cut(tok, "/"); ok && strings.Contains(ks, "..") {
 		lo, hi, err := parseRange(ks)
@@ -236,7 +253,7 @@ func runTail(c *call) error {
 		lp := d.LogProbRange(lo, hi)
 		c.Data(rangeResult{n, p, lo, hi, math.Exp(lp), lp})
 		b := c.Block("binomial, n = " + count(n) + " trials, p = " + in(p))
-		b.Row("P("+count(lo)+" "+s.le()+" X "+s.le()+" "+count(hi)+")", s.logNum(lp))
+		b.Row("from "+count(lo)+" to "+count(hi), s.logNum(lp), "P("+count(lo)+" "+s.le()+" X "+s.le()+" "+count(hi)+")"+lnNote(lp))
 		return nil
 	}
 	k, n, err := parseKN(tok)
@@ -248,21 +265,33 @@ func runTail(c *call) error {
 		return err
 	}
 	r := tailResult{N: n, P: p, K: k,
-		LogEqual: d.LogProb(k), LogAtMost: d.LogCDF(k), LogAtLeast: d.LogSurvival(k - 1)}
-	r.Equal, r.AtMost, r.AtLeast = math.Exp(r.LogEqual), math.Exp(r.LogAtMost), math.Exp(r.LogAtLeast)
-	r.Below, r.Above = d.CDF(k-1), d.Survival(k)
+		LogBelow: d.LogCDF(k - 1), LogExactly: d.LogProb(k), LogAbove: d.LogSurvival(k),
+		LogAtMost: d.LogCDF(k), LogAtLeast: d.LogSurvival(k - 1)}
+	r.Below, r.Exactly, r.Above = d.CDF(k-1), math.Exp(r.LogExactly), d.Survival(k)
+	r.AtMost, r.AtLeast = d.CDF(k), d.Survival(k-1)
 	c.Data(r)
 	ks := count(k)
-	b := c.Block("binomial, n = " + count(n) + " trials, p = " + in(p) + "; k = " + ks + " (k/n = " + s.num(float64(k)/float64(n)) + ")")
-	if n == 0 {
-		b.Title = "binomial, n = 0 trials, p = " + in(p) + "; k = 0"
+	title := "binomial, n = " + count(n) + " trials, p = " + in(p) + "; k = " + ks
+	if n > 0 {
+		title += " (k/n = " + s.num(float64(k)/float64(n)) + ")"
 	}
-	b.Row("P(X = "+ks+")", s.logNum(r.LogEqual))
-	b.Row("P(X "+s.le()+" "+ks+")", s.logNum(r.LogAtMost), "lower tail")
-	b.Row("P(X "+s.ge()+" "+ks+")", s.logNum(r.LogAtLeast), "upper tail")
-	b.Row("P(X < "+ks+")", s.logNum(d.LogCDF(k-1)))
-	b.Row("P(X > "+ks+")", s.logNum(d.LogSurvival(k)))
+	b := c.Block(title)
+	b.Row("below "+ks, s.logNum(r.LogBelow), "X < "+ks+lnNote(r.LogBelow))
+	b.Row("exactly "+ks, s.logNum(r.LogExactly), "X = "+ks+lnNote(r.LogExactly))
+	b.Row("above "+ks, s.logNum(r.LogAbove), "X > "+ks+lnNote(r.LogAbove))
+	b.Row("", "", "(these three add up to 1)")
+	b.Row("at most "+ks, s.logNum(r.LogAtMost), "X "+s.le()+" "+ks+", the lower tail"+lnNote(r.LogAtMost))
+	b.Row("at least "+ks, s.logNum(r.LogAtLeast), "X "+s.ge()+" "+ks+", the upper tail"+lnNote(r.LogAtLeast))
 	return nil
+}
+
+// lnNote gives the natural log of a probability that prints as a power
+// of ten (below 1e-300), where the plain value underflows.
+func lnNote(lp float64) string {
+	if lp > -690 || math.IsInf(lp, -1) {
+		return ""
+	}
+	return "; ln = " + strconv.FormatFloat(lp, 'f', 2, 64)
 }
 
 func cutCommand() *command {

@@ -64,10 +64,10 @@ func TestDistributionValues(t *testing.T) {
 		// probability 0.9120 (k = 20 kept because 0.3 + 0.1 is read as 0.4).
 		{"spread n=50 p=0.3 within=0.1", "within_prob", 0.9120, 1e-4, "binom doc example"},
 		// Montgomery, single sampling plan n = 89, c = 2: P(X <= 2) at p = 0.03 and 0.04.
-		{"tail 2/89 p=0.03", "p_at_most", 0.498483, 1e-6, "Montgomery"},
-		{"tail 2/89 p=0.04", "p_at_most", 0.304158, 2e-6, "Montgomery"},
+		{"tail 2/89 p=0.03", "at_most", 0.498483, 1e-6, "Montgomery"},
+		{"tail 2/89 p=0.04", "at_most", 0.304158, 2e-6, "Montgomery"},
 		// Success run (REFERENCES.md): 299 trials without failure at p = 0.01: 0.99^299 = 0.049536.
-		{"tail 0/299 p=0.01", "p_equal", 0.0495362, 1e-5, "success run"},
+		{"tail 0/299 p=0.01", "exactly", 0.0495362, 1e-5, "success run"},
 		// Binomial mean and standard deviation n p and sqrt(n p (1-p)) (textbook identities).
 		{"spread n=40 p=0.3", "mean", 12, 1e-15, "identity"},
 		{"spread n=40 p=0.3", "std_dev", 2.8982753492378876, 1e-14, "identity"},

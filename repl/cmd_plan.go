@@ -548,7 +548,11 @@ func exactSizeRows(c *call, b *block, r power.ExactSize, target float64, what st
 		b.Row("safe n", "not found", what+" drops below the target again up to n = "+count(r.Horizon))
 	}
 	if what == "power" {
-		b.Row("attained size", s.num(r.Size))
+		at := r.Stable
+		if at == 0 {
+			at = r.First
+		}
+		b.Row("attained size", s.num(r.Size), "at n = "+count(at)+": the chance the test rejects when H0 is true")
 	}
 	b.Row("normal approx.", count(r.Normal.N), r.Normal.Method)
 	b.Warn(r.Warnings...)
@@ -580,9 +584,9 @@ func normalRows(s *Session, b *block, r power.NormalSize, unit string) {
 	} else {
 		b.Row("n", count(r.N), unit)
 	}
-	b.Row("unrounded", s.num(r.Real))
+	b.Row("unrounded", s.numFine(r.Real), "the formula's n before rounding up")
 	if r.Uncorrected != r.Real {
-		b.Row("uncorrected", s.num(r.Uncorrected), "before the continuity correction")
+		b.Row("uncorrected", s.numFine(r.Uncorrected), "before the continuity correction")
 	}
 	b.Row("power at n", s.num(r.Power), "by the same approximation")
 	b.Warn(r.Warnings...)

@@ -74,20 +74,54 @@ func pad(s string, width int) string {
 
 // num formats x with the session's significant digits: fixed notation
 // between 1e-4 and 1e15, scientific outside; trailing zeros are kept so
-// that bounds line up. Non-finite values print as +Inf, -Inf and NaN.
+// that bounds line up. Digits are true: a value that is not 1 never
+// prints as 1 (0.999999 stays 0.999999, and one too close to 1 for 15
+// digits reads "1 - 1.1e-16"), exactly 1 prints as "1", and an undefined
+// value (NaN) reads "undefined".
 func (s *Session) num(x float64) string { return formatNum(x, s.Set.Digits) }
+
+// numFine formats a value that the reader compares with a whole number
+// next to it (an unrounded sample size): at least two decimals, so
+// 8733.49 does not print as 8733 under n = 8734.
+func (s *Session) numFine(x float64) string {
+	if math.Abs(x) < 1e12 && x != math.Trunc(x) {
+		return formatNum(x, max(s.Set.Digits, int(math.Floor(math.Log10(math.Abs(x))))+3))
+	}
+	return s.num(x)
+}
 
 func formatNum(x float64, digits int) string {
 	switch {
 	case math.IsNaN(x):
-		return "NaN"
+		return "undefined"
 	case math.IsInf(x, 1):
 		return "+Inf"
 	case math.IsInf(x, -1):
 		return "-Inf"
 	case x == 0:
 		return "0"
+	case x == 1 || x == -1:
+		return strconv.FormatFloat(x, 'f', 0, 64)
 	}
+	out := formatDigits(x, digits)
+	if a := math.Abs(x); a > 0.5 && a < 1 {
+		// Never show a value below 1 as 1.000.
+		for d := digits + 1; d <= 15 && (out == "1" || strings.TrimRight(strings.TrimLeft(out, "-"), "0") == "1."); d++ {
+			out = formatDigits(x, d)
+		}
+		if v, _ := strconv.ParseFloat(out, 64); math.Abs(v) == 1 {
+			sign := ""
+			if x < 0 {
+				sign = "-"
+			}
+			return sign + "1 - " + strconv.FormatFloat(1-a, 'g', 2, 64)
+		}
+	}
+	return out
+}
+
+// formatDigits formats x with the given significant digits (see num).
+func formatDigits(x float64, digits int) string {
 	e := int(math.Floor(math.Log10(math.Abs(x))))
 	if e >= -4 && e < 15 {
 		dec := max(0, digits-1-e)
@@ -157,4 +191,13 @@ func (s *Session) numApart(x, ref float64) string {
 		}
 	}
 	return formatNum(x, 17)
+}
+
+// axisNum formats a plot's axis label: like num, but a round value keeps
+// its decimals ("1.0" beside "0.95") so labels line up.
+func axisNum(x float64, digits int) string {
+	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+		return formatNum(x, digits)
+	}
+	return formatDigits(x, digits)
 }

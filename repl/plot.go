@@ -100,10 +100,10 @@ func (c chart) render() string {
 	}
 	// y labels: top, bottom and the reference row.
 	labels := make([]string, h)
-	labels[0] = formatNum(c.yHi, c.digits)
-	labels[h-1] = formatNum(c.yLo, c.digits)
+	labels[0] = axisNum(c.yHi, c.digits)
+	labels[h-1] = axisNum(c.yLo, c.digits)
 	if refRow >= 0 && refRow != 0 && refRow != h-1 {
-		labels[h-1-refRow] = formatNum(c.ref, c.digits)
+		labels[h-1-refRow] = axisNum(c.ref, c.digits)
 	}
 	lw := 0
 	for _, l := range labels {
@@ -197,9 +197,9 @@ func (c chart) xAxis(cols int) string {
 
 // labelWidth is the width of the y labels.
 func (c chart) labelWidth() int {
-	w := max(len(formatNum(c.yHi, c.digits)), len(formatNum(c.yLo, c.digits)))
+	w := max(len(axisNum(c.yHi, c.digits)), len(formatNum(c.yLo, c.digits)))
 	if !math.IsNaN(c.ref) {
-		w = max(w, len(formatNum(c.ref, c.digits)))
+		w = max(w, len(axisNum(c.ref, c.digits)))
 	}
 	return w
 }

@@ -1,6 +1,7 @@
 package repl
 
 import (
+	"math"
 	"regexp"
 	"strings"
 	"testing"
@@ -78,5 +79,28 @@ func TestTerminalSafety(t *testing.T) {
 	}
 	if got := safeText("a\tb\nc\x00", true); got != "a\\tb\nc\\x00" {
 		t.Errorf("safeText = %q", got)
+	}
+}
+
+// TestTailPartition: tail's three-way split at k adds up to 1 and the
+// cumulative tails are its partial sums; k= n= is the same as K/N.
+func TestTailPartition(t *testing.T) {
+	t.Parallel()
+	for _, line := range []string{"tail 17/40 p=0.3", "tail 0/299 p=0.01", "tail 52/52 p=0.9", "tail k=67 n=52300 p=0.001"} {
+		r := runJSON(t, line)
+		below, exactly, above := num(t, r, "below"), num(t, r, "exactly"), num(t, r, "above")
+		if sum := below + exactly + above; math.Abs(sum-1) > 1e-14 {
+			t.Errorf("%s: below + exactly + above = %v", line, sum)
+		}
+		if d := num(t, r, "at_most") - (below + exactly); math.Abs(d) > 1e-14 {
+			t.Errorf("%s: at_most differs from below + exactly by %v", line, d)
+		}
+		if d := num(t, r, "at_least") - (above + exactly); math.Abs(d) > 1e-14 {
+			t.Errorf("%s: at_least differs from above + exactly by %v", line, d)
+		}
+	}
+	a, b := runJSON(t, "tail k=67 n=52300 p=0.001"), runJSON(t, "tail 67/52300 p=0.001")
+	if num(t, a, "at_most") != num(t, b, "at_most") {
+		t.Error("tail k= n= differs from tail K/N")
 	}
 }
