@@ -48,6 +48,13 @@ func (p Performance) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(p))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (p *Performance) UnmarshalJSON(b []byte) error {
+	type plain Performance
+	return jsonfloat.Unmarshal(b, (*plain)(p))
+}
+
 // CoverageSummary condenses a sweep: the smallest coverage and where it
 // occurs, and the averages over the grid (for an evenly spaced grid of p,
 // the average approximates the integral of coverage over p, the "mean
@@ -65,6 +72,13 @@ type CoverageSummary struct {
 func (s CoverageSummary) MarshalJSON() ([]byte, error) {
 	type plain CoverageSummary
 	return jsonfloat.Marshal(plain(s))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (s *CoverageSummary) UnmarshalJSON(b []byte) error {
+	type plain CoverageSummary
+	return jsonfloat.Unmarshal(b, (*plain)(s))
 }
 
 // Coverage returns the exact coverage probability and expected width of

@@ -43,6 +43,13 @@ func (iv Interval) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(iv))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (iv *Interval) UnmarshalJSON(b []byte) error {
+	type plain Interval
+	return jsonfloat.Unmarshal(b, (*plain)(iv))
+}
+
 // Width returns Upper - Lower (+Inf for an unbounded ratio interval).
 func (iv Interval) Width() float64 { return iv.Upper - iv.Lower }
 

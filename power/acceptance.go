@@ -106,6 +106,13 @@ func (r Rectifying) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(r))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *Rectifying) UnmarshalJSON(b []byte) error {
+	type plain Rectifying
+	return jsonfloat.Unmarshal(b, (*plain)(r))
+}
+
 // Rectify returns the average outgoing quality and the average total
 // inspection of the plan for lots of size lot with incoming defect rate p:
 //
@@ -159,6 +166,13 @@ type AOQLimit struct {
 func (r AOQLimit) MarshalJSON() ([]byte, error) {
 	type plain AOQLimit
 	return jsonfloat.Marshal(plain(r))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *AOQLimit) UnmarshalJSON(b []byte) error {
+	type plain AOQLimit
+	return jsonfloat.Unmarshal(b, (*plain)(r))
 }
 
 // AOQL returns the average outgoing quality limit of the plan for lots of

@@ -52,6 +52,13 @@ func (c Candidate) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(c))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (c *Candidate) UnmarshalJSON(b []byte) error {
+	type plain Candidate
+	return jsonfloat.Unmarshal(b, (*plain)(c))
+}
+
 // PlanDesign is the result of DesignPlan.
 type PlanDesign struct {
 	// Plan is the plan with the smallest sample size meeting both risks;
@@ -76,6 +83,13 @@ type PlanDesign struct {
 func (r PlanDesign) MarshalJSON() ([]byte, error) {
 	type plain PlanDesign
 	return jsonfloat.Marshal(plain(r))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *PlanDesign) UnmarshalJSON(b []byte) error {
+	type plain PlanDesign
+	return jsonfloat.Unmarshal(b, (*plain)(r))
 }
 
 // DesignPlan returns the single sampling plan (n, c) with the smallest n

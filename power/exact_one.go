@@ -21,6 +21,13 @@ func (p NPower) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(p))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (p *NPower) UnmarshalJSON(b []byte) error {
+	type plain NPower
+	return jsonfloat.Unmarshal(b, (*plain)(p))
+}
+
 // ExactPower is the exact power of a test at one sample size.
 type ExactPower struct {
 	// Test names the test, for example "exact binomial, two-sided
@@ -46,6 +53,13 @@ type ExactPower struct {
 func (r ExactPower) MarshalJSON() ([]byte, error) {
 	type plain ExactPower
 	return jsonfloat.Marshal(plain(r))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *ExactPower) UnmarshalJSON(b []byte) error {
+	type plain ExactPower
+	return jsonfloat.Unmarshal(b, (*plain)(r))
 }
 
 // rejectProb returns P(X < lo) + P(X > hi) for X ~ Binomial(n, p): the
@@ -192,6 +206,13 @@ type ExactSize struct {
 func (r ExactSize) MarshalJSON() ([]byte, error) {
 	type plain ExactSize
 	return jsonfloat.Marshal(plain(r))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *ExactSize) UnmarshalJSON(b []byte) error {
+	type plain ExactSize
+	return jsonfloat.Unmarshal(b, (*plain)(r))
 }
 
 // searchStable scans n = 1, 2, ... with power(n), finds the first n

@@ -99,6 +99,13 @@ func (w WorstPrecision) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(w))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (w *WorstPrecision) UnmarshalJSON(b []byte) error {
+	type plain WorstPrecision
+	return jsonfloat.Unmarshal(b, (*plain)(w))
+}
+
 // worstWithin returns the infimum over p of P(|X/n - p| <= halfWidth). For p in
 // an open interval where kmin = ceil(n(p - halfWidth)) and kmax = floor(n(p +
 // halfWidth)) stay fixed, P(kmin <= X <= kmax) is unimodal in p, so the infimum

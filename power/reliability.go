@@ -35,6 +35,13 @@ func (r Demonstration) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(r))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *Demonstration) UnmarshalJSON(b []byte) error {
+	type plain Demonstration
+	return jsonfloat.Unmarshal(b, (*plain)(r))
+}
+
 // MaxDemonstrationTrials bounds DemonstrationTrials: 2^50 trials.
 const MaxDemonstrationTrials int64 = 1 << 50
 

@@ -33,6 +33,13 @@ func (r NormalSize) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(r))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *NormalSize) UnmarshalJSON(b []byte) error {
+	type plain NormalSize
+	return jsonfloat.Unmarshal(b, (*plain)(r))
+}
+
 // Point is one point of a curve: power (or another probability) y at x.
 type Point struct {
 	X float64 `json:"x"`
@@ -43,6 +50,13 @@ type Point struct {
 func (p Point) MarshalJSON() ([]byte, error) {
 	type plain Point
 	return jsonfloat.Marshal(plain(p))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (p *Point) UnmarshalJSON(b []byte) error {
+	type plain Point
+	return jsonfloat.Unmarshal(b, (*plain)(p))
 }
 
 // smallSampleWarning is added when a normal-approximation size is small

@@ -55,6 +55,13 @@ func (r WidthPlan) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(r))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *WidthPlan) UnmarshalJSON(b []byte) error {
+	type plain WidthPlan
+	return jsonfloat.Unmarshal(b, (*plain)(r))
+}
+
 // halfWidths evaluates, over the counts k that carry probability (the
 // pmfWindow of Binomial(n, p)), the sum of P(X = k) g(half-width(k)).
 func halfWidthSum(n int64, p float64, opt interval.Options, g func(float64) float64) (float64, error) {

@@ -147,6 +147,13 @@ func (r Adjusted) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(r))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *Adjusted) UnmarshalJSON(b []byte) error {
+	type plain Adjusted
+	return jsonfloat.Unmarshal(b, (*plain)(r))
+}
+
 // Adjust adjusts the p-values p by method (see AdjustPValues) and decides
 // each hypothesis at the family-level alpha (0 means 0.05): hypothesis i
 // is rejected when its adjusted p-value is at most alpha, which is the

@@ -74,10 +74,9 @@ type KSampleResult struct {
 	// mid-p version.
 	Method string `json:"method"`
 	// Statistic is X2, G2, or for the exact test the conditional
-	// probability of the observed table; StatisticName says which
+	// probability of the observed table; its Name says which
 	// ("chi-square", "G2", "table probability").
-	Statistic     float64 `json:"statistic"`
-	StatisticName string  `json:"statistic_name"`
+	Statistic Statistic `json:"statistic"`
 	// DF is the degrees of freedom of the chi-square reference (k - 1);
 	// omitted for the exact test.
 	DF int `json:"df,omitempty"`
@@ -96,6 +95,13 @@ type KSampleResult struct {
 func (r KSampleResult) MarshalJSON() ([]byte, error) {
 	type plain KSampleResult
 	return jsonfloat.Marshal(plain(r))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *KSampleResult) UnmarshalJSON(b []byte) error {
+	type plain KSampleResult
+	return jsonfloat.Unmarshal(b, (*plain)(r))
 }
 
 // checkArms validates successes and sizes of k >= 2 arms.
@@ -196,20 +202,20 @@ func EqualProportions(ctx context.Context, x, n []int64, opt KSampleOptions) (KS
 	}
 	switch opt.Method {
 	case FreemanHalton:
-		r.StatisticName = "table probability"
+		r.Statistic.Name = "table probability"
 		lp, lobs, err := freemanHalton(ctx, fn, x, n, S, N, opt.MidP)
 		if err != nil {
 			return KSampleResult{}, err
 		}
-		r.Statistic, r.LogPValue = math.Exp(lobs), lp
+		r.Statistic.Value, r.LogPValue = math.Exp(lobs), lp
 	default:
 		r.DF = k - 1
 		stat := pearsonG(x, n, S, N, opt.Method == LikelihoodRatioG)
-		r.StatisticName = "chi-square"
+		r.Statistic.Name = "chi-square"
 		if opt.Method == LikelihoodRatioG {
-			r.StatisticName = "G2"
+			r.Statistic.Name = "G2"
 		}
-		r.Statistic, r.LogPValue = stat, logChiSquareSurvival(stat, k-1)
+		r.Statistic.Value, r.LogPValue = stat, logChiSquareSurvival(stat, k-1)
 		if !degenerate {
 			if e := minExpected(n, S, N); e < 5 {
 				r.Warnings = append(r.Warnings, fmt.Sprintf("smallest expected count %.3g is below 5 (common practice): prefer the exact Freeman-Halton test", e))

@@ -43,8 +43,8 @@ func TestKSampleGoldenR(t *testing.T) {
 		if !relClose(got.PValue, wantP, 1e-10) {
 			t.Errorf("%s: %v p = %.17g, want %.17g", r.Pos(), m, got.PValue, wantP)
 		}
-		if m != FreemanHalton && !relClose(got.Statistic, r.Float(3), 1e-12) {
-			t.Errorf("%s: %v statistic = %.17g, want %.17g", r.Pos(), m, got.Statistic, r.Float(3))
+		if m != FreemanHalton && !relClose(got.Statistic.Value, r.Float(3), 1e-12) {
+			t.Errorf("%s: %v statistic = %.17g, want %.17g", r.Pos(), m, got.Statistic.Value, r.Float(3))
 		}
 	}
 	if n < 27 {

@@ -79,12 +79,11 @@ type ArmShare struct {
 
 // SampleRatioResult is the outcome of SampleRatio.
 type SampleRatioResult struct {
-	Method        string  `json:"method"`
-	Statistic     float64 `json:"statistic"`      // X2, G2, or the exact test's observed outcome probability
-	StatisticName string  `json:"statistic_name"` // "chi-square", "G2", "outcome probability"
-	DF            int     `json:"df,omitempty"`   // k - 1 for the chi-square methods
-	PValue        float64 `json:"p_value"`
-	LogPValue     float64 `json:"log_p_value"`
+	Method    string    `json:"method"`
+	Statistic Statistic `json:"statistic"`    // "chi-square" X2, "G2", or the exact test's "outcome probability"
+	DF        int       `json:"df,omitempty"` // k - 1 for the chi-square methods
+	PValue    float64   `json:"p_value"`
+	LogPValue float64   `json:"log_p_value"`
 	// Arms compares each arm's observed and intended share.
 	Arms []ArmShare `json:"arms"`
 	// Alpha is the flagging level; Mismatch is PValue < Alpha.
@@ -97,6 +96,13 @@ type SampleRatioResult struct {
 func (r SampleRatioResult) MarshalJSON() ([]byte, error) {
 	type plain SampleRatioResult
 	return jsonfloat.Marshal(plain(r))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes, non-finite numbers
+// included.
+func (r *SampleRatioResult) UnmarshalJSON(b []byte) error {
+	type plain SampleRatioResult
+	return jsonfloat.Unmarshal(b, (*plain)(r))
 }
 
 // SampleRatio checks an experiment's allocation: whether the observed arm
@@ -172,12 +178,12 @@ func SampleRatio(ctx context.Context, counts []int64, weights []float64, opt Sam
 	}
 	switch opt.Method {
 	case FitExact:
-		r.StatisticName = "outcome probability"
+		r.Statistic.Name = "outcome probability"
 		lp, lobs, err := exactMultinomial(ctx, fn, counts, pi, N)
 		if err != nil {
 			return SampleRatioResult{}, err
 		}
-		r.Statistic, r.LogPValue = math.Exp(lobs), lp
+		r.Statistic.Value, r.LogPValue = math.Exp(lobs), lp
 	default:
 		r.DF = k - 1
 		stat, minE := 0.0, math.Inf(1)
@@ -194,9 +200,9 @@ func SampleRatio(ctx context.Context, counts []int64, weights []float64, opt Sam
 			stat += (o - e) * (o - e) / e
 		}
 		stat = math.Max(0, stat)
-		r.Statistic, r.StatisticName = stat, "chi-square"
+		r.Statistic = Statistic{Name: "chi-square", Value: stat}
 		if opt.Method == FitG {
-			r.StatisticName = "G2"
+			r.Statistic.Name = "G2"
 		}
 		r.LogPValue = logChiSquareSurvival(stat, k-1)
 		if minE < 5 {

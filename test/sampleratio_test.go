@@ -22,8 +22,8 @@ func TestSampleRatioGoldenR(t *testing.T) {
 		}
 		n++
 		got, err := SampleRatio(context.Background(), ints(t, r.Str(1)), floatList(t, r.Str(2)), SampleRatioOptions{})
-		if err != nil || !relClose(got.Statistic, r.Float(3), 1e-12) || !relClose(got.PValue, r.Float(4), 1e-12) {
-			t.Errorf("%s: X2 %v p %v (%v)", r.Pos(), got.Statistic, got.PValue, err)
+		if err != nil || !relClose(got.Statistic.Value, r.Float(3), 1e-12) || !relClose(got.PValue, r.Float(4), 1e-12) {
+			t.Errorf("%s: X2 %v p %v (%v)", r.Pos(), got.Statistic.Value, got.PValue, err)
 		}
 	}
 	if n < 5 {
@@ -38,7 +38,7 @@ func TestSampleRatioGoldenR(t *testing.T) {
 func TestSampleRatioPublished(t *testing.T) {
 	t.Parallel()
 	r, err := SampleRatio(context.Background(), []int64{821588, 815482}, []float64{1, 1}, SampleRatioOptions{})
-	if err != nil || !relClose(r.Statistic, 22.774368841894, 1e-9) || r.PValue < 1.75e-6 || r.PValue > 1.85e-6 || !r.Mismatch {
+	if err != nil || !relClose(r.Statistic.Value, 22.774368841894, 1e-9) || r.PValue < 1.75e-6 || r.PValue > 1.85e-6 || !r.Mismatch {
 		t.Fatalf("%+v %v", r, err)
 	}
 	if !relClose(r.Arms[0].Share, 0.50186491, 1e-7) || !strings.Contains(strings.Join(r.Warnings, " "), "not trustworthy") {
