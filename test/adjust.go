@@ -293,3 +293,62 @@ func harmonic(m int) float64 {
 	}
 	return h
 }
+
+// FamilyLevel returns the confidence level each of m intervals needs so
+// that all m cover their parameters together with probability at least
+// level:
+//
+//	Bonferroni: 1 - (1 - level)/m   (any dependence between the intervals)
+//	Sidak:      level^(1/m)         (independent intervals)
+//
+// Other adjustments have no such per-interval level and are refused; for
+// intervals reported only for hypotheses selected by a false-discovery
+// procedure see SelectedLevel. Errors: level outside (0, 1), m < 1, an
+// adjustment other than Bonferroni or Sidak. Cost O(1).
+//
+// Sources: Dunn OJ (1961), JASA 56:52-64; Šidák Z (1967), JASA 62:626-633.
+func FamilyLevel(level float64, m int, method Adjustment) (float64, error) {
+	const fn = "test.FamilyLevel"
+	if !(level > 0 && level < 1) {
+		return 0, argerr.Invalid(fn, "level", level, "must lie strictly between 0 and 1")
+	}
+	if m < 1 {
+		return 0, argerr.Invalid(fn, "m", m, "must be at least 1")
+	}
+	switch method {
+	case Bonferroni:
+		return 1 - (1-level)/float64(m), nil
+	case Sidak:
+		return 1 + math.Expm1(math.Log(level)/float64(m)), nil
+	}
+	return 0, argerr.Invalid(fn, "method", method.String(), "has no per-interval level; use Bonferroni or Sidak")
+}
+
+// SelectedLevel returns the level of the intervals reported for the
+// selected of m parameters (for example those a Benjamini-Hochberg
+// procedure rejected) so that the expected proportion of non-covering
+// intervals among those reported, the false coverage-statement rate, is
+// at most 1 - level:
+//
+//	1 - selected (1 - level) / m
+//
+// (with selected = 0 it returns level). Errors: level outside (0, 1),
+// m < 1, selected outside 0..m. Source: Benjamini Y, Yekutieli D (2005),
+// False discovery rate-adjusted multiple confidence intervals for selected
+// parameters, JASA 100:71-81.
+func SelectedLevel(level float64, selected, m int) (float64, error) {
+	const fn = "test.SelectedLevel"
+	if !(level > 0 && level < 1) {
+		return 0, argerr.Invalid(fn, "level", level, "must lie strictly between 0 and 1")
+	}
+	if m < 1 {
+		return 0, argerr.Invalid(fn, "m", m, "must be at least 1")
+	}
+	if selected < 0 || selected > m {
+		return 0, argerr.Invalid(fn, "selected", selected, "must lie in 0..m = "+strconv.Itoa(m))
+	}
+	if selected == 0 {
+		return level, nil
+	}
+	return 1 - float64(selected)*(1-level)/float64(m), nil
+}

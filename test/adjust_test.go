@@ -251,3 +251,23 @@ func BenchmarkAdjustMillion(b *testing.B) {
 		})
 	}
 }
+
+// TestFamilyLevel: Bonferroni 1 - 0.05/5 = 0.99; Sidak 0.95^(1/5) =
+// 0.98979378... (hand computation: exp(ln 0.95 / 5)); the false
+// coverage-statement level 1 - 3 (0.05)/10 = 0.985 (Benjamini and
+// Yekutieli 2005, section 2, the formula).
+func TestFamilyLevel(t *testing.T) {
+	t.Parallel()
+	b, err1 := FamilyLevel(0.95, 5, Bonferroni)
+	s, err2 := FamilyLevel(0.95, 5, Sidak)
+	f, err3 := SelectedLevel(0.95, 3, 10)
+	if err1 != nil || err2 != nil || err3 != nil || !relClose(b, 0.99, 1e-15) || !relClose(s, math.Exp(math.Log(0.95)/5), 1e-15) || !relClose(f, 0.985, 1e-15) {
+		t.Errorf("%v %v %v (%v %v %v)", b, s, f, err1, err2, err3)
+	}
+	if _, err := FamilyLevel(0.95, 5, Holm); !errors.Is(err, ErrInvalidArgument) {
+		t.Errorf("Holm: %v", err)
+	}
+	if _, err := SelectedLevel(0.95, 11, 10); !errors.Is(err, ErrInvalidArgument) {
+		t.Errorf("selected > m: %v", err)
+	}
+}

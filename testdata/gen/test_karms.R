@@ -11,6 +11,8 @@
 #   exact    successes  sizes  p               fisher.test(rbind(x, n - x)) (network algorithm,
 #                                              Freeman-Halton ordering by table probability)
 #   gof      counts  shares  X2  p             chisq.test(counts, p = shares)
+#   pairs    successes  sizes  method  adjusted   pairwise.prop.test(x, n, p.adjust.method = method,
+#                                              correct = FALSE), pairs (1,2), (1,3), ..., (2,3), ...
 # Run from the repository root:  Rscript testdata/gen/test_karms.R   (a few seconds)
 options(scipen = 100)
 num <- function(x) paste(trimws(formatC(x, digits = 17, format = "g")), collapse = ",")
@@ -68,5 +70,11 @@ gofs <- list(
 for (g in gofs) {
   cs <- suppressWarnings(chisq.test(g$x, p = g$s))
   add("gof", num(g$x), num(g$s), num(unname(cs$statistic)), num(cs$p.value))
+}
+for (tb in tables[c(1, 5, 7, 8)]) for (m in c("holm", "hommel", "BH")) {
+  pv <- suppressWarnings(pairwise.prop.test(tb$x, tb$n, p.adjust.method = m, correct = FALSE)$p.value)
+  k <- length(tb$x); v <- c()
+  for (i in 1:(k - 1)) for (j in (i + 1):k) v <- c(v, pv[j - 1, i])
+  add("pairs", num(tb$x), num(tb$n), m, num(v))
 }
 writeLines(out, "testdata/test_karms_r.tsv")
