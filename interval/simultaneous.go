@@ -6,6 +6,7 @@ import (
 	"strconv"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/enum"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 	"github.com/kofnlab/kofn/internal/xmath"
 	"gonum.org/v1/gonum/mathext"
@@ -39,36 +40,28 @@ const (
 	Goodman
 )
 
-var multinomialNames = []string{"Sison-Glaz", "Quesenberry-Hurst", "Goodman"}
+var multinomialNames = enum.New[MultinomialMethod]("interval.MultinomialMethod",
+	[]string{"Sison-Glaz", "Quesenberry-Hurst", "Goodman"}, nil)
 
 // String returns "Sison-Glaz", "Quesenberry-Hurst" or "Goodman".
-func (m MultinomialMethod) String() string {
-	return enumName(int(m), multinomialNames, "MultinomialMethod")
-}
+func (m MultinomialMethod) String() string { return multinomialNames.String(m) }
 
 // MarshalText encodes the method by its published name.
-func (m MultinomialMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+func (m MultinomialMethod) MarshalText() ([]byte, error) { return multinomialNames.MarshalText(m) }
 
 // UnmarshalText decodes a name accepted by ParseMultinomialMethod.
 func (m *MultinomialMethod) UnmarshalText(b []byte) error {
-	v, err := ParseMultinomialMethod(string(b))
-	if err != nil {
-		return err
-	}
-	*m = v
-	return nil
+	return multinomialNames.UnmarshalText(m, b)
 }
 
 // ParseMultinomialMethod returns the method whose published name matches s
 // case-insensitively.
 func ParseMultinomialMethod(s string) (MultinomialMethod, error) {
-	return parseEnum[MultinomialMethod]("interval.ParseMultinomialMethod", s, multinomialNames, nil)
+	return multinomialNames.Parse("interval.ParseMultinomialMethod", s)
 }
 
 // MultinomialMethodValues lists the methods in the order of their values.
-func MultinomialMethodValues() []MultinomialMethod {
-	return []MultinomialMethod{SisonGlaz, QuesenberryHurst, Goodman}
-}
+func MultinomialMethodValues() []MultinomialMethod { return multinomialNames.Values() }
 
 // Family is a set of intervals meant to hold together: with probability at
 // least Level (approximately, for the approximate methods) every interval
@@ -93,6 +86,12 @@ type Family struct {
 func (f Family) MarshalJSON() ([]byte, error) {
 	type plain Family
 	return jsonfloat.Marshal(plain(f))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (f *Family) UnmarshalJSON(b []byte) error {
+	type plain Family
+	return jsonfloat.Unmarshal(b, (*plain)(f))
 }
 
 // MultinomialOptions are the options of Multinomial.
@@ -150,7 +149,7 @@ func Multinomial(counts []int64, opt MultinomialOptions) (Family, error) {
 	if !(lev > 0 && lev < 1) {
 		return Family{}, argerr.Invalid(fn, "Level", lev, "must lie strictly between 0 and 1 (0 means 0.95)")
 	}
-	if opt.Method < 0 || int(opt.Method) >= len(multinomialNames) {
+	if opt.Method < SisonGlaz || opt.Method > Goodman {
 		return Family{}, argerr.Invalid(fn, "Method", int(opt.Method), "is not a multinomial method")
 	}
 	f := Family{Method: opt.Method.String(), Level: lev, Intervals: make([]Interval, k)}

@@ -1,6 +1,7 @@
 package interval
 
 import (
+	"encoding/json"
 	"errors"
 	"math"
 	"strconv"
@@ -206,5 +207,25 @@ func TestMultinomialErrors(t *testing.T) {
 		if _, err := Multinomial(c.x, c.opt); !errors.Is(err, ErrInvalidArgument) || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%v: %v, want %q", c.x, err, c.want)
 		}
+	}
+}
+
+// TestFamilyJSONRoundTrip: a family survives encoding/json unchanged.
+func TestFamilyJSONRoundTrip(t *testing.T) {
+	t.Parallel()
+	f, err := Multinomial([]int64{0, 3, 9}, MultinomialOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := json.Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var g Family
+	if err := json.Unmarshal(b, &g); err != nil {
+		t.Fatalf("%v in %s", err, b)
+	}
+	if d := cmp.Diff(f, g); d != "" || !strings.Contains(string(b), `"intervals":[{"lower":0,`) {
+		t.Errorf("%s (-in +out):\n%s", b, d)
 	}
 }

@@ -54,6 +54,12 @@ func (r ComparisonsResult) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(r))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (r *ComparisonsResult) UnmarshalJSON(b []byte) error {
+	type plain ComparisonsResult
+	return jsonfloat.Unmarshal(b, (*plain)(r))
+}
+
 // Pairwise compares every pair of the k arms (x[i] successes of n[i]),
 // k (k-1)/2 two-sided tests of p_i = p_j in the order (0,1), (0,2), ...,
 // (1,2), ..., each by Fisher's exact test or the pooled z test, and
