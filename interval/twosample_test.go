@@ -211,3 +211,19 @@ func TestConditionalBound(t *testing.T) {
 		t.Errorf("OddsRatio at the bound = %+v, %v; want an interval around 1", iv, err)
 	}
 }
+
+// TestOddsScoreZeroCell checks the Miettinen-Nurminen odds-ratio interval
+// of a table with a zero cell and estimate 0 (a = 4, b = 60, c = 1, d = 0):
+// the score statistic tends to 0 as the odds ratio does, never reaching a
+// critical value, so the lower limit is 0 at every level. (Rounding in
+// 1 - p2 near psi = 1e-12 once gave 1e-12 limits that shrank as the level
+// grew.)
+func TestOddsScoreZeroCell(t *testing.T) {
+	t.Parallel()
+	for _, lv := range []float64{0.396, 0.8, 0.95, 0.99} {
+		iv, err := interval.OddsRatio(4, 64, 1, 1, interval.OddsOptions{Level: lv})
+		if err != nil || iv.Lower != 0 || !(iv.Upper > 0) {
+			t.Errorf("level %g: %+v, %v; want lower limit 0", lv, iv, err)
+		}
+	}
+}

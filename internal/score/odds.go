@@ -13,20 +13,60 @@ import "math"
 // taken in the form p2~ = 2m / (B + sqrt(B^2 + 4 n2 (psi-1) m)), exact at
 // psi = 1 (p2~ = m/N).
 func OddsMLE(x1, n1, x2, n2 int64, psi float64) (p1, p2 float64) {
+	p1, _, p2, _ = oddsMLE(x1, n1, x2, n2, psi)
+	return p1, p2
+}
+
+// oddsMLE is OddsMLE with the complements q1 = 1 - p1 and q2 = 1 - p2,
+// each computed without cancellation. When p2~ > 1/2, q2 is taken from
+// the quadratic that q = 1 - p2 solves,
+//
+//	A q^2 - C q + psi (N - m) = 0,  A = n2 (psi - 1),
+//	C = psi (2 n2 + n1 - m) + m - n2,
+//
+// by its cancellation-free root, and then p1~ = psi p2~ / (q2~ + psi p2~),
+// q1~ = q2~ / (q2~ + psi p2~). (1 - p2 from the rounded p2 loses all digits
+// when q2 is near 1e-16, as at psi of 1e-12 with a zero cell, which made
+// the score statistic jump and a zero lower limit come out as 1e-12.)
+func oddsMLE(x1, n1, x2, n2 int64, psi float64) (p1, q1, p2, q2 float64) {
 	m := float64(x1 + x2)
 	f1, f2 := float64(n1), float64(n2)
 	if m == 0 {
-		return 0, 0
+		return 0, 1, 0, 1
 	}
 	if m == f1+f2 {
-		return 1, 1
+		return 1, 0, 1, 0
 	}
 	A := f2 * (psi - 1)
 	B := f1*psi + f2 - m*(psi-1)
 	disc := math.Max(0, B*B+4*A*m)
 	p2 = clamp01(2 * m / (B + math.Sqrt(disc)))
-	p1 = clamp01(psi * p2 / (1 + p2*(psi-1)))
-	return p1, p2
+	q2 = 1 - p2
+	if p2 > 0.5 {
+		C := psi*(2*f2+f1-m) + m - f2
+		D := psi * (f1 + f2 - m)
+		t := (C + math.Copysign(math.Sqrt(math.Max(0, C*C-4*A*D)), C)) / 2
+		best := math.Inf(1)
+		for _, r := range [2]float64{D / t, t / A} {
+			if r >= 0 && r <= 1 && math.Abs(r-q2) < best {
+				best, q2 = math.Abs(r-q2), r
+			}
+		}
+		p2 = 1 - q2
+	}
+	den := q2 + psi*p2
+	if !(den > 0) || math.IsInf(den, 0) {
+		// psi = +Inf or a degenerate margin: the plain form.
+		p1 = clamp01(psi * p2 / (1 + p2*(psi-1)))
+		return p1, 1 - p1, p2, q2
+	}
+	p1 = clamp01(psi * p2 / den)
+	if p1 > 0.5 {
+		q1 = clamp01(q2 / den)
+	} else {
+		q1 = 1 - p1
+	}
+	return p1, q1, p2, q2
 }
 
 // OddsZ returns the signed score statistic for H0: odds ratio = psi,
@@ -36,10 +76,10 @@ func OddsMLE(x1, n1, x2, n2 int64, psi float64) (p1, p2 float64) {
 // with (p1~, p2~) from OddsMLE and f = N/(N-1) (MiettinenNurminen) or 1
 // (FarringtonManning). Z decreases in psi.
 func OddsZ(x1, n1, x2, n2 int64, psi float64, v Variance) float64 {
-	p1, p2 := OddsMLE(x1, n1, x2, n2, psi)
+	p1, q1, p2, q2 := oddsMLE(x1, n1, x2, n2, psi)
 	f1, f2 := float64(n1), float64(n2)
 	num := float64(x1) - f1*p1
-	w1, w2 := f1*p1*(1-p1), f2*p2*(1-p2)
+	w1, w2 := f1*p1*q1, f2*p2*q2
 	if w1 == 0 || w2 == 0 {
 		return zRatio(num, 0)
 	}
