@@ -2,6 +2,7 @@ package power
 
 import (
 	"context"
+	"errors"
 
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
@@ -88,9 +89,26 @@ func (o WidthOptions) check(fn string, p, halfWidth float64) (int64, error) {
 		return 0, argerr.Invalid(fn, "Interval.Side", o.Interval.Side.String(), "must be two-sided for a half-width")
 	}
 	if _, err := interval.Proportion(0, 1, o.Interval); err != nil {
-		return 0, err
+		return 0, asOption(fn, "Interval.", err)
 	}
 	return maxN(fn, o.MaxN, DefaultMaxWidthN, MaxWidthN)
+}
+
+// asOption restates an error about an option that another package's
+// function rejected as fn's error about that option (its name prefixed,
+// for example "Interval.Level"), keeping the value, the reason and the
+// sentinel.
+func asOption(fn, prefix string, err error) error {
+	var e *argerr.Error
+	if !errors.As(err, &e) {
+		return err
+	}
+	c := *e
+	c.Func = fn
+	if c.Arg != "" {
+		c.Arg = prefix + c.Arg
+	}
+	return &c
 }
 
 // searchN finds the smallest n in [1, limit] with ok(n) by doubling and
