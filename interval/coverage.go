@@ -89,8 +89,8 @@ func (s *CoverageSummary) UnmarshalJSON(b []byte) error {
 // across many p. Accuracy: about 1e-12 absolute (the binomial weights come
 // from a ratio recurrence anchored at the mode). At the largest n the
 // exact methods take seconds (Blaker at n = 1e7 and p = 1/2 about 3.5 s),
-// so ctx is checked every 64 intervals and a cancelled call returns within
-// about 2 ms with the context's error wrapped.
+// so ctx is checked every 16 intervals and a cancelled call returns within
+// about a millisecond with the context's error wrapped.
 //
 // Errors: n < 1 or n > MaxCoverageN (ErrTooLarge), p outside [0, 1] or
 // NaN, or a bad option as in Proportion.
@@ -136,11 +136,11 @@ func checkCoverage(fn string, n int64, opt Options) (level, error) {
 // The binomial weights b(k) start from exp(LogProb(mode)) and follow the
 // ratios b(k+1)/b(k) = (n-k)p/((k+1)(1-p)) outward in both directions
 // until a weight falls below 1e-18 of the running total. ctx is checked
-// every 64 counts; a cancellation returns its wrapped error (for fn).
+// every 16 counts; a cancellation returns its wrapped error (for fn).
 func perform(ctx context.Context, fn string, n int64, p float64, lim func(int64) (float64, float64)) (cov, width float64, err error) {
 	calls := 0
 	add := func(k int64, b float64) {
-		if calls++; calls&63 == 0 && err == nil {
+		if calls++; calls&15 == 0 && err == nil {
 			err = argerr.Canceled(fn, ctx)
 		}
 		if err != nil {
@@ -200,7 +200,7 @@ func perform(ctx context.Context, fn string, n int64, p float64, lim func(int64)
 //
 // Errors: n < 1 or n > MaxCurveN, more than MaxCurvePoints points, an empty
 // grid, a p outside [0, 1] (naming it as ps[i]), a bad option; ctx is
-// checked every 64 counts summed and every point.
+// checked every 16 counts summed and every point.
 func CoverageCurve(ctx context.Context, n int64, ps []float64, opt Options) ([]Performance, CoverageSummary, error) {
 	const fn = "interval.CoverageCurve"
 	lv, err := checkCoverage(fn, n, opt)
@@ -257,7 +257,7 @@ func CoverageCurve(ctx context.Context, n int64, ps []float64, opt Options) ([]P
 //
 // Errors: nMin < 1, nMax < nMin, nMax > MaxCoverageN, more than
 // MaxCurvePoints values of n, p outside [0, 1], a bad option; ctx is
-// checked for every n and every 64 intervals within one n (a single n of
+// checked for every n and every 16 intervals within one n (a single n of
 // 1e7 with Blaker's method takes seconds).
 func CoverageOverN(ctx context.Context, nMin, nMax int64, p float64, opt Options) ([]Performance, CoverageSummary, error) {
 	const fn = "interval.CoverageOverN"

@@ -78,7 +78,23 @@ func oddsMLE(x1, n1, x2, n2 int64, psi float64) (p1, q1, p2, q2 float64) {
 func OddsZ(x1, n1, x2, n2 int64, psi float64, v Variance) float64 {
 	p1, q1, p2, q2 := oddsMLE(x1, n1, x2, n2, psi)
 	f1, f2 := float64(n1), float64(n2)
-	num := float64(x1) - f1*p1
+	// x1 - n1 p1~ equals n2 p2~ - x2 (the restricted estimates keep the
+	// margin n1 p1~ + n2 p2~ = x1 + x2) and the two forms through the
+	// complements; each loses digits in proportion to the size of its
+	// terms, so the form with the smallest terms is taken. (With a zero
+	// cell the numerator tends to 0 like q2~ while every other form keeps a
+	// rounding of 1e-14, which divided by a vanishing standard error made
+	// the statistic jump at odds ratios near 1e-57.)
+	num, scale := float64(x1)-f1*p1, math.Max(float64(x1), f1*p1)
+	for _, c := range [3][2]float64{
+		{f2*p2 - float64(x2), math.Max(f2*p2, float64(x2))},
+		{float64(n2-x2) - f2*q2, math.Max(float64(n2-x2), f2*q2)},
+		{f1*q1 - float64(n1-x1), math.Max(f1*q1, float64(n1-x1))},
+	} {
+		if c[1] < scale {
+			num, scale = c[0], c[1]
+		}
+	}
 	w1, w2 := f1*p1*q1, f2*p2*q2
 	if w1 == 0 || w2 == 0 {
 		return zRatio(num, 0)
