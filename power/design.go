@@ -188,7 +188,15 @@ func DesignPlan(ctx context.Context, aql, rql float64, o DesignOptions) (PlanDes
 		}
 		// Decided on the reported probabilities themselves, so a plan never
 		// shows a risk above its limit by a rounding.
-		meetsRQL := func(n int64) bool { return math.Exp(logAccept(rql, n, c)) <= beta }
+		// ctx is checked at every evaluation too: near MaxPlanN one value of
+		// c costs some 80 tail evaluations of milliseconds' worth in total.
+		var cerr error
+		meetsRQL := func(n int64) bool {
+			if cerr = argerr.Canceled(fn, ctx); cerr != nil {
+				return true // ends the searches at once
+			}
+			return math.Exp(logAccept(rql, n, c)) <= beta
+		}
 		if lo < c {
 			lo = c // n must exceed c
 		}
@@ -204,6 +212,9 @@ func DesignPlan(ctx context.Context, aql, rql float64, o DesignOptions) (PlanDes
 			hi = min(2*hi, maxN)
 		}
 		n := root.SmallestInt(meetsRQL, lo+1, hi)
+		if cerr != nil {
+			return PlanDesign{}, cerr
+		}
 		lo = n - 1
 		pl := Plan{SampleSize: n, AcceptNumber: c}
 		cand := Candidate{

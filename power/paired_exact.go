@@ -147,7 +147,7 @@ func PairedPower(ctx context.Context, n int64, p12, p21 float64, o PairedOptions
 // and the stable n, as OneSampleN), with Connor's normal-approximation n
 // beside it. The scan starts at n = 1 and stops at o.MaxN (default
 // DefaultMaxN, at most MaxSearchN) with ErrNoSolution; ctx is checked
-// every 256 n. Cost O(N^1.5) for a result N.
+// every 16 n. Cost O(N^1.5) for a result N.
 func PairedN(ctx context.Context, p12, p21 float64, o PairedOptions) (ExactSize, error) {
 	const fn = "power.PairedN"
 	alpha, pw, err := o.check(fn, p12, p21, true)

@@ -155,7 +155,7 @@ func worstWithin(ctx context.Context, fn string, n int64, halfWidth, stopBelow f
 	ja := int64(math.Round(fn64 * (0.5 + halfWidth))) // p = ja/n - halfWidth near 1/2
 	jb := int64(math.Round(fn64 * (0.5 - halfWidth))) // p = jb/n + halfWidth near 1/2
 	for t := int64(0); t <= n+2; t++ {
-		if t&255 == 0 {
+		if t&31 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return w, err
 			}

@@ -35,7 +35,7 @@ func TestPrecisionGolden(t *testing.T) {
 			}
 		case "ehw":
 			m := map[string]interval.Method{"wilson": interval.Wilson, "clopper-pearson": interval.ClopperPearson}[r.Fields[1]]
-			got, err := halfWidthSum(r.Int(3), r.Float(2), interval.Options{Method: m}, func(h float64) float64 { return h })
+			got, err := halfWidthSum(context.Background(), "test", r.Int(3), r.Float(2), interval.Options{Method: m}, func(h float64) float64 { return h })
 			if err != nil {
 				t.Fatal(err)
 			}

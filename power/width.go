@@ -65,10 +65,18 @@ func (r *WidthPlan) UnmarshalJSON(b []byte) error {
 
 // halfWidths evaluates, over the counts k that carry probability (the
 // pmfWindow of Binomial(n, p)), the sum of P(X = k) g(half-width(k)).
-func halfWidthSum(n int64, p float64, opt interval.Options, g func(float64) float64) (float64, error) {
+// ctx is checked every 16 intervals (an exact interval at n = 2^40 takes
+// tens of microseconds). Memory: the window, 8 bytes per likely count
+// (about 17 standard deviations' worth: 75 MB at n = MaxWidthN, p = 1/2).
+func halfWidthSum(ctx context.Context, fn string, n int64, p float64, opt interval.Options, g func(float64) float64) (float64, error) {
 	lo, w := pmfWindow(n, p, nil)
 	s := 0.0
 	for i, b := range w {
+		if i&15 == 15 {
+			if err := argerr.Canceled(fn, ctx); err != nil {
+				return 0, err
+			}
+		}
 		iv, err := interval.Proportion(lo+int64(i), n, opt)
 		if err != nil {
 			return 0, err
@@ -161,7 +169,10 @@ func searchN(ctx context.Context, fn string, limit int64, val func(int64) (float
 // falls with n but, for exact methods, with small ripples; the search
 // (doubling then bisection) treats it as monotone, and the result reports
 // the value at N and at N - 1 so the ripple can be seen. Domain:
-// 0 < p < 1, 0 < halfWidth < 0.5.
+// 0 < p < 1, 0 < halfWidth < 0.5. Cost: one interval per likely count at each n
+// tried, O(sqrt(n)) intervals (minutes for the exact methods near
+// MaxWidthN); ctx is checked every 16 intervals. Memory: 8 bytes per
+// likely count of the largest n tried (about 75 MB at MaxWidthN, p = 1/2).
 func ExpectedWidthN(ctx context.Context, p, halfWidth float64, o WidthOptions) (WidthPlan, error) {
 	const fn = "power.ExpectedWidthN"
 	limit, err := o.check(fn, p, halfWidth)
@@ -169,7 +180,7 @@ func ExpectedWidthN(ctx context.Context, p, halfWidth float64, o WidthOptions) (
 		return WidthPlan{}, err
 	}
 	val := func(n int64) (float64, error) {
-		return halfWidthSum(n, p, o.Interval, func(h float64) float64 { return h })
+		return halfWidthSum(ctx, fn, n, p, o.Interval, func(h float64) float64 { return h })
 	}
 	return widthPlan(ctx, fn, limit, o, val, func(v float64) bool { return v <= halfWidth })
 }
@@ -183,7 +194,7 @@ func ExpectedWidthN(ctx context.Context, p, halfWidth float64, o WidthOptions) (
 // The probability jumps as counts enter or leave the set of narrow
 // enough intervals, so it is a sawtooth; the search treats it as monotone
 // (doubling then bisection) and reports the value at N - 1 beside the one
-// at N. Domain as ExpectedWidthN.
+// at N. Domain, cost, cancellation and memory as ExpectedWidthN.
 func AssuranceN(ctx context.Context, p, halfWidth float64, o WidthOptions) (WidthPlan, error) {
 	const fn = "power.AssuranceN"
 	limit, err := o.check(fn, p, halfWidth)
@@ -195,7 +206,7 @@ func AssuranceN(ctx context.Context, p, halfWidth float64, o WidthOptions) (Widt
 		return WidthPlan{}, err
 	}
 	val := func(n int64) (float64, error) {
-		return halfWidthSum(n, p, o.Interval, func(h float64) float64 {
+		return halfWidthSum(ctx, fn, n, p, o.Interval, func(h float64) float64 {
 			if h <= halfWidth {
 				return 1
 			}
