@@ -107,11 +107,20 @@ func (iv *Interval) clipRange(min, max float64) {
 }
 
 // sided sets the limit the side does not ask for to the end of the range.
+// It also orders limits that crossed by rounding: at levels near 0 the
+// two limits solve nearly the same equation (for the mid-p intervals
+// exactly the same one in the limit), and two root searches, each to
+// 1e-15 relative, can leave the lower a few units in the last place above
+// the upper; such a pair (within 1e-12 relative) becomes their midpoint.
 func (iv *Interval) sided(min, max float64) {
 	switch iv.Side {
 	case LowerBound:
 		iv.Upper = max
 	case UpperBound:
 		iv.Lower = min
+	}
+	if iv.Lower > iv.Upper && iv.Lower-iv.Upper <= 1e-12*math.Max(math.Abs(iv.Lower), math.Abs(iv.Upper)) {
+		m := iv.Lower + (iv.Upper-iv.Lower)/2
+		iv.Lower, iv.Upper = m, m
 	}
 }
