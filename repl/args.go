@@ -56,6 +56,9 @@ func parseArgs(cmd *command, words []string) (*argSet, error) {
 			return nil, inputErr(w, "has no value after =; write "+name+"=value")
 		}
 		if cmd.option(name) == nil {
+			if now, ok := renamedOptions[name]; ok && cmd.option(strings.SplitN(now, "=", 2)[0]) != nil {
+				return nil, inputErr(w, "is not an option of "+cmd.Name+"; write "+now)
+			}
 			return nil, inputErr(w, "is not an option of "+cmd.Name+unknownHint(name, cmd.optionNames()))
 		}
 		for _, o := range a.opts {

@@ -42,7 +42,7 @@ func eachCommand() *command {
 				"with the given options to each row, and streams CSV out: the input columns, the result columns " +
 				"in full precision, the method, level and side the row was computed with, and an error column. " +
 				"The first row is the header when it names every count column the verb reads (k,n for one group; " +
-				"k1,n1,k2,n2 for two; a,b,c,d for pairs; found by name, other columns pass through), or when none " +
+				"k1,n1,k2,n2 for two; n11,n12,n21,n22 for pairs; found by name, other columns pass through), or when none " +
 				"of its fields is a number (then missing count columns are reported once, before any row). " +
 				"Otherwise the first row is data and the counts are the first columns. Every input row gives one " +
 				"output row with the header's column count; a row that cannot be used (too few or too many " +
@@ -170,6 +170,14 @@ func rowMeta(c *call, verb *command) (names, values []string, err error) {
 		m, err := c.Method()
 		if err != nil {
 			return nil, nil, err
+		}
+		if m == "exact" || m == "fisher" { // the exact family: its rule and mid-p
+			if o := verb.option("rule"); o != nil {
+				m += " " + strings.ToLower(c.Args.Str("rule", o.Values[0]))
+			}
+			if verb.option("midp") != nil && strings.EqualFold(c.Args.Str("midp", "off"), "on") {
+				m += " mid-p"
+			}
 		}
 		names, values = append(names, "method"), append(values, m)
 	}

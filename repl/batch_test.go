@@ -27,10 +27,10 @@ func TestEach(t *testing.T) {
 	}
 	want, _ := test.Binomial(17, 40, 0.3, test.BinomialOptions{Method: test.Score})
 	lines := strings.Split(strings.TrimSpace(out), "\n")
-	if len(lines) != 4 || lines[0] != "id,n,k,estimate,p_value,method,side,error" {
+	if len(lines) != 4 || lines[0] != "id,n,k,estimate,p_value,method,alt,error" {
 		t.Fatalf("output:\n%s", out)
 	}
-	wantRow := fmt.Sprintf("A,40,17,%v,%v,score,two,", want.Estimate, want.PValue)
+	wantRow := fmt.Sprintf("A,40,17,%v,%v,score,two-sided,", want.Estimate, want.PValue)
 	if lines[1] != wantRow {
 		t.Errorf("row A = %q, want %q", lines[1], wantRow)
 	}
@@ -42,13 +42,13 @@ func TestEach(t *testing.T) {
 	s, sout, serr := testSession()
 	s.In = strings.NewReader("7,15,12,15\n3,4,1,4\n")
 	to := filepath.Join(dir, "out.csv")
-	if err := s.Run(context.Background(), "each - versus side=low to="+to); err != nil {
+	if err := s.Run(context.Background(), "each - versus alt=lower to="+to); err != nil {
 		t.Fatalf("each -: %v %s", err, serr.String())
 	}
 	data, _ := os.ReadFile(to)
 	got := strings.Split(strings.TrimSpace(string(data)), "\n")
 	fisher, _ := test.Fisher(7, 15, 12, 15, test.FisherOptions{Alternative: test.Lower})
-	if len(got) != 3 || got[0] != "k1,n1,k2,n2,difference,p_value,method,side,error" || got[1] != fmt.Sprintf("7,15,12,15,%v,%v,fisher,low,", fisher.Estimate, fisher.PValue) {
+	if len(got) != 3 || got[0] != "k1,n1,k2,n2,difference,p_value,method,alt,error" || got[1] != fmt.Sprintf("7,15,12,15,%v,%v,fisher point-probability,lower,", fisher.Estimate, fisher.PValue) {
 		t.Errorf("versus rows:\n%s", data)
 	}
 	if !strings.Contains(sout.String(), "rows") {

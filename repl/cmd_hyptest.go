@@ -2,91 +2,48 @@ package repl
 
 import (
 	"context"
+	"strings"
 
 	"github.com/kofnlab/kofn/test"
 )
 
-// binomialTestMethods are the method words of check: the exact test under
-// each two-sided rule, with and without mid-p, then the asymptotic tests;
-// binomialTestOptions[i] is the test binomialTestMethods[i] names.
-var binomialTestMethods, binomialTestOptions = func() ([]string, []test.BinomialOptions) {
-	var ws []string
-	var os []test.BinomialOptions
-	for _, r := range test.TwoSidedRuleValues() {
-		for _, mid := range []bool{false, true} {
-			w := methodWord(r.String())
-			if mid {
-				w += "-mid-p"
-			}
-			ws, os = append(ws, w), append(os, test.BinomialOptions{Rule: r, MidP: mid})
-		}
-	}
-	for _, m := range test.BinomialMethodValues()[1:] {
-		ws, os = append(ws, methodWord(m.String())), append(os, test.BinomialOptions{Method: m})
-	}
-	return ws, os
-}()
+// binomialTestMethods are the method words of check, from
+// test.BinomialMethodValues: exact (default; with rule= and midp=), score,
+// score-cc, likelihood-ratio.
+var binomialTestMethods = enumWords(test.BinomialMethodValues(), test.BinomialMethod.String)
 
-// mcnemarMethods are the method words of flips; the first is the default,
-// the exact conditional test, as in test.McNemarOptions and power.
-var mcnemarMethods = []string{"exact", "mid-p", "asymptotic", "asymptotic-cc"}
-
-// mcnemarOptions returns the test a flips method word names.
-func mcnemarOptions(word string) test.McNemarOptions {
-	switch word {
-	case "mid-p":
-		return test.McNemarOptions{MidP: true}
-	case "asymptotic":
-		return test.McNemarOptions{Method: test.McNemarAsymptotic}
-	case "asymptotic-cc":
-		return test.McNemarOptions{Method: test.McNemarAsymptoticCC}
-	}
-	return test.McNemarOptions{}
-}
-
-const cautionSides = "side=high or side=low is honest only when the direction was fixed before the data were seen."
-
-var optTestSide = opt{Name: "side", Doc: "two (default): the proportion differs; high: it is higher; low: it is lower", Values: sideWords}
+// mcnemarMethods are the method words of flips, from
+// test.McNemarMethodValues without the leading "McNemar": exact (default;
+// midp=on for mid-p), asymptotic, asymptotic-cc.
+var mcnemarMethods = enumWords(test.McNemarMethodValues(), func(m test.McNemarMethod) string {
+	return strings.TrimPrefix(m.String(), "McNemar ")
+})
 
 func checkCommand() *command {
 	return &command{
 		Name:    "check",
 		Group:   "tests",
 		Summary: "test one proportion against a stated value p, with the interval that inverts the test",
-		Usage:   "check K/N p=P [method=M] [side=two|high|low] [level=L]",
+		Usage:   "check K/N p=P [method=M] [rule=R] [midp=on] [alt=two-sided|lower|higher] [level=L]",
 		Methods: binomialTestMethods,
-		Options: []opt{optP, optMethod("test", binomialTestMethods), optTestSide, optLevel},
+		Options: []opt{optP, optMethod("test", binomialTestMethods), optRule, optMidP,
+			optAlt("two-sided (default): the proportion differs from p; lower: it is below p; higher: above"), optLevel},
 		Help: helpText{
 			Computes: "The p-value for H0: the success probability equals p, from K successes in N trials, and " +
 				"the confidence interval made of the values of p the same test does not reject. " + cautionSides,
-			Methods: "Exact tests: point-probability (default; two-sided p-value sums the outcomes no more likely " +
-				"than the one observed; inverts to Sterne's interval), central (twice the smaller tail; inverts to " +
-				"Clopper-Pearson), Blaker (Blaker 2000), each also as mid-p. Large-sample tests: score (inverts to " +
-				"Wilson), score-cc (with continuity correction), likelihood-ratio.",
+			Methods: "exact (default), whose two-sided p-value follows rule=: point-probability (default; the " +
+				"outcomes no more likely than the one observed; inverts to Sterne's interval), central (twice the " +
+				"smaller tail; inverts to Clopper-Pearson) or blaker (Blaker 2000); midp=on gives its mid-p form. " +
+				"Large-sample tests: score (inverts to Wilson), score-cc (with continuity correction), likelihood-ratio.",
 			Assumptions: "Independent trials with one common success probability; the large-sample tests need " +
 				"n p and n (1-p) of about 5 or more (common practice).",
-			Examples: []string{"check 17/40 p=0.3", "check 3/50 p=0.15 side=low method=central", "check 81/263 p=0.25 method=score"},
+			Examples: []string{"check 17/40 p=0.3", "check 3/50 p=0.15 alt=lower rule=central", "check 17/40 p=0.3 midp=on", "check 81/263 p=0.25 method=score"},
 			Sources: "Sterne TE (1954), Biometrika 41:275-278; Clopper CJ, Pearson ES (1934), Biometrika 26:404-413; " +
 				"Blaker H (2000), Canadian Journal of Statistics 28:783-798; Lancaster HO (1961), JASA 56:223-234 (mid-p).",
 		},
 		Run: runCheck,
 		Row: checkRow(),
 	}
-}
-
-// testSide reads side= as a test alternative.
-func testSide(a *argSet) (test.Alternative, string, error) {
-	w, err := a.Choice("side", "two", sideWords...)
-	if err != nil {
-		return 0, "", err
-	}
-	switch w {
-	case "high":
-		return test.Higher, "one-sided, higher", nil
-	case "low":
-		return test.Lower, "one-sided, lower", nil
-	}
-	return test.TwoSided, "two-sided", nil
 }
 
 // checkSetup reads the options of check.
@@ -102,12 +59,13 @@ func checkSetup(c *call) (p0 float64, o test.BinomialOptions, sideText string, e
 	if err != nil {
 		return
 	}
-	for i, w := range binomialTestMethods {
-		if w == m {
-			o = binomialTestOptions[i]
+	o.Method = enumValue[test.BinomialMethod](binomialTestMethods, m)
+	if o.Method == test.Exact {
+		if o.Rule, o.MidP, err = readExact(a); err != nil {
+			return
 		}
 	}
-	if o.Alternative, sideText, err = testSide(a); err != nil {
+	if o.Alternative, sideText, err = readAlt(a, test.TwoSided); err != nil {
 		return
 	}
 	o.Level, err = c.Level()
@@ -155,19 +113,21 @@ func flipsCommand() *command {
 		Name:    "flips",
 		Group:   "tests",
 		Summary: "paired yes/no data: test whether the two answers differ (McNemar)",
-		Usage:   "flips A B C D [method=M] [side=two|high|low]",
+		Usage:   "flips N11 N12 N21 N22 [method=M] [midp=on] [alt=two-sided|lower|higher]",
 		Methods: mcnemarMethods,
-		Options: []opt{optMethod("test", mcnemarMethods), optTestSide},
+		Options: []opt{optMethod("test", mcnemarMethods), {Name: "midp", Doc: "method=exact: on gives the mid-p test (closest to the nominal size in Fagerland et al. 2013, but not guaranteed to keep it); off (default)", Values: onOffWords},
+			optAlt("two-sided (default); higher: the first yes-rate is above the second (n12 > n21 expected); lower: below")},
 		Help: helpText{
 			Computes: "For n pairs each scored yes/no twice (before and after, two raters, two tests on one " +
-				"sample), the counts A B C D in reading order: A both yes, B yes then no, C no then yes, D both no. " +
-				"Tests H0: the chance of a yes is the same the first and the second time, which depends only on " +
-				"the pairs that flipped (B and C). side=high claims the first yes-rate is higher. " + cautionSides,
-			Methods: "McNemar mid-p (default: closest to the nominal size in Fagerland et al. 2013), exact " +
-				"(conditional binomial; never exceeds the size), asymptotic (chi-square), asymptotic-cc (with " +
-				"Edwards' continuity correction).",
+				"sample), the four cell counts in reading order: n11 both yes, n12 yes then no, n21 no then yes, " +
+				"n22 both no. Tests H0: the chance of a yes is the same the first and the second time, which " +
+				"depends only on the discordant pairs n12 and n21. alt=higher claims the first yes-rate is " +
+				"higher. " + cautionSides,
+			Methods: "McNemar exact (default: the conditional binomial test on n12 of n12 + n21; never exceeds " +
+				"the size), with midp=on its mid-p form (closest to the nominal size in Fagerland et al. 2013), " +
+				"asymptotic (chi-square), asymptotic-cc (with Edwards' continuity correction).",
 			Assumptions: "Pairs are independent of each other; each pair is scored twice on the same scale.",
-			Examples:    []string{"flips 1 1 7 12", "flips 30 12 4 54 method=exact"},
+			Examples:    []string{"flips 1 1 7 12", "flips 30 12 4 54 midp=on"},
 			Sources: "McNemar Q (1947), Psychometrika 12:153-157; Fagerland MW, Lydersen S, Laake P (2013), BMC " +
 				"Medical Research Methodology 13:91.",
 		},
@@ -176,7 +136,14 @@ func flipsCommand() *command {
 	}
 }
 
-// pairCounts reads the four cell counts A B C D of a paired table.
+// pairCells describes the four cells of a paired table in the one
+// notation of the shell and the packages.
+func pairCells(cells [4]int64) string {
+	return "n11 = " + count(cells[0]) + " both yes, n12 = " + count(cells[1]) + " yes then no, n21 = " +
+		count(cells[2]) + " no then yes, n22 = " + count(cells[3]) + " both no"
+}
+
+// pairCounts reads the four cell counts n11 n12 n21 n22 of a paired table.
 func pairCounts(a *argSet) ([4]int64, error) {
 	var cells [4]int64
 	if err := a.Want(4, 4); err != nil {
@@ -198,8 +165,15 @@ func flipsSetup(c *call) (o test.McNemarOptions, sideText string, err error) {
 	if err != nil {
 		return
 	}
-	o = mcnemarOptions(m)
-	o.Alternative, sideText, err = testSide(c.Args)
+	o.Method = enumValue[test.McNemarMethod](mcnemarMethods, m)
+	if o.Method == test.McNemarExact {
+		mid, err := c.Args.Choice("midp", "off", onOffWords...)
+		if err != nil {
+			return o, "", err
+		}
+		o.MidP = mid == "on"
+	}
+	o.Alternative, sideText, err = readAlt(c.Args, test.TwoSided)
 	return
 }
 
@@ -221,8 +195,8 @@ func runFlips(c *call) error {
 	s := c.S
 	n := cells[0] + cells[1] + cells[2] + cells[3]
 	b := c.Block(r.Method + " test for paired data, " + sideText)
-	b.Row("pairs", count(n), "both yes "+count(cells[0])+", yes-no "+count(cells[1])+", no-yes "+count(cells[2])+", both no "+count(cells[3]))
-	b.Row("flipped", count(cells[1]+cells[2]), "estimate (B - C)/(B + C) = "+s.num(r.Estimate))
+	b.Row("pairs", count(n), pairCells(cells))
+	b.Row("discordant", count(cells[1]+cells[2]), "n12 + n21; estimate (n12 - n21)/(n12 + n21) = "+s.num(r.Estimate))
 	testRows(s, b, r, "")
 	return nil
 }
@@ -247,7 +221,7 @@ func checkRow() *rowSpec {
 
 // flipsRow is the row form of flips for each.
 func flipsRow() *rowSpec {
-	return &rowSpec{In: []string{"a", "b", "c", "d"}, Out: []string{"estimate", "p_value"},
+	return &rowSpec{In: []string{"n11", "n12", "n21", "n22"}, Out: []string{"estimate", "p_value"},
 		prepare: func(c *call) (rowFunc, error) {
 			o, _, err := flipsSetup(c)
 			return func(_ context.Context, v []int64) ([]float64, error) {

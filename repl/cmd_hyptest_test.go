@@ -1,6 +1,7 @@
 package repl
 
 import (
+	"strings"
 	"testing"
 
 	"github.com/kofnlab/kofn/test"
@@ -12,7 +13,7 @@ func TestCheckAndFlipsValues(t *testing.T) {
 		// Fagerland MW, Lydersen S, Laake P (2013), BMC Med Res Methodol 13:91: pairs 1, 1, 7, 12
 		// (data read; p-values recalled, recomputed): exact 18/256, mid-p 10/256, asymptotic 0.034, cc 0.077.
 		{"flips 1 1 7 12 method=exact", "p_value", 18.0 / 256, 1e-12, "Fagerland 2013"},
-		{"flips 1 1 7 12 method=mid-p", "p_value", 10.0 / 256, 1e-12, "Fagerland 2013"},
+		{"flips 1 1 7 12 midp=on", "p_value", 10.0 / 256, 1e-12, "Fagerland 2013"},
 		{"flips 1 1 7 12 method=asymptotic", "statistic.value", 4.5, 1e-12, "Fagerland 2013"},
 		{"flips 1 1 7 12 method=asymptotic", "p_value", 0.0339, 2e-3, "Fagerland 2013"},
 		{"flips 1 1 7 12 method=asymptotic-cc", "p_value", 0.0771, 2e-3, "Fagerland 2013"},
@@ -21,11 +22,11 @@ func TestCheckAndFlipsValues(t *testing.T) {
 		{"check 81/263 p=0.3 method=score", "interval.lower", 0.2553, 2e-4, "Newcombe 1998 single"},
 		{"check 81/263 p=0.3 method=score", "interval.upper", 0.3662, 2e-4, "Newcombe 1998 single"},
 		// Same table, method 5 (Clopper-Pearson, which the central test inverts): 0.2527 to 0.3676.
-		{"check 81/263 p=0.3 method=central", "interval.lower", 0.2527, 2e-4, "Newcombe 1998 single"},
-		{"check 81/263 p=0.3 method=central", "interval.upper", 0.3676, 2e-4, "Newcombe 1998 single"},
+		{"check 81/263 p=0.3 rule=central", "interval.lower", 0.2527, 2e-4, "Newcombe 1998 single"},
+		{"check 81/263 p=0.3 rule=central", "interval.upper", 0.3676, 2e-4, "Newcombe 1998 single"},
 		// NIST/SEMATECH e-Handbook 7.2.4: 4 defectives in 20, 90% (limits recalled, recomputed).
-		{"check 4/20 p=0.2 method=central level=90%", "interval.lower", 0.0714, 1e-3, "NIST 7.2.4"},
-		{"check 4/20 p=0.2 method=central level=90%", "interval.upper", 0.4010, 1e-3, "NIST 7.2.4"},
+		{"check 4/20 p=0.2 rule=central level=90%", "interval.lower", 0.0714, 1e-3, "NIST 7.2.4"},
+		{"check 4/20 p=0.2 rule=central level=90%", "interval.upper", 0.4010, 1e-3, "NIST 7.2.4"},
 	}
 	checkValues(t, tests)
 }
@@ -34,15 +35,29 @@ func TestCheckAndFlipsValues(t *testing.T) {
 // unchanged: its JSON equals the package's result for the same call.
 func TestCheckMatchesPackage(t *testing.T) {
 	t.Parallel()
-	for i, m := range binomialTestMethods {
-		for _, side := range []struct {
-			word string
-			alt  test.Alternative
-		}{{"two", test.TwoSided}, {"high", test.Higher}, {"low", test.Lower}} {
-			line := "check 17/40 p=0.3 method=" + m + " side=" + side.word + " level=0.9"
+	type form struct {
+		words string
+		o     test.BinomialOptions
+	}
+	var forms []form
+	for _, r := range test.TwoSidedRuleValues() {
+		for _, mid := range []bool{false, true} {
+			w := "method=exact rule=" + methodWord(r.String())
+			if mid {
+				w += " midp=on"
+			}
+			forms = append(forms, form{w, test.BinomialOptions{Rule: r, MidP: mid}})
+		}
+	}
+	for _, m := range test.BinomialMethodValues()[1:] {
+		forms = append(forms, form{"method=" + methodWord(m.String()), test.BinomialOptions{Method: m}})
+	}
+	for _, f := range forms {
+		for _, alt := range test.AlternativeValues() {
+			line := "check 17/40 p=0.3 " + f.words + " alt=" + alt.String() + " level=0.9"
 			obj := runJSON(t, line)
-			o := binomialTestOptions[i]
-			o.Alternative, o.Level = side.alt, 0.9
+			o := f.o
+			o.Alternative, o.Level = alt, 0.9
 			want, err := test.Binomial(17, 40, 0.3, o)
 			if err != nil {
 				t.Fatal(err)
@@ -54,6 +69,10 @@ func TestCheckMatchesPackage(t *testing.T) {
 				t.Errorf("%s: upper %v, package %v", line, got, want.Interval.Upper)
 			}
 		}
+	}
+	// A rule of an asymptotic test does not apply, and says so.
+	if _, err := runErr("check 17/40 p=0.3 method=score rule=central"); err == nil || !strings.Contains(err.Error(), "does not apply") {
+		t.Errorf("rule= with method=score: %v", err)
 	}
 }
 

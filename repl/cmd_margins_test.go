@@ -20,10 +20,10 @@ func TestMarginCommandsMatchPackage(t *testing.T) {
 	r3, _ := test.DifferenceEquivalence(170, 200, 178, 200, -0.1, 0.1, test.MarginOptions{})
 	r4, _ := test.TwoSample(17, 40, 9, 38, test.TwoSampleOptions{Method: test.ChiSquareYates, Alternative: test.Higher})
 	for line, want := range map[string]float64{
-		"noninf 170/200 178/200 diff=-0.1":                                    r1.PValue,
-		"noninf 170/200 178/200 ratio=0.9 side=low method=farrington-manning": r2.PValue,
-		"equiv 170/200 178/200 diff=-0.1..0.1":                                r3.PValue,
-		"versus 17/40 9/38 method=pearson-chi-square-yates side=high":         r4.PValue,
+		"noninf 170/200 178/200 diff=-0.1":                                     r1.PValue,
+		"noninf 170/200 178/200 ratio=0.9 alt=lower method=farrington-manning": r2.PValue,
+		"equiv 170/200 178/200 diff=-0.1..0.1":                                 r3.PValue,
+		"versus 17/40 9/38 method=pearson-chi-square-yates alt=higher":         r4.PValue,
 	} {
 		if got := num(t, runJSON(t, line), "p_value"); got != want {
 			t.Errorf("%s: p-value %v, package %v", line, got, want)

@@ -3,29 +3,23 @@ package repl
 import (
 	"context"
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/power"
 	"github.com/kofnlab/kofn/test"
 )
 
 // oneSampleMethods are the method words of the one-sample planning forms:
-// the exact test's two-sided definitions, their mid-p variants, and the
-// normal approximation.
-var oneSampleMethods = func() []string {
-	ws := enumWords(test.TwoSidedRuleValues(), func(m test.TwoSidedRule) string { return m.String() })
-	for _, w := range ws[:len(ws):len(ws)] {
-		ws = append(ws, w+"-mid-p")
-	}
-	return append(ws, "normal")
-}()
+// the exact test (default; its two-sided rule by rule=, mid-p by midp=)
+// and the normal approximation.
+var oneSampleMethods = []string{"exact", "normal"}
 
 // twoPlanMethods are the two-group planning methods: the normal formula
 // (default) or the exact enumeration of a test's power; pairedPlanMethods
-// the McNemar tests whose power is computed (exact first, the default).
+// the McNemar tests whose power is computed (exact first, the default;
+// midp=on for its mid-p form).
 var (
 	twoPlanMethods    = append([]string{"normal"}, enumWords(power.ExactTestValues(), func(t power.ExactTest) string { return t.String() })...)
-	pairedPlanMethods = []string{"exact", "mid-p", "asymptotic"}
+	pairedPlanMethods = []string{"exact", "asymptotic"}
 	planMethods       = unique(oneSampleMethods, twoPlanMethods, pairedPlanMethods)
 )
 
@@ -55,11 +49,13 @@ var planOptions = []opt{
 	{Name: "truth", Doc: "one sample: the true proportion the study should detect"},
 	{Name: "p1", Doc: "two groups: the proportion in group 1"},
 	{Name: "p2", Doc: "two groups: the proportion in group 2"},
-	{Name: "yn", Doc: "paired: probability a pair is yes then no"},
-	{Name: "ny", Doc: "paired: probability a pair is no then yes"},
+	{Name: "p12", Doc: "paired: probability a pair is yes then no (the n12 cell)"},
+	{Name: "p21", Doc: "paired: probability a pair is no then yes (the n21 cell)"},
 	{Name: "alpha", Doc: "significance level (default: 1 - the session level)"},
-	optTestSide,
-	{Name: "method", Doc: "one sample: point-probability (default), central, blaker, their -mid-p forms, or normal; two groups: normal (default), fisher, barnard or z (exact power by enumeration); paired: exact (default), mid-p or asymptotic", Values: planMethods},
+	optAlt("two-sided (default); one sample: lower or higher than p; two groups: p1 lower or higher than p2; paired: p12 lower or higher than p21"),
+	{Name: "method", Doc: "one sample: exact (default) or normal; two groups: normal (default), fisher, barnard or z (exact power by enumeration); paired: exact (default) or asymptotic", Values: planMethods},
+	optRule,
+	{Name: "midp", Doc: "one sample and paired, method=exact: on plans for the mid-p test; off (default)", Values: onOffWords},
 	{Name: "variance", Doc: "two groups: null variance of the normal formula", Values: twoSampleWords.variance},
 	{Name: "correction", Doc: "two groups: continuity correction (cps: Casagrande-Pike-Smith; none)", Values: twoSampleWords.correction},
 	{Name: "hypothesis", Doc: "two groups: equality, non-inferiority or equivalence", Values: twoSampleWords.hypothesis},
@@ -72,30 +68,30 @@ const planSources = "Exact binomial power by enumeration of the rejection region
 	"MC, Smith PG (1978), Biometrics 34:483-486; Connor RJ (1987), Biometrics 43:207-211 (paired)."
 
 // planMethodsHelp is the Methods section of detect and size.
-const planMethodsHelp = "One sample: exact with the point-probability (default), central or blaker two-sided " +
-	"definition, their -mid-p variants, or normal. Two groups: normal (default), Fleiss' formula with " +
+const planMethodsHelp = "One sample: exact (default), two-sided by rule=point-probability (default), central " +
+	"or blaker, with midp=on for the mid-p test; or normal. Two groups: normal (default), Fleiss' formula with " +
 	"pooled or unpooled null variance and the Casagrande-Pike-Smith correction; or the exact power of " +
 	"fisher, barnard or z (pooled z test) by enumerating both binomials, limited to (n1+1)(n2+1) <= " +
-	"4100000 tables. Paired: McNemar exact (default), mid-p, or asymptotic (Connor's formula)."
+	"4100000 tables. Paired: McNemar exact (default; midp=on for mid-p), or asymptotic (Connor's formula)."
 
 func detectCommand() *command {
 	return &command{
 		Name:    "detect",
 		Group:   "planning",
 		Summary: "power: the chance a study of n trials detects a given effect; n=LO..HI plots the sawtooth",
-		Usage:   "detect n=N|LO..HI (p=P0 truth=P1 | p1=P1 p2=P2 [n2=N2] | yn=A ny=B) [alpha=A] [side=S] [method=M]",
+		Usage:   "detect n=N|LO..HI (p=P0 truth=P1 | p1=P1 p2=P2 [n2=N2] | p12=A p21=B) [alpha=A] [alt=S] [method=M]",
 		Options: append([]opt{{Name: "n", Doc: "trials (one sample), group 1 size (two groups) or pairs; LO..HI for a curve"},
 			{Name: "n2", Doc: "two groups: size of group 2 (default: n)"}}, planOptions...),
 		Help: helpText{
 			Computes: "The probability that a test at level alpha rejects H0 when the truth is as stated. One " +
 				"sample (p, truth): the exact binomial test's power, by summing the true distribution over the " +
 				"rejection region, with the attained size and the counts that do not reject. Two groups (p1, p2): " +
-				"the power of the comparison. Paired (yn, ny): the power of McNemar's test. With n=LO..HI the power is drawn against n: exact power is a sawtooth, because " +
+				"the power of the comparison. Paired (p12, p21): the power of McNemar's test. With n=LO..HI the power is drawn against n: exact power is a sawtooth, because " +
 				"adding a trial can shrink the rejection region.",
 			Methods:     planMethodsHelp,
 			Assumptions: "Independent trials; fixed n; the stated truth is the effect worth detecting.",
 			Examples: []string{"detect n=40 p=0.3 truth=0.5", "detect n=10..120 p=0.3 truth=0.5",
-				"detect n=474 p1=0.05 p2=0.10", "detect n=60 p1=0.2 p2=0.5 method=fisher", "detect n=100 yn=0.15 ny=0.05"},
+				"detect n=474 p1=0.05 p2=0.10", "detect n=60 p1=0.2 p2=0.5 method=fisher", "detect n=100 p12=0.15 p21=0.05"},
 			Sources: planSources,
 		},
 		Run: runDetect,
@@ -107,7 +103,7 @@ func sizeCommand() *command {
 		Name:    "size",
 		Group:   "planning",
 		Summary: "sample size for a target power (exact sawtooth-aware for one sample)",
-		Usage:   "size (p=P0 truth=P1 | p1=P1 p2=P2 [ratio=R] | yn=A ny=B) [power=0.8] [alpha=A] [side=S] [method=M]",
+		Usage:   "size (p=P0 truth=P1 | p1=P1 p2=P2 [ratio=R] | p12=A p21=B) [power=0.8] [alpha=A] [alt=S] [method=M]",
 		Options: append([]opt{{Name: "power", Doc: "target power (default 0.8)"},
 			{Name: "ratio", Doc: "two groups: n2/n1 (default 1)"},
 			{Name: "upto", Doc: "largest n searched (one sample and paired exact searches)"}}, planOptions...),
@@ -122,7 +118,7 @@ func sizeCommand() *command {
 			Methods:     planMethodsHelp,
 			Assumptions: "Independent trials; the stated truth is the smallest effect worth detecting.",
 			Examples: []string{"size p=0.3 truth=0.5", "size p1=0.05 p2=0.10", "size p1=0.05 p2=0.10 correction=none",
-				"size p1=0.2 p2=0.5 method=fisher", "size yn=0.15 ny=0.05 power=90%"},
+				"size p1=0.2 p2=0.5 method=fisher", "size p12=0.15 p21=0.05 power=90%"},
 			Sources: planSources + " Fleiss (1981) Table A.3 gives 474 per group for 0.05 against 0.10.",
 		},
 		Run: runSize,
@@ -143,7 +139,7 @@ type planInputs struct {
 	form         planForm
 	p0, p1       float64 // one sample
 	q1, q2       float64 // two groups
-	yn, ny       float64 // paired
+	p12, p21     float64 // paired
 	alpha        float64
 	alt          test.Alternative
 	sideText     string
@@ -180,43 +176,50 @@ func planArgs(c *call) (planInputs, error) {
 		if in.q2, err = a.Prob("p2", 0); err != nil {
 			return in, err
 		}
-	case a.Has("yn") || a.Has("ny"):
+	case a.Has("p12") || a.Has("p21"):
 		in.form = paired
-		if err = a.Need("yn", "ny"); err != nil {
+		if err = a.Need("p12", "p21"); err != nil {
 			return in, err
 		}
-		if in.yn, err = a.Prob("yn", 0); err != nil {
+		if in.p12, err = a.Prob("p12", 0); err != nil {
 			return in, err
 		}
-		if in.ny, err = a.Prob("ny", 0); err != nil {
+		if in.p21, err = a.Prob("p21", 0); err != nil {
 			return in, err
 		}
 	default:
-		return in, &InputError{Token: a.cmd.Name, Reason: "needs p= and truth= (one sample), p1= and p2= (two groups) or yn= and ny= (paired); usage: " + a.cmd.Usage}
+		return in, &InputError{Token: a.cmd.Name, Reason: "needs p= and truth= (one sample), p1= and p2= (two groups) or p12= and p21= (paired); usage: " + a.cmd.Usage}
 	}
 	if in.alpha, err = a.OpenProb("alpha", complement(c.S.Set.Level)); err != nil {
 		return in, err
 	}
-	w, err := a.Choice("side", "two", sideWords...)
-	if err != nil {
+	if in.alt, in.sideText, err = readAlt(a, test.TwoSided); err != nil {
 		return in, err
 	}
-	in.alt, in.sideText = map[string]test.Alternative{"two": test.TwoSided, "high": test.Higher, "low": test.Lower}[w], map[string]string{"two": "two-sided", "high": "one-sided, higher", "low": "one-sided, lower"}[w]
 	if in.form == oneSample {
 		if in.method, err = a.Choice("method", oneSampleMethods[0], oneSampleMethods...); err != nil {
 			return in, err
 		}
-		base := strings.TrimSuffix(in.method, "-mid-p")
-		in.exactOneSide = power.OneSampleOptions{Alpha: in.alpha, Alternative: in.alt, MidP: base != in.method,
-			Rule: enumValue[test.TwoSidedRule](oneSampleMethods, base)}
+		in.exactOneSide = power.OneSampleOptions{Alpha: in.alpha, Alternative: in.alt}
+		if in.method == "exact" {
+			if in.exactOneSide.Rule, in.exactOneSide.MidP, err = readExact(a); err != nil {
+				return in, err
+			}
+		}
 	}
 	if in.form == paired {
 		if in.method, err = a.Choice("method", pairedPlanMethods[0], pairedPlanMethods...); err != nil {
 			return in, err
 		}
-		in.pair = power.PairedOptions{Alpha: in.alpha, Alternative: in.alt, MidP: in.method == "mid-p"}
+		in.pair = power.PairedOptions{Alpha: in.alpha, Alternative: in.alt}
 		if in.method == "asymptotic" {
 			in.pair.Method = test.McNemarAsymptotic
+		} else {
+			mid, err := a.Choice("midp", "off", onOffWords...)
+			if err != nil {
+				return in, err
+			}
+			in.pair.MidP = mid == "on"
 		}
 	}
 	if in.form == twoSample {
@@ -262,7 +265,7 @@ func (in planInputs) describe(s *Session) string {
 		}
 		return "two groups, p1 = " + fmtIn(in.q1) + ", p2 = " + fmtIn(in.q2) + ", alpha " + fmtIn(in.alpha) + h
 	}
-	return "paired, yes-no " + fmtIn(in.yn) + ", no-yes " + fmtIn(in.ny) + ", alpha " + fmtIn(in.alpha) + ", " + in.sideText
+	return "paired, p12 = " + fmtIn(in.p12) + " (yes then no), p21 = " + fmtIn(in.p21) + " (no then yes), alpha " + fmtIn(in.alpha) + ", " + in.sideText
 }
 
 func fmtIn(x float64) string { return in(x) }
@@ -292,7 +295,7 @@ func (in planInputs) powerAt(ctx context.Context, n, n2 int64) (float64, string,
 		}
 		return p, "normal approximation (" + in.two.Variance.String() + " variance, correction " + in.two.Correction.String() + ")", nil, err
 	default:
-		ex, err = power.PairedPower(ctx, n, in.yn, in.ny, in.pair)
+		ex, err = power.PairedPower(ctx, n, in.p12, in.p21, in.pair)
 		if ex.Test == "" {
 			ex.Test = "McNemar " + in.method
 		}
@@ -525,7 +528,7 @@ func runSize(c *call) error {
 	case paired:
 		o := in.pair
 		o.Power, o.MaxN = target, upto
-		r, err := power.PairedN(c.Ctx, in.yn, in.ny, o)
+		r, err := power.PairedN(c.Ctx, in.p12, in.p21, o)
 		if err != nil {
 			return err
 		}

@@ -22,12 +22,12 @@ func TestPlanningValues(t *testing.T) {
 		// Margin of error, common practice: p = 0.5, d = 0.03, 95%: 1068.
 		{"margin d=0.03", "n", 1068, 0, "common practice"},
 		// Success-run formula, common practice: R = 0.99 at C = 0.95: 299 trials, 298 give 0.94996.
-		{"prove rel=0.99 conf=0.95", "trials", 299, 0, "success run"},
-		{"prove rel=0.99 conf=0.95", "previous_level", 0.94996, 1e-5, "success run"},
+		{"prove rel=0.99 level=0.95", "trials", 299, 0, "success run"},
+		{"prove rel=0.99 level=0.95", "previous_level", 0.94996, 1e-5, "success run"},
 		// 30 units, no failures, 90%: 0.10^(1/30) = 0.9261 (common practice).
-		{"prove n=30 conf=0.9", "reliability", 0.9261, 1e-4, "success run"},
+		{"prove n=30 level=0.9", "reliability", 0.9261, 1e-4, "success run"},
 		// Hanley and Lippman-Hand (1983): n = 14, exact one-sided 95% upper limit 1 - 0.05^(1/14) = 0.1926.
-		{"prove n=14 conf=95%", "reliability", 1 - 0.1926, 1e-4, "Hanley 1983"},
+		{"prove n=14 level=95%", "reliability", 1 - 0.1926, 1e-4, "Hanley 1983"},
 		// Montgomery, single sampling plan n = 89, c = 2 (read in a reproduced exercise):
 		// P(accept) at 0.01, 0.02, 0.05 = 0.93969, 0.736578, 0.172077; ATI at N = 10000, p = 0.01: 687.
 		{"accept n=89 c=2 at=0.01", "accept_prob", 0.93969, 1e-5, "Montgomery"},
@@ -46,14 +46,14 @@ func TestPlanningMatchesPackage(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := num(t, runJSON(t, "detect n=40 p=0.3 truth=0.5 method=central"), "power"); got != ex.Power {
+	if got := num(t, runJSON(t, "detect n=40 p=0.3 truth=0.5 rule=central"), "power"); got != ex.Power {
 		t.Errorf("detect: %v, package %v", got, ex.Power)
 	}
 	sz, err := power.OneSampleN(context.Background(), 0.3, 0.5, power.OneSampleOptions{Alpha: 0.1, Power: 0.9, Alternative: test.Higher})
 	if err != nil {
 		t.Fatal(err)
 	}
-	obj := runJSON(t, "size p=0.3 truth=0.5 power=0.9 alpha=0.1 side=high")
+	obj := runJSON(t, "size p=0.3 truth=0.5 power=0.9 alpha=0.1 alt=higher")
 	if got := num(t, obj, "exact.first"); got != float64(sz.First) {
 		t.Errorf("size first: %v, package %v", got, sz.First)
 	}
@@ -64,14 +64,14 @@ func TestPlanningMatchesPackage(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := num(t, runJSON(t, "detect n=100 yn=0.15 ny=0.05 method=asymptotic"), "power"); got != pw {
+	if got := num(t, runJSON(t, "detect n=100 p12=0.15 p21=0.05 method=asymptotic"), "power"); got != pw {
 		t.Errorf("paired detect: %v, package %v", got, pw)
 	}
 	pe, err := power.PairedPower(context.Background(), 100, 0.15, 0.05, power.PairedOptions{Alpha: 0.05})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := num(t, runJSON(t, "detect n=100 yn=0.15 ny=0.05"), "power"); got != pe.Power {
+	if got := num(t, runJSON(t, "detect n=100 p12=0.15 p21=0.05"), "power"); got != pe.Power {
 		t.Errorf("paired exact detect: %v, package %v", got, pe.Power)
 	}
 	te, err := power.TwoSamplePower(context.Background(), 60, 60, 0.2, 0.5, power.TwoSampleOptions{Alpha: 0.05, Test: power.FisherExactTest})

@@ -73,19 +73,19 @@ func proveCommand() *command {
 		Name:    "prove",
 		Group:   "planning",
 		Summary: "reliability demonstration: trials needed, or reliability shown by a test",
-		Usage:   "prove rel=R conf=C [fails=F]   or   prove n=N conf=C [fails=F]",
+		Usage:   "prove rel=R [level=L] [fails=F]   or   prove n=N [level=L] [fails=F]",
 		Options: []opt{{Name: "rel", Doc: "reliability to demonstrate (chance a unit works), like 0.99"},
-			{Name: "conf", Doc: "confidence, like 0.95 or 95%"},
+			{Name: "level", Doc: "confidence level of the demonstration, like 0.95 or 95% (default: the session level)"},
 			{Name: "fails", Doc: "failures allowed (default 0)"},
 			{Name: "n", Doc: "trials run (to find the reliability they demonstrate)"}},
 		Help: helpText{
 			Computes: "With rel=: the smallest number of trials n such that seeing at most fails failures " +
-				"demonstrates reliability rel at confidence conf: P(X <= fails; n, 1 - rel) <= 1 - conf (with no " +
-				"failures this is the success-run formula n = ln(1 - conf)/ln(rel)). With n=: the reliability a " +
+				"demonstrates reliability rel at confidence level L: P(X <= fails; n, 1 - rel) <= 1 - L (with no " +
+				"failures this is the success-run formula n = ln(1 - L)/ln(rel)). With n=: the reliability a " +
 				"test of n trials with fails failures demonstrates, the one-sided exact (Clopper-Pearson) lower " +
-				"bound; with no failures (1 - conf)^(1/n), which the rule of three approximates.",
+				"bound; with no failures (1 - L)^(1/n), which the rule of three approximates.",
 			Assumptions: "Independent trials of identical units under representative conditions.",
-			Examples:    []string{"prove rel=0.99 conf=0.95", "prove rel=0.95 conf=0.9 fails=2", "prove n=30 conf=0.9"},
+			Examples:    []string{"prove rel=0.99 level=0.95", "prove rel=0.95 level=0.9 fails=2", "prove n=30 level=0.9"},
 			Sources: "Success-run formula (common practice); Hanley JA, Lippman-Hand A (1983), If nothing goes " +
 				"wrong, is everything all right? JAMA 249:1743-1745; Clopper CJ, Pearson ES (1934), Biometrika 26:404-413.",
 		},
@@ -96,7 +96,7 @@ func proveCommand() *command {
 type proveResult struct {
 	N           int64   `json:"n"`
 	Failures    int64   `json:"failures"`
-	Confidence  float64 `json:"confidence"`
+	Level       float64 `json:"level"`
 	Reliability float64 `json:"reliability"`
 }
 
@@ -105,10 +105,7 @@ func runProve(c *call) error {
 	if err := a.Want(0, 0); err != nil {
 		return err
 	}
-	if err := a.Need("conf"); err != nil {
-		return err
-	}
-	conf, err := a.OpenProb("conf", 0)
+	conf, err := c.Level()
 	if err != nil {
 		return err
 	}

@@ -144,7 +144,7 @@ func oddsCommand() *command {
 
 // pairsRow is the row form of pairs for each.
 func pairsRow() *rowSpec {
-	return &rowSpec{In: []string{"a", "b", "c", "d"}, Out: []string{"estimate", "lower", "upper"},
+	return &rowSpec{In: []string{"n11", "n12", "n21", "n22"}, Out: []string{"estimate", "lower", "upper"},
 		prepare: func(c *call) (rowFunc, error) {
 			f, err := pairsSetup(c)
 			return func(_ context.Context, v []int64) ([]float64, error) {
@@ -162,15 +162,16 @@ func pairsCommand() *command {
 		Name:    "pairs",
 		Group:   "intervals",
 		Summary: "paired yes/no data: interval for the change in the yes-rate (or the ratio of flips)",
-		Usage:   "pairs A B C D [method=M] [level=L] [bound=two|lower|upper] [measure=difference|ratio]",
+		Usage:   "pairs N11 N12 N21 N22 [method=M] [level=L] [bound=two|lower|upper] [measure=difference|ratio]",
 		Methods: pairMethods,
 		Options: []opt{optMethod("interval method (for measure=ratio: a bounds method)", unique(pairMethods, boundsMethods)), optLevel, optBound,
-			{Name: "measure", Doc: "difference (default): p1 - p2 of the yes-rates; ratio: B/C, the ratio of the two kinds of flip", Values: []string{"difference", "ratio"}}},
+			{Name: "measure", Doc: "difference (default): p1 - p2 of the yes-rates; ratio: n12/n21, the ratio of the two kinds of discordant pair", Values: []string{"difference", "ratio"}}},
 		Help: helpText{
-			Computes: "For n pairs each scored yes/no twice, with A both yes, B yes then no, C no then yes and D " +
-				"both no: a confidence interval for p1 - p2, the first yes-rate (A+B)/n minus the second (A+C)/n, " +
-				"estimated by (B - C)/n. measure=ratio gives instead an interval for the ratio of the two kinds of " +
-				"flip, B/C (the matched-pairs odds ratio), from the split of the B + C flipped pairs.",
+			Computes: "For n pairs each scored yes/no twice, with n11 both yes, n12 yes then no, n21 no then yes " +
+				"and n22 both no: a confidence interval for p1 - p2, the first yes-rate (n11+n12)/n minus the second " +
+				"(n11+n21)/n, estimated by (n12 - n21)/n. measure=ratio gives instead an interval for the ratio of " +
+				"the two kinds of discordant pair, n12/n21 (the matched-pairs odds ratio), from the split of the " +
+				"n12 + n21 discordant pairs.",
 			Methods: "newcombe (default: Newcombe's hybrid score for paired data), wald, tango (Tango's score " +
 				"interval). For measure=ratio, any bounds method on the split (clopper-pearson gives the exact " +
 				"conditional interval).",
@@ -235,7 +236,7 @@ func runPairs(c *call) error {
 	s := c.S
 	n := cells[0] + cells[1] + cells[2] + cells[3]
 	b := c.Block(iv.Method + " interval for " + iv.Parameter + ", " + pct(iv.Level) + " " + iv.Side.String())
-	b.Row("pairs", count(n), "both yes "+count(cells[0])+", yes-no "+count(cells[1])+", no-yes "+count(cells[2])+", both no "+count(cells[3]))
+	b.Row("pairs", count(n), pairCells(cells))
 	b.Row("estimate", s.num(iv.Estimate), iv.Parameter)
 	intervalRows(s, b, iv)
 	return nil

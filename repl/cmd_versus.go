@@ -10,7 +10,7 @@ import (
 // versusMethods are the two-sample test words: Fisher's conditional test
 // in its two-sided definitions and mid-p forms, the unconditional exact
 // tests, then the large-sample tests (cmd_versus_asym.go).
-var versusMethods = append([]string{"fisher", "fisher-central", "fisher-mid-p", "fisher-central-mid-p", "boschloo", "barnard"},
+var versusMethods = append([]string{"fisher", "boschloo", "barnard"},
 	asymptoticTwoMethods...)
 
 func versusCommand() *command {
@@ -18,17 +18,19 @@ func versusCommand() *command {
 		Name:    "versus",
 		Group:   "tests",
 		Summary: "test whether two groups' proportions differ (Fisher, Boschloo, Barnard)",
-		Usage:   "versus K1/N1 K2/N2 [method=M] [side=two|high|low] [berger-boos=G]",
+		Usage:   "versus K1/N1 K2/N2 [method=M] [rule=R] [midp=on] [alt=two-sided|lower|higher] [berger-boos=G]",
 		Methods: versusMethods,
 		Options: []opt{optMethod("test", versusMethods),
-			{Name: "side", Doc: "two (default); high: group 1's proportion is higher; low: it is lower", Values: sideWords},
+			{Name: "rule", Doc: "fisher: the two-sided rule: point-probability (default), central (twice the smaller tail) or blaker", Values: ruleWords},
+			{Name: "midp", Doc: "fisher: on gives the mid-p test; off (default)", Values: onOffWords},
+			optAlt("two-sided (default); higher: group 1's proportion is higher; lower: it is lower"),
 			{Name: "berger-boos", Doc: "Boschloo and Barnard: restrict the nuisance supremum to a 1-G interval and add G (G in (0, 0.5), 0.001 is usual)"}},
 		Help: helpText{
 			Computes: "The p-value for H0: both groups share one success probability, from K1 of N1 and K2 of " +
-				"N2. side=high claims group 1's proportion is higher. " + cautionSides,
-			Methods: "fisher (default): Fisher's exact test conditional on the margins, two-sided by point " +
-				"probability; fisher-central doubles the smaller tail; -mid-p forms halve the tables as extreme as " +
-				"observed. boschloo: the unconditional exact test ordered by Fisher's p-value, uniformly more " +
+				"N2. alt=higher claims group 1's proportion is higher. " + cautionSides,
+			Methods: "fisher (default): Fisher's exact test conditional on the margins, two-sided by " +
+				"rule=point-probability (default), central (doubles the smaller tail) or blaker; midp=on halves " +
+				"the tables as likely as the one observed. boschloo: the unconditional exact test ordered by Fisher's p-value, uniformly more " +
 				"powerful than Fisher's; barnard: the unconditional exact test ordered by the pooled z statistic. " +
 				"The unconditional tests take the supremum over the common proportion and are limited to " +
 				"(N1+1)(N2+1) <= 4100000 tables. Two-sided Boschloo orders tables by Fisher's two-sided p-value; " +
@@ -36,7 +38,7 @@ func versusCommand() *command {
 				"there), so compare one-sided values. An empty group, or no successes (no failures) in both groups, " +
 				"gives p = 1 exactly." + asymptoticVersusHelp,
 			Assumptions: "Two independent groups of independent trials.",
-			Examples: []string{"versus 7/15 12/15 side=low", "versus 7/15 12/15 side=low method=barnard",
+			Examples: []string{"versus 7/15 12/15 alt=lower", "versus 7/15 12/15 alt=lower method=barnard", "versus 7/15 12/15 rule=central midp=on",
 				"versus 17/40 9/38 method=boschloo"},
 			Sources: "Fisher RA (1935), The Design of Experiments; Boschloo RD (1970), Statistica Neerlandica " +
 				"24:1-35; Barnard GA (1947), Biometrika 34:123-138; Mehta CR, Senchaudhuri P (2003), Conditional " +
@@ -65,7 +67,7 @@ func versusSetup(c *call) (run func(ctx context.Context, k1, n1, k2, n2 int64) (
 	if m, err = c.Method(); err != nil {
 		return
 	}
-	alt, sideText, err := testSide(a)
+	alt, sideText, err := readAlt(a, test.TwoSided)
 	if err != nil {
 		return
 	}
@@ -85,9 +87,9 @@ func versusSetup(c *call) (run func(ctx context.Context, k1, n1, k2, n2 int64) (
 		}
 		run = func(ctx context.Context, k1, n1, k2, n2 int64) (test.Result, error) { return f(ctx, k1, n1, k2, n2, o) }
 	default:
-		o := test.FisherOptions{Alternative: alt, MidP: m == "fisher-mid-p" || m == "fisher-central-mid-p"}
-		if m == "fisher-central" || m == "fisher-central-mid-p" {
-			o.Rule = test.Central
+		o := test.FisherOptions{Alternative: alt}
+		if o.Rule, o.MidP, err = readExact(a); err != nil {
+			return
 		}
 		run = func(_ context.Context, k1, n1, k2, n2 int64) (test.Result, error) {
 			return test.Fisher(k1, n1, k2, n2, o)

@@ -29,6 +29,3 @@ func enumValue[T ~int](words []string, word string) T {
 	}
 	return 0
 }
-
-// sideWords are the values of side=: the direction of the claim.
-var sideWords = []string{"two", "high", "low"}

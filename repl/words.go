@@ -15,7 +15,7 @@ import (
 // commandWords wins over this common list. Names the shell has no option
 // for (an internal limit, say) become a plain description.
 var goWords = map[string]string{
-	"Level": "level", "level": "level", "c": "level", "conf": "level", "Confidence": "level",
+	"Level": "level", "level": "level", "conf": "level", "Confidence": "level",
 	"Alpha": "alpha", "alpha": "alpha",
 	"Power": "power", "power": "power",
 	"Alternative": "alt", "alternative": "alt",
