@@ -88,9 +88,9 @@ type SequentialOneDesign struct {
 	// Spending and FutilitySpending name the spending functions
 	// (FutilitySpending only with futility bounds); Binding says whether
 	// the efficacy bounds account for futility stops.
-	Spending         string `json:"spending"`
-	FutilitySpending string `json:"futility_spending,omitempty"`
-	Binding          bool   `json:"binding"`
+	Spending         string           `json:"spending"`
+	FutilitySpending string           `json:"futility_spending,omitempty"`
+	Binding          bool             `json:"binding"`
 	Looks            []SequentialLook `json:"looks"`
 	// AttainedAlpha is the exact probability of rejecting H0 at p0 with
 	// the futility stops obeyed; AlphaNonBinding the same with them
