@@ -128,7 +128,7 @@ func boundsAt(ctx context.Context, t []float64, alpha, beta, eta float64, opt Se
 	nb := normalBounds{upper: make([]float64, K), lower: make([]float64, K), up0: make([]float64, K),
 		low0: make([]float64, K), up1: make([]float64, K), low1: make([]float64, K), eta: eta}
 	h := gridStep(t)
-	g0 := &gsGrid{first: true}          // drift 0, used for the upper bounds
+	g0 := &gsGrid{first: true}           // drift 0, used for the upper bounds
 	g1 := &gsGrid{first: true, eta: eta} // drift eta, used for the lower bounds
 	var spent0, spent1 float64
 	for k, tk := range t {
