@@ -97,7 +97,7 @@ func EvaluateTwoStage(d TwoStage, p float64) (TwoStageEval, error) {
 // SimonDesign is one two-stage design found by Simon, with its operating
 // characteristics under H0 and H1.
 type SimonDesign struct {
-	TwoStage
+	TwoStage `json:"design"`
 	// Alpha is the attained size: the rejection probability at p0.
 	Alpha float64 `json:"alpha"`
 	// Power is the attained power: the rejection probability at p1.

@@ -33,6 +33,8 @@ var commandTable = []func() *command{
 	marginCommand,
 	proveCommand,
 	acceptCommand,
+	simonCommand,
+	interimCommand,
 	// data
 	eachCommand,
 	// session

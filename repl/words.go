@@ -36,10 +36,12 @@ var goWords = map[string]string{
 // commandWords holds the words of commands whose options differ from
 // the common list.
 var commandWords = map[string]map[string]string{
-	"detect": {"p1": "truth", "n": "n"},
-	"size":   {"p1": "truth"},
-	"urn":    {"total": "total", "marked": "marked", "draws": "draws", "psi": "odds"},
-	"cut":    {"q": "q"},
+	"detect":  {"p1": "truth", "n": "n"},
+	"size":    {"p1": "truth"},
+	"urn":     {"total": "total", "marked": "marked", "draws": "draws", "psi": "odds"},
+	"cut":     {"q": "q"},
+	"simon":   {"p0": "p0", "p1": "p1", "MaxN": "upto"},
+	"interim": {"p0": "p0", "p1": "p1", "p2": "p2", "maxN": "upto", "looks": "looks"},
 }
 
 // shellWord returns the shell's word for the Go name name in verb.
@@ -108,8 +110,8 @@ func translate(verb, msg string) string {
 	})
 	return identRE.ReplaceAllStringFunc(msg, func(id string) string {
 		w, ok := shellWord(verb, id)
-		if !ok || id == strings.ToLower(id) && !isGoOnly(id) {
-			return id
+		if !ok || w == id || id == strings.ToLower(id) && !isGoOnly(id) {
+			return id // not a Go name, or already the shell's word
 		}
 		if strings.Contains(w, " ") {
 			return w

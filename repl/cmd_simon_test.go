@@ -1,0 +1,43 @@
+package repl
+
+import "testing"
+
+func TestStagedDesignValues(t *testing.T) {
+	t.Parallel()
+	checkValues(t, []valueCase{
+		// Simon R (1989), Controlled Clinical Trials 10:1-10, Table 1 (recalled; recomputed by the
+		// exhaustive search tests of package power): p0 0.05, p1 0.25, alpha 0.05, beta 0.2.
+		{"simon p0=0.05 p1=0.25", "optimal.design.n1", 9, 0, "Simon 1989 Table 1"},
+		{"simon p0=0.05 p1=0.25", "optimal.design.n", 17, 0, "Simon 1989 Table 1"},
+		{"simon p0=0.05 p1=0.25", "optimal.expected_n0", 11.96, 5e-4, "Simon 1989 Table 1"},
+		{"simon p0=0.05 p1=0.25", "optimal.early_stop0", 0.630, 1e-3, "Simon 1989 Table 1"},
+		{"simon p0=0.05 p1=0.25", "minimax.design.n1", 12, 0, "Simon 1989 Table 1"},
+		{"simon p0=0.05 p1=0.25", "minimax.expected_n0", 13.84, 5e-4, "Simon 1989 Table 1"},
+		{"simon p0=0.05 p1=0.25", "minimax.early_stop0", 0.540, 1e-3, "Simon 1989 Table 1"},
+		// p0 0.2, p1 0.4: optimal 3/13, 12/43, EN0 20.6, PET 0.75 (Simon 1989 Table 1, recalled).
+		{"simon 3/13 12/43 p0=0.2 p1=0.4", "null.expected_n", 20.6, 3e-3, "Simon 1989 Table 1"},
+		{"simon 3/13 12/43 p0=0.2 p1=0.4", "null.early_stop", 0.75, 7e-3, "Simon 1989 Table 1"},
+		// Stage-one stop: the stage-wise p-value is P(X1 >= x1) (Koyama and Chen 2008); for 1 of 13
+		// at p0 = 0.2 that is 1 - 0.8^13 = 0.945024.
+		{"simon 3/13 12/43 p0=0.2 observed=1/13", "observed.p_value", 1 - 0.054975581388800036, 1e-12, "Koyama and Chen 2008"},
+		// Lan-DeMets O'Brien-Fleming type bounds, five looks, one-sided 0.025 (DeMets and Lan 1994;
+		// Jennison and Turnbull 2000, chapter 7; recalled): 4.877 at the first look, 2.031 at the last.
+		{"interim p1=0.5 p2=0.3 looks=5", "looks.0.z", 4.877, 1e-4, "DeMets and Lan 1994"},
+		{"interim p1=0.5 p2=0.3 looks=5", "looks.4.z", 2.031, 2.5e-4, "DeMets and Lan 1994"},
+	})
+}
+
+func TestStagedDesignErrors(t *testing.T) {
+	t.Parallel()
+	for _, line := range []string{
+		"simon p1=0.25", "simon p0=0.3 p1=0.2", "simon 0/9 p0=0.05", "simon 0/9 2/17 p0=0.05 observed=3/12",
+		"simon 0/9 2/17 p0=0.05 observed=1/9", "simon 0/9 2/17 p0=0.05 level=90%", "simon p0=0.1 p1=0.3 upto=5000",
+		"interim p0=0.2 p1=0.4", "interim p0=0.2 p1=0.4 looks=15,x", "interim p0=0.2 p1=0.4 looks=15.5,30",
+		"interim p0=0.2 p1=0.4 looks=15,30 spend=linear", "interim p0=0.2 p1=0.4 looks=15,30 observed=3/20",
+		"interim p1=0.5 p2=0.3 looks=0.5,0.9", "interim p1=0.5 p2=0.3 looks=3 observed=3/20",
+	} {
+		if _, err := runErr(line); err == nil {
+			t.Errorf("%s: no error", line)
+		}
+	}
+}
