@@ -79,6 +79,12 @@ func (l SequentialLook) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(l))
 }
 
+// UnmarshalJSON decodes what MarshalJSON encodes.
+func (l *SequentialLook) UnmarshalJSON(b []byte) error {
+	type plain SequentialLook
+	return jsonfloat.Unmarshal(b, (*plain)(l))
+}
+
 // SequentialOneDesign is a group-sequential design for one proportion.
 type SequentialOneDesign struct {
 	P0    float64 `json:"p0"`    // success probability under H0
@@ -113,6 +119,12 @@ type SequentialOneDesign struct {
 func (d SequentialOneDesign) MarshalJSON() ([]byte, error) {
 	type plain SequentialOneDesign
 	return jsonfloat.Marshal(plain(d))
+}
+
+// UnmarshalJSON decodes what MarshalJSON encodes.
+func (d *SequentialOneDesign) UnmarshalJSON(b []byte) error {
+	type plain SequentialOneDesign
+	return jsonfloat.Unmarshal(b, (*plain)(d))
 }
 
 // StageLooks returns the design's stopping counts as the looks that

@@ -42,6 +42,12 @@ func (l SequentialTwoLook) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(l))
 }
 
+// UnmarshalJSON decodes what MarshalJSON encodes.
+func (l *SequentialTwoLook) UnmarshalJSON(b []byte) error {
+	type plain SequentialTwoLook
+	return jsonfloat.Unmarshal(b, (*plain)(l))
+}
+
 // SequentialTwoDesign is a group-sequential design comparing two
 // proportions with equal group sizes.
 type SequentialTwoDesign struct {
@@ -85,6 +91,12 @@ type SequentialTwoDesign struct {
 func (d SequentialTwoDesign) MarshalJSON() ([]byte, error) {
 	type plain SequentialTwoDesign
 	return jsonfloat.Marshal(plain(d))
+}
+
+// UnmarshalJSON decodes what MarshalJSON encodes.
+func (d *SequentialTwoDesign) UnmarshalJSON(b []byte) error {
+	type plain SequentialTwoDesign
+	return jsonfloat.Unmarshal(b, (*plain)(d))
 }
 
 // MaxExactTwoN is the largest final group size for which SequentialTwo

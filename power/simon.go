@@ -69,6 +69,12 @@ func (e TwoStageEval) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(e))
 }
 
+// UnmarshalJSON decodes what MarshalJSON encodes.
+func (e *TwoStageEval) UnmarshalJSON(b []byte) error {
+	type plain TwoStageEval
+	return jsonfloat.Unmarshal(b, (*plain)(e))
+}
+
 // EvaluateTwoStage returns the early-stopping probability, the expected
 // size and the rejection probability of design d at response
 // probability p:
@@ -122,6 +128,12 @@ func (d SimonDesign) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(d))
 }
 
+// UnmarshalJSON decodes what MarshalJSON encodes.
+func (d *SimonDesign) UnmarshalJSON(b []byte) error {
+	type plain SimonDesign
+	return jsonfloat.Unmarshal(b, (*plain)(d))
+}
+
 // SimonResult holds the designs Simon found.
 type SimonResult struct {
 	P0    float64 `json:"p0"`    // response probability under H0
@@ -148,6 +160,12 @@ type SimonResult struct {
 func (r SimonResult) MarshalJSON() ([]byte, error) {
 	type plain SimonResult
 	return jsonfloat.Marshal(plain(r))
+}
+
+// UnmarshalJSON decodes what MarshalJSON encodes.
+func (r *SimonResult) UnmarshalJSON(b []byte) error {
+	type plain SimonResult
+	return jsonfloat.Unmarshal(b, (*plain)(r))
 }
 
 // SimonOptions holds the knobs of Simon; the zero value means defaults.

@@ -2,9 +2,9 @@ package power
 
 import (
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/enum"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 	"gonum.org/v1/gonum/mathext"
 )
@@ -31,56 +31,26 @@ const (
 	PowerFamily
 )
 
-var spendingNames = [...]string{"O'Brien-Fleming", "Pocock", "power family"}
+var spendingNames = enum.New[Spending]("power.Spending", []string{"O'Brien-Fleming", "Pocock", "power family"},
+	map[string]Spending{"obf": OBrienFleming, "obrien-fleming": OBrienFleming, "power": PowerFamily, "rho": PowerFamily,
+		"kim-demets": PowerFamily})
 
 // String returns "O'Brien-Fleming", "Pocock" or "power family".
-func (s Spending) String() string {
-	if s < 0 || int(s) >= len(spendingNames) {
-		return "Spending(" + argerr.Format(int(s)) + ")"
-	}
-	return spendingNames[s]
-}
+func (s Spending) String() string { return spendingNames.String(s) }
 
 // MarshalText encodes the family by its String form.
-func (s Spending) MarshalText() ([]byte, error) {
-	if s < 0 || int(s) >= len(spendingNames) {
-		return nil, argerr.Invalid("power.Spending.MarshalText", "s", int(s), "is not a spending family")
-	}
-	return []byte(s.String()), nil
-}
+func (s Spending) MarshalText() ([]byte, error) { return spendingNames.MarshalText(s) }
 
 // UnmarshalText decodes a name accepted by ParseSpending.
-func (s *Spending) UnmarshalText(b []byte) error {
-	v, err := ParseSpending(string(b))
-	if err != nil {
-		return err
-	}
-	*s = v
-	return nil
-}
+func (s *Spending) UnmarshalText(b []byte) error { return spendingNames.UnmarshalText(s, b) }
 
 // ParseSpending accepts the String forms case-insensitively (with '_'
-// and ' ' read as '-'), and "obf", "obrien-fleming", "power" and "rho".
-func ParseSpending(s string) (Spending, error) {
-	f := strings.Map(func(r rune) rune {
-		if r == '_' || r == ' ' {
-			return '-'
-		}
-		return r
-	}, strings.ToLower(strings.TrimSpace(s)))
-	switch f {
-	case "o'brien-fleming", "obrien-fleming", "obf":
-		return OBrienFleming, nil
-	case "pocock":
-		return Pocock, nil
-	case "power-family", "power", "rho":
-		return PowerFamily, nil
-	}
-	return 0, argerr.Invalid("power.ParseSpending", "s", s, "is not a spending family; use O'Brien-Fleming, Pocock or power family")
-}
+// and ' ' read as '-'), and "obf", "obrien-fleming", "power", "rho" and
+// "kim-demets".
+func ParseSpending(s string) (Spending, error) { return spendingNames.Parse("power.ParseSpending", s) }
 
 // SpendingValues returns the spending families in order.
-func SpendingValues() []Spending { return []Spending{OBrienFleming, Pocock, PowerFamily} }
+func SpendingValues() []Spending { return spendingNames.Values() }
 
 // SpendingFunction is one error-spending function: a family and, for the
 // power family, its exponent.
@@ -96,9 +66,15 @@ func (f SpendingFunction) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(f))
 }
 
+// UnmarshalJSON decodes what MarshalJSON encodes.
+func (f *SpendingFunction) UnmarshalJSON(b []byte) error {
+	type plain SpendingFunction
+	return jsonfloat.Unmarshal(b, (*plain)(f))
+}
+
 func (f SpendingFunction) check(fn, arg string) error {
-	if f.Family < 0 || int(f.Family) >= len(spendingNames) {
-		return argerr.Invalid(fn, arg+".Family", int(f.Family), "is not a spending family")
+	if err := spendingNames.Check(fn, arg+".Family", f.Family); err != nil {
+		return err
 	}
 	if f.Family == PowerFamily && !(f.Rho > 0 && f.Rho <= 100) {
 		return argerr.Invalid(fn, arg+".Rho", f.Rho, "must lie in (0, 100] for the power family")

@@ -215,7 +215,7 @@ func runInterim(c *call) error {
 			return err
 		}
 		st := d.StageLooks()
-		r, err := test.StageWise(c.Ctx, st, look, k, p0, test.StageWiseOptions{Alternative: test.Greater, SkipInterval: true})
+		r, err := test.StageWise(c.Ctx, st, look, k, p0, test.StageWiseOptions{Alternative: test.Higher, SkipInterval: true})
 		if err != nil {
 			return err
 		}

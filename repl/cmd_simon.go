@@ -120,7 +120,7 @@ func runSimon(c *call) error {
 		if err != nil {
 			return err
 		}
-		r, err := test.StageWise(c.Ctx, d.Looks(), look, k, p0, test.StageWiseOptions{Alternative: test.Greater, SkipInterval: true})
+		r, err := test.StageWise(c.Ctx, d.Looks(), look, k, p0, test.StageWiseOptions{Alternative: test.Higher, SkipInterval: true})
 		if err != nil {
 			return err
 		}

@@ -44,7 +44,7 @@ type StageWiseOptions struct {
 // the one-sided bound for a one-sided alternative: it excludes p0 exactly
 // when PValue < 1 - Level.
 //
-// Result: Statistic is k ("k"), Estimate the maximum likelihood estimate
+// Result: Statistic is k (named "k"), Estimate the maximum likelihood estimate
 // k/N (biased after early stopping), Null p0, Method "stage-wise ordering
 // (exact)". Errors: invalid looks (see interval.Look), a look or count
 // that does not stop the study, p0 outside (0, 1). Accuracy: the tails
@@ -79,9 +79,9 @@ func StageWise(ctx context.Context, looks []interval.Look, look int, k int64, p0
 	}
 	var lp float64
 	switch opt.Alternative {
-	case Greater:
+	case Higher:
 		lp, err = tail(stagewise.UpperTail)
-	case Less:
+	case Lower:
 		lp, err = tail(stagewise.LowerTail)
 	default:
 		var u, l float64
@@ -97,22 +97,22 @@ func StageWise(ctx context.Context, looks []interval.Look, look int, k int64, p0
 		return Result{}, err
 	}
 	r := newResult("stage-wise ordering (exact)", opt.Alternative, lp)
-	r.Statistic, r.StatisticName = float64(k), "k"
+	r.Statistic = Statistic{Name: "k", Value: float64(k)}
 	r.Estimate = float64(k) / float64(looks[look-1].N)
 	r.Null = p0
 	if !opt.SkipInterval {
 		side := interval.TwoSided
 		switch opt.Alternative {
-		case Greater:
+		case Higher:
 			side = interval.LowerBound
-		case Less:
+		case Lower:
 			side = interval.UpperBound
 		}
 		iv, err := interval.StageWise(ctx, looks, look, k, interval.StageWiseOptions{Level: lvl, Side: side})
 		if err != nil {
 			return Result{}, err
 		}
-		r.Interval = &Interval{Lower: iv.Lower, Upper: iv.Upper, Level: lvl}
+		r.Interval = &iv
 	}
 	return r, nil
 }

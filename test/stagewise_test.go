@@ -37,7 +37,7 @@ func TestStageWiseSimonFormula(t *testing.T) {
 			b2 := binom.Dist{N: n - n1, P: p0}
 			check := func(look int, k int64, want float64) {
 				t.Helper()
-				res, err := test.StageWise(ctx, looks, look, k, p0, test.StageWiseOptions{Alternative: test.Greater, SkipInterval: true})
+				res, err := test.StageWise(ctx, looks, look, k, p0, test.StageWiseOptions{Alternative: test.Higher, SkipInterval: true})
 				if err != nil {
 					t.Fatal(err)
 				}
@@ -66,7 +66,7 @@ func TestStageWiseDuality(t *testing.T) {
 	// each limit).
 	ctx := context.Background()
 	looks := simonLooks(3, 13, 12, 43)
-	for _, alt := range []test.Alternative{test.TwoSided, test.Greater, test.Less} {
+	for _, alt := range []test.Alternative{test.TwoSided, test.Higher, test.Lower} {
 		for _, c := range []struct {
 			look int
 			k    int64
@@ -98,7 +98,7 @@ func TestStageWiseTinyPValue(t *testing.T) {
 	// 60 of 60 after a two-look design at p0 = 1e-6: the p-value
 	// P(all 60 succeed) = 1e-360 underflows, its logarithm does not.
 	looks := []interval.Look{{N: 30, Futility: 0, Efficacy: 31}, {N: 60, Futility: 59, Efficacy: 60}}
-	res, err := test.StageWise(context.Background(), looks, 2, 60, 1e-6, test.StageWiseOptions{Alternative: test.Greater, SkipInterval: true})
+	res, err := test.StageWise(context.Background(), looks, 2, 60, 1e-6, test.StageWiseOptions{Alternative: test.Higher, SkipInterval: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -126,7 +126,7 @@ func ExampleStageWise() {
 	// Invented: a pilot run with Simon's optimal design for p0 = 0.05,
 	// p1 = 0.25 (Simon 1989): 1 success in the first 9, 4 in all 17.
 	looks := []interval.Look{{N: 9, Futility: 0, Efficacy: 10}, {N: 17, Futility: 2, Efficacy: 3}}
-	r, err := test.StageWise(context.Background(), looks, 2, 4, 0.05, test.StageWiseOptions{Alternative: test.Greater})
+	r, err := test.StageWise(context.Background(), looks, 2, 4, 0.05, test.StageWiseOptions{Alternative: test.Higher})
 	if err != nil {
 		panic(err)
 	}
