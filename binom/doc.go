@@ -4,6 +4,20 @@
 // so that tail probabilities far below the smallest double (ln P = -1e5
 // and beyond) stay finite and accurate.
 //
+// In use (an invented inspection of 20 parts at a 10% defect rate):
+//
+//	d, err := binom.New(20, 0.1)
+//	if err != nil {
+//		return err // names the bad argument: binom.New: p = 1.5 ...
+//	}
+//	fmt.Println(d.Prob(2), d.Survival(4), d.LogSurvival(19)) // P(X = 2), P(X > 4), ln P(X > 19)
+//
+// Every function and value of the package is safe for concurrent use: the
+// distributions are small immutable values and no call keeps state
+// (Rand draws from the *rand.Rand it is given, or from math/rand/v2's
+// top-level generator, which is safe). FloatDist adapts a Dist to
+// gonum's distuv interfaces.
+//
 // A binomial X (Dist, built by New) counts the successes in N independent
 // trials, each a success with probability P. The sample proportion X/N is
 // the usual estimate of P; Dist.ProportionWithin gives the exact
@@ -26,7 +40,9 @@
 // predictive distribution of future successes under a Beta prior or
 // posterior, which the Bayesian summaries of interval, test and power use.
 //
-// Methods and sources:
+// # Sources
+//
+// The methods and where they come from:
 //   - binomial PMF by the saddle-point form of Loader C (2000), "Fast and
 //     accurate computation of binomial probabilities", with its deviance
 //     (bd0) and Stirling-error terms, never by differences of lgamma;

@@ -6,6 +6,17 @@
 // exact coverage and expected width of any one-proportion method
 // (Coverage, CoverageCurve, CoverageOverN).
 //
+// In use (an invented sign-up test: 17 of 40 visitors converted):
+//
+//	iv, err := interval.Proportion(17, 40, interval.Options{Method: interval.Wilson, Level: 0.95})
+//	if err != nil {
+//		return err // names the bad argument: interval.Proportion: k = 41 exceeds n = 40
+//	}
+//	fmt.Printf("%s %.0f%%: [%.3f, %.3f]\n", iv.Method, 100*iv.Level, iv.Lower, iv.Upper)
+//
+// Every function and value of the package is safe for concurrent use: the
+// functions keep no state and the results are plain values.
+//
 // # Coverage
 //
 // A 95% interval method promises that, over repeated samples, 95% of its
@@ -72,6 +83,19 @@
 // tests by inversion (the test's p-value at the limit equals the tail
 // probability to 1e-10) and against SciPy and mpmath goldens to 1e-12
 // relative. See the Proportion doc for the known limits at n above 1e10.
+//
+// # Sources
+//
+// Brown LD, Cai TT, DasGupta A (2001), Statistical Science 16:101-133;
+// Newcombe RG (1998), Statistics in Medicine 17:857-872 (one proportion)
+// and 17:873-890 (difference); Clopper CJ, Pearson ES (1934), Biometrika
+// 26:404-413; Wilson EB (1927), JASA 22:209-212; Agresti A, Coull BA
+// (1998), The American Statistician 52:119-126; Blaker H (2000), Canadian
+// Journal of Statistics 28:783-798; Miettinen O, Nurminen M (1985),
+// Statistics in Medicine 4:213-226; Koopman PAR (1984), Biometrics
+// 40:513-517; Cornfield J (1956), Proceedings of the Third Berkeley
+// Symposium 4:135-148; Tango T (1998), Statistics in Medicine 17:891-908.
+// Each function's comment names the source of its method.
 //
 // # Caution
 //

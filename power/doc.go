@@ -5,6 +5,20 @@
 // default wherever the discreteness of binomial data matters; the
 // textbook normal approximations are offered beside them for comparison.
 //
+// In use (an invented plan: detect a rise of a 5% error rate to 10%):
+//
+//	r, err := power.TwoSampleNormalN(0.05, 0.10, power.TwoSampleOptions{Alpha: 0.05, Power: 0.80})
+//	if err != nil {
+//		return err // names the bad argument: power.TwoSampleNormalN: p1 = 1.2 ...
+//	}
+//	fmt.Println(r.N, "per group by", r.Method)
+//
+// Every function and value of the package is safe for concurrent use: the
+// functions keep no state (searches take a context.Context) and the
+// results are plain values. The options name the test package's words
+// (test.Alternative, test.TwoSidedRule, MidP, test.McNemarMethod), so a
+// plan names the test that test will run with the same values.
+//
 // # Power and the sawtooth
 //
 // The power of a test is the probability that it rejects the null
@@ -96,6 +110,16 @@
 // return ErrNoSolution with the reason. Bad arguments return
 // ErrInvalidArgument naming the argument. Results marshal to JSON with
 // non-finite numbers written as strings.
+//
+// # Sources
+//
+// Fleiss JL (1981), Statistical Methods for Rates and Proportions, 2nd
+// ed.; Casagrande JT, Pike MC, Smith PG (1978), Biometrics 34:483-486;
+// Fleiss JL, Tytun A, Ury HK (1980), Biometrics 36:343-346; Connor RJ
+// (1987), Biometrics 43:207-211; Chernick MR, Liu CY (2002), The American
+// Statistician 56:149-155; Montgomery DC, Introduction to Statistical
+// Quality Control; Hanley JA, Lippman-Hand A (1983), JAMA 249:1743-1745.
+// Each function's comment names the source of its method.
 //
 // # Caution
 //

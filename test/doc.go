@@ -2,6 +2,20 @@
 // successes in n trials), two independent samples (k1 of n1 against k2 of
 // n2), differences and ratios against a margin, and paired data.
 //
+// In use (an invented comparison: 7 of 15 infected with a new treatment,
+// 12 of 15 without it):
+//
+//	r, err := test.Fisher(7, 15, 12, 15, test.FisherOptions{Alternative: test.Lower})
+//	if err != nil {
+//		return err // names the bad argument: test.Fisher: k1 = 16 exceeds n1 = 15
+//	}
+//	fmt.Printf("%s, %s: p = %.4f\n", r.Method, r.Alternative, r.PValue)
+//
+// Every function and value of the package is safe for concurrent use: the
+// functions keep no state and the results are plain values. The words of
+// a hypothesis (Alternative, TwoSidedRule, MidP, Level, Alpha) are the
+// same in interval, test, power and the shell.
+//
 // # Entry points
 //
 //   - Binomial: H0 P = p0 for one sample; exact tests (point-probability,
