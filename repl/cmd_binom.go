@@ -223,10 +223,21 @@ func runTail(c *call) error {
 	tok := a.Pos(0)
 	if a.Len() == 0 {
 		// tail k=K n=N p=P
-		if err := a.Need("k", "n"); err != nil {
+		if !a.Has("k") || !a.Has("n") {
 			return &InputError{Token: "tail", Reason: "needs the count K/N (or k= and n=); usage: " + a.cmd.Usage}
 		}
-		tok = a.Str("k", "") + "/" + a.Str("n", "")
+		k, err := a.Count("k", 0)
+		if err != nil {
+			return err
+		}
+		n, err := a.Count("n", 0)
+		if err != nil {
+			return err
+		}
+		if k > n {
+			return inputErr("k="+a.Str("k", ""), "exceeds n="+a.Str("n", "")+": more successes than trials")
+		}
+		tok = count(k) + "/" + count(n)
 	} else if a.Has("k") || a.Has("n") {
 		return inputErr(tok, "gives the count twice: write K/N or k= n=, not both")
 	}

@@ -166,34 +166,40 @@ func runEquiv(c *call) error {
 	if err != nil {
 		return err
 	}
-	word := scale + "=" + raw
-	var los, his string
+	var lo, hi float64
 	switch scale {
 	case "margin":
 		m, err := parseFloat(raw)
 		if err != nil || !(m > 0 && m < 1) {
-			return inputErr(word, "must be a number strictly between 0 and 1: the range is -margin to margin")
+			return inputErr("margin="+raw, "must be a number strictly between 0 and 1: the range is -margin to margin")
 		}
-		los, his, scale = "-"+raw, raw, "diff"
+		lo, hi, scale = -m, m, "diff"
 	case "lo":
-		los, his, scale = a.Str("lo", ""), a.Str("hi", ""), "diff"
-		word = "lo=" + los + " hi=" + his
+		if lo, err = a.Float("lo", 0); err != nil {
+			return err
+		}
+		if hi, err = a.Float("hi", 0); err != nil {
+			return err
+		}
+		if lo >= hi {
+			return inputErr("hi="+a.Str("hi", ""), "is not above lo="+a.Str("lo", "")+"; the range is empty")
+		}
+		scale = "diff"
 	default:
-		var ok bool
-		if los, his, ok = strings.Cut(raw, ".."); !ok {
+		word := scale + "=" + raw
+		los, his, ok := strings.Cut(raw, "..")
+		if !ok {
 			return inputErr(word, "is not a range; write low..high, like -0.1..0.1")
 		}
-	}
-	lo, err := parseFloat(los)
-	if err != nil {
-		return inputErr(word, "starts with "+los+", which "+reasonOf(err))
-	}
-	hi, err := parseFloat(his)
-	if err != nil {
-		return inputErr(word, "ends with "+his+", which "+reasonOf(err))
-	}
-	if lo >= hi {
-		return inputErr(word, "is an empty range; write low..high")
+		if lo, err = parseFloat(los); err != nil {
+			return inputErr(word, "starts with "+los+", which "+reasonOf(err))
+		}
+		if hi, err = parseFloat(his); err != nil {
+			return inputErr(word, "ends with "+his+", which "+reasonOf(err))
+		}
+		if lo >= hi {
+			return inputErr(word, "is an empty range; write low..high")
+		}
 	}
 	m, err := c.Method()
 	if err != nil {

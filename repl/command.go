@@ -24,9 +24,9 @@ type command struct {
 
 // opt documents one name=value option.
 type opt struct {
-	Name   string
-	Doc    string
-	Values []string // fixed choices, for completion; nil for free values
+	Name   string   `json:"name"`
+	Doc    string   `json:"doc"`
+	Values []string `json:"values,omitempty"` // fixed choices, for completion; nil for free values
 }
 
 // helpText is the per-command help page.

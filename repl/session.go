@@ -43,7 +43,12 @@ type Session struct {
 	script      bool   // prefix errors with the line number
 	interactive bool   // at a terminal prompt
 	lineNo      int
+	jsonOnce    bool // --json on the line being run
 }
+
+// jsonOut reports whether results print as JSON: the json setting, or
+// --json on the line being run.
+func (s *Session) jsonOut() bool { return s.Set.JSON || s.jsonOnce }
 
 // NewSession returns a session with default settings writing results to
 // out and error lines to errw, with standard input as the data of
@@ -62,10 +67,11 @@ func (s *Session) Run(ctx context.Context, line string) error {
 	if len(words) == 0 {
 		return nil
 	}
-	if once && !s.Set.JSON && !strings.EqualFold(words[0], "set") {
-		// --json anywhere on the line: this command's result as JSON.
-		s.Set.JSON = true
-		defer func() { s.Set.JSON = false }()
+	if once && !s.jsonOnce {
+		// --json anywhere on the line: this command's result as JSON,
+		// without touching the json setting.
+		s.jsonOnce = true
+		defer func() { s.jsonOnce = false }()
 	}
 	c, err := s.exec(ctx, line, words)
 	if err != nil {
@@ -121,7 +127,7 @@ func (s *Session) report(verb string, err error) {
 	if errors.Is(err, context.Canceled) && s.interactive {
 		msg = "\n" + msg // after the ^C the terminal echoed
 	}
-	if s.Set.JSON {
+	if s.jsonOut() {
 		b, _ := jsonfloat.Marshal(struct {
 			Command string `json:"command"`
 			Error   string `json:"error"`
@@ -141,7 +147,7 @@ func (s *Session) report(verb string, err error) {
 // print writes the call's output as text blocks and plots, or as one JSON
 // object {"command": verb, "input": line, "result": data}.
 func (s *Session) print(verb string, c *call) {
-	if s.Set.JSON {
+	if s.jsonOut() {
 		if c.data == nil {
 			return
 		}

@@ -62,7 +62,7 @@ func runTour(c *call) error {
 	}
 	s := c.S
 	for i, st := range tourSteps(s.cmds) {
-		if !s.Set.JSON {
+		if !s.jsonOut() {
 			if i > 0 {
 				io.WriteString(s.Out, "\n")
 			}
@@ -72,7 +72,7 @@ func runTour(c *call) error {
 			return err
 		}
 	}
-	if !s.Set.JSON {
+	if !s.jsonOut() {
 		io.WriteString(s.Out, "\n"+strings.TrimSpace(wrapText("That is the whole job: distribution, interval, comparison, plan. "+
 			"The data were invented. help NAME explains any command. "+caution, max(50, s.Set.Width), ""))+"\n")
 	}
