@@ -21,7 +21,7 @@
 // A binomial X (Dist, built by New) counts the successes in N independent
 // trials, each a success with probability P. The sample proportion X/N is
 // the usual estimate of P; Dist.ProportionWithin gives the exact
-// probability that it lands within a distance eps of the truth, with the
+// probability that it lands within a half-width of the truth, with the
 // boundaries decided on the decimals the caller wrote (P = 0.3, eps = 0.1
 // include k/N = 0.4 exactly), which is what sample-size planning for a
 // stated precision needs.
