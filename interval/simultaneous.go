@@ -140,7 +140,7 @@ func Multinomial(counts []int64, opt MultinomialOptions) (Family, error) {
 		N += c
 	}
 	if N == 0 {
-		return Family{}, argerr.Invalid(fn, "counts", "all 0", "hold no observation")
+		return Family{}, argerr.Invalid(fn, "", nil, "every count is 0; the intervals need at least one observation")
 	}
 	lev := opt.Level
 	if lev == 0 {

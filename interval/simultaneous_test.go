@@ -200,7 +200,7 @@ func TestMultinomialErrors(t *testing.T) {
 	}{
 		{[]int64{3}, MultinomialOptions{}, "at least 2"},
 		{[]int64{3, -1}, MultinomialOptions{}, "counts[1] = -1"},
-		{[]int64{0, 0}, MultinomialOptions{}, "no observation"},
+		{[]int64{0, 0}, MultinomialOptions{}, "every count is 0"},
 		{[]int64{1, 2}, MultinomialOptions{Level: 1}, "Level = 1"},
 		{[]int64{1, 2}, MultinomialOptions{Method: 5}, "Method = 5"},
 	} {

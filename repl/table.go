@@ -21,12 +21,16 @@ var commandTable = []func() *command{
 	oddsCommand,
 	pairsCommand,
 	coverCommand,
+	sharesCommand,
 	// tests
 	checkCommand,
 	flipsCommand,
 	versusCommand,
 	noninfCommand,
 	equivCommand,
+	armsCommand,
+	splitCommand,
+	familyCommand,
 	// planning
 	detectCommand,
 	sizeCommand,

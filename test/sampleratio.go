@@ -166,7 +166,7 @@ func SampleRatio(ctx context.Context, counts []int64, weights []float64, opt Sam
 		wsum += weights[j]
 	}
 	if N == 0 {
-		return SampleRatioResult{}, argerr.Invalid(fn, "counts", "all 0", "hold no unit; the check needs at least one")
+		return SampleRatioResult{}, argerr.Invalid(fn, "", nil, "every count is 0; the check needs at least one unit")
 	}
 	pi := make([]float64, k)
 	r := SampleRatioResult{Method: opt.Method.String(), Alpha: alpha, Arms: make([]ArmShare, k)}
