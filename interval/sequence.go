@@ -89,7 +89,7 @@ func lbeta(x, y float64) float64 {
 // (a, b) the shapes at p.
 func (m Mixture) logM(k, n, p float64) float64 {
 	a, b := m.shapes(p)
-	v := lbeta(a+k, b+n-k) - lbeta(a, b)
+	v := lbeta(a+k, b+(n-k)) - lbeta(a, b)
 	if k > 0 {
 		v -= k * math.Log(p)
 	}
@@ -112,7 +112,16 @@ func (m Mixture) lower(k, n, t float64) float64 {
 		return 0
 	}
 	hat := k / n
-	h := func(p float64) float64 { return t - m.logM(k, n, p) } // > 0 inside
+	h := func(p float64) float64 { // > 0 inside
+		if p >= 1 {
+			// k = n: at p = 1 the centred prior is a point mass at 1 and
+			// M_n(1) = 1 (its limit); the fixed prior's value is finite
+			if m.Centered {
+				return t
+			}
+		}
+		return t - m.logM(k, n, p)
+	}
 	in, out := hat, hat
 	for {
 		out = in * 0.8408964152537145 // 2^(-1/4)
@@ -291,10 +300,11 @@ func sequenceMixture(fn string, level float64, opt SequenceOptions) (Mixture, er
 // is SequenceMethod, Parameter "p", Estimate k/n (NaN for n = 0, with the
 // interval [0, 1]). level 0 means 0.95.
 //
-// Accuracy: limits to about 1e-15 relative where ln M_n is exact; ln M_n
-// has absolute error about 1e-16 (n ln n), 1e-9 at n = 1e6, which moves
-// the limits by a relative 1e-12 or less. Cost O(1) in n: a short scan and
-// a bracketed root search per limit, about 3 us; the tuned concentration
+// Accuracy: ln M_n is a difference of log-gamma values of size n ln n,
+// so it carries an absolute error of about 1e-16 n ln n (1e-10 at n =
+// 1e5); the limits agree with a 40-digit evaluation to 1e-11 relative up
+// to n = 1e5 (tested), closer at smaller n. Cost O(1) in n: a short scan and
+// a bracketed root search per limit, about 4 us (10 us at n = 1e9); the tuned concentration
 // is computed once per (level, PlannedN, PlannedP), about 2 ms.
 //
 // Sources: Robbins H (1970), Statistical methods related to the law of
@@ -380,7 +390,7 @@ const MaxSequenceHorizon = 1_000_000
 // set as the limits, up to rounding at exact ties).
 //
 // Accuracy: sums of nonnegative terms, about 1e-13 relative. Cost
-// O(horizon^1.5): horizon 10000 at p = 1/2 takes about 20 ms. horizon
+// O(horizon^1.5): horizon 10000 at p = 1/2 takes about 40 ms. horizon
 // is limited to MaxSequenceHorizon; ctx is checked every 256 steps.
 //
 // Domain: p in (0, 1), horizon >= 1, level and opt as ConfidenceSequence.

@@ -1,0 +1,95 @@
+package power
+
+import (
+	"context"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
+	"github.com/kofnlab/kofn/test"
+)
+
+// Source of every table here: testdata/sequential_golden.tsv, written by
+// testdata/gen/sequential_golden.py (dense LAPACK solves of the CUSUM
+// Markov chain through NumPy 1.24.2, and a recursion over the full range
+// of k for the truncated SPRT), independent of the code under test.
+
+func goldenChart(t *testing.T, r golden.Row) CUSUM {
+	t.Helper()
+	shift, err := ParseShift(r.Str(3))
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := newChart("test", r.Float(1), r.Float(2), CUSUMOptions{Shift: shift, Unit: r.Int(4)})
+	if err != nil {
+		t.Fatalf("%s: %v", r.Pos(), err)
+	}
+	if c.Ref != r.Int(5) {
+		t.Fatalf("%s: Ref = %d, want %d", r.Pos(), c.Ref, r.Int(5))
+	}
+	return c
+}
+
+func TestCUSUMRunLengthGolden(t *testing.T) {
+	t.Parallel()
+	n := 0
+	for _, r := range golden.Read(t, "../testdata/sequential_golden.tsv") {
+		switch r.Str(0) {
+		case "cusum":
+			c := goldenChart(t, r)
+			c.Threshold = r.Int(6)
+			got, err := CUSUMRunLength(context.Background(), c, r.Float(7))
+			if err != nil {
+				t.Fatalf("%s: %v", r.Pos(), err)
+			}
+			want := []float64{r.Float(8), r.Float(9)}
+			if diff := cmp.Diff(want, []float64{got.ARL, got.SDRL}, cmpopts.EquateApprox(1e-10, 0)); diff != "" {
+				t.Errorf("%s: ARL, SDRL (-want +got)\n%s", r.Pos(), diff)
+			}
+			n++
+		case "cusumh":
+			shift, _ := ParseShift(r.Str(3))
+			c, rl, err := CUSUMForARL(context.Background(), r.Float(1), r.Float(2), r.Float(6), CUSUMOptions{Shift: shift, Unit: r.Int(4)})
+			if err != nil {
+				t.Fatalf("%s: %v", r.Pos(), err)
+			}
+			if c.Threshold != r.Int(7) {
+				t.Errorf("%s: Threshold = %d, want %d", r.Pos(), c.Threshold, r.Int(7))
+			}
+			if diff := cmp.Diff(r.Float(8), rl.ARL, cmpopts.EquateApprox(1e-10, 0)); diff != "" {
+				t.Errorf("%s: ARL0 (-want +got)\n%s", r.Pos(), diff)
+			}
+			n++
+		}
+	}
+	if n < 30 {
+		t.Fatalf("only %d CUSUM rows", n)
+	}
+}
+
+func TestSPRTOperatingGolden(t *testing.T) {
+	t.Parallel()
+	n := 0
+	for _, r := range golden.Read(t, "../testdata/sequential_golden.tsv") {
+		if r.Str(0) != "sprt" {
+			continue
+		}
+		s, err := test.NewSPRT(r.Float(1), r.Float(2), r.Float(3), r.Float(4), test.SPRTOptions{MaxN: r.Int(5)})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, err := SPRTOperating(context.Background(), s, r.Float(6))
+		if err != nil {
+			t.Fatalf("%s: %v", r.Pos(), err)
+		}
+		want := []float64{r.Float(7), r.Float(8), r.Float(9)}
+		if diff := cmp.Diff(want, []float64{got.Accept, got.Reject, got.ASN}, cmpopts.EquateApprox(1e-11, 0)); diff != "" {
+			t.Errorf("%s: accept, reject, ASN (-want +got)\n%s", r.Pos(), diff)
+		}
+		n++
+	}
+	if n < 10 {
+		t.Fatalf("only %d SPRT rows", n)
+	}
+}
