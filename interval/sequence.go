@@ -65,6 +65,12 @@ func (m Mixture) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(m))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (m *Mixture) UnmarshalJSON(b []byte) error {
+	type plain Mixture
+	return jsonfloat.Unmarshal(b, (*plain)(m))
+}
+
 // shapes returns the Beta shapes the mixture uses at the tested p.
 func (m Mixture) shapes(p float64) (float64, float64) {
 	if m.Centered {

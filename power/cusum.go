@@ -3,9 +3,9 @@ package power
 import (
 	"context"
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/enum"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 	"github.com/kofnlab/kofn/internal/root"
 )
@@ -22,48 +22,23 @@ const (
 	Decrease              // the rate falls from P0 to P1 < P0
 )
 
-var shiftNames = [...]string{"increase", "decrease"}
+var shiftNames = enum.New[Shift]("power.Shift", []string{"increase", "decrease"}, nil)
 
 // String returns "increase" or "decrease".
-func (s Shift) String() string {
-	if s < Increase || s > Decrease {
-		return "Shift(" + argerr.Format(int(s)) + ")"
-	}
-	return shiftNames[s]
-}
+func (s Shift) String() string { return shiftNames.String(s) }
 
 // MarshalText encodes the direction by its name.
-func (s Shift) MarshalText() ([]byte, error) {
-	if s < Increase || s > Decrease {
-		return nil, argerr.Invalid("power.Shift.MarshalText", "s", int(s), "is not a shift")
-	}
-	return []byte(s.String()), nil
-}
+func (s Shift) MarshalText() ([]byte, error) { return shiftNames.MarshalText(s) }
 
 // UnmarshalText decodes a name accepted by ParseShift.
-func (s *Shift) UnmarshalText(b []byte) error {
-	v, err := ParseShift(string(b))
-	if err != nil {
-		return err
-	}
-	*s = v
-	return nil
-}
+func (s *Shift) UnmarshalText(b []byte) error { return shiftNames.UnmarshalText(s, b) }
 
 // ParseShift returns the direction named s ("increase" or "decrease",
 // ignoring case).
-func ParseShift(s string) (Shift, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "increase":
-		return Increase, nil
-	case "decrease":
-		return Decrease, nil
-	}
-	return 0, argerr.Invalid("power.ParseShift", "s", s, "is not a shift; use increase or decrease")
-}
+func ParseShift(s string) (Shift, error) { return shiftNames.Parse("power.ParseShift", s) }
 
 // ShiftValues returns the directions in order.
-func ShiftValues() []Shift { return []Shift{Increase, Decrease} }
+func ShiftValues() []Shift { return shiftNames.Values() }
 
 // MaxCUSUMUnit is the largest denominator of the chart's reference value.
 const MaxCUSUMUnit = 100000
@@ -123,6 +98,12 @@ type CUSUM struct {
 func (c CUSUM) MarshalJSON() ([]byte, error) {
 	type plain CUSUM
 	return jsonfloat.Marshal(plain(c))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (c *CUSUM) UnmarshalJSON(b []byte) error {
+	type plain CUSUM
+	return jsonfloat.Unmarshal(b, (*plain)(c))
 }
 
 // CUSUMOptions are the options of NewCUSUM and CUSUMForARL; the zero
@@ -293,6 +274,12 @@ type RunLength struct {
 func (r RunLength) MarshalJSON() ([]byte, error) {
 	type plain RunLength
 	return jsonfloat.Marshal(plain(r))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (r *RunLength) UnmarshalJSON(b []byte) error {
+	type plain RunLength
+	return jsonfloat.Unmarshal(b, (*plain)(r))
 }
 
 // CUSUMRunLength returns the exact average run length (and its standard

@@ -71,6 +71,12 @@ func (r SPRTOperatingPoint) MarshalJSON() ([]byte, error) {
 	return jsonfloat.Marshal(plain(r))
 }
 
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (r *SPRTOperatingPoint) UnmarshalJSON(b []byte) error {
+	type plain SPRTOperatingPoint
+	return jsonfloat.Unmarshal(b, (*plain)(r))
+}
+
 // SPRTOperating returns the exact operating characteristic and expected
 // sample number of the SPRT s when the success probability is p, beside
 // Wald's approximations.

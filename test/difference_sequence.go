@@ -2,9 +2,9 @@ package test
 
 import (
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/enum"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 	"github.com/kofnlab/kofn/interval"
 )
@@ -36,48 +36,29 @@ const (
 	NormalMixtureSequence
 )
 
-var sequenceMethodNames = [...]string{"product of beta-binomial mixtures", "normal mixture SPRT"}
+var sequenceMethodNames = enum.New[SequenceMethod]("test.SequenceMethod",
+	[]string{"product of beta-binomial mixtures", "normal mixture SPRT"},
+	map[string]SequenceMethod{"product": ProductSequence, "normal": NormalMixtureSequence, "mixture": NormalMixtureSequence})
 
 // String returns "product of beta-binomial mixtures" or "normal mixture SPRT".
-func (m SequenceMethod) String() string {
-	return enumName(int(m), sequenceMethodNames[:], "SequenceMethod")
-}
+func (m SequenceMethod) String() string { return sequenceMethodNames.String(m) }
 
 // MarshalText encodes the method by its name.
-func (m SequenceMethod) MarshalText() ([]byte, error) {
-	if m < ProductSequence || m > NormalMixtureSequence {
-		return nil, argerr.Invalid("test.SequenceMethod.MarshalText", "m", int(m), "is not a sequence method")
-	}
-	return []byte(m.String()), nil
-}
+func (m SequenceMethod) MarshalText() ([]byte, error) { return sequenceMethodNames.MarshalText(m) }
 
 // UnmarshalText decodes a name accepted by ParseSequenceMethod.
 func (m *SequenceMethod) UnmarshalText(b []byte) error {
-	v, err := ParseSequenceMethod(string(b))
-	if err != nil {
-		return err
-	}
-	*m = v
-	return nil
+	return sequenceMethodNames.UnmarshalText(m, b)
 }
 
 // ParseSequenceMethod returns the method whose String() is s, ignoring case;
 // "product" and "normal" are accepted as short forms.
 func ParseSequenceMethod(s string) (SequenceMethod, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "product":
-		return ProductSequence, nil
-	case "normal", "mixture":
-		return NormalMixtureSequence, nil
-	}
-	i, err := parseEnum("test.ParseSequenceMethod", s, sequenceMethodNames[:], "", "a sequence method (product or normal)")
-	return SequenceMethod(i), err
+	return sequenceMethodNames.Parse("test.ParseSequenceMethod", s)
 }
 
 // SequenceMethodValues returns the methods in order.
-func SequenceMethodValues() []SequenceMethod {
-	return []SequenceMethod{ProductSequence, NormalMixtureSequence}
-}
+func SequenceMethodValues() []SequenceMethod { return sequenceMethodNames.Values() }
 
 // DifferenceSequenceOptions are the options of NewDifferenceSequence; the
 // zero value is the exact product method with the default priors, tuned
@@ -139,6 +120,18 @@ type DifferenceSequence struct {
 	Mix interval.Mixture `json:"mixture"`
 }
 
+// MarshalJSON encodes the value with non-finite floats as strings.
+func (s DifferenceSequence) MarshalJSON() ([]byte, error) {
+	type plain DifferenceSequence
+	return jsonfloat.Marshal(plain(s))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (s *DifferenceSequence) UnmarshalJSON(b []byte) error {
+	type plain DifferenceSequence
+	return jsonfloat.Unmarshal(b, (*plain)(s))
+}
+
 // DifferenceLook is the state of a DifferenceSequence after a look.
 type DifferenceLook struct {
 	N1 int64 `json:"n1"`
@@ -166,6 +159,12 @@ type DifferenceLook struct {
 func (l DifferenceLook) MarshalJSON() ([]byte, error) {
 	type plain DifferenceLook
 	return jsonfloat.Marshal(plain(l))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (l *DifferenceLook) UnmarshalJSON(b []byte) error {
+	type plain DifferenceLook
+	return jsonfloat.Unmarshal(b, (*plain)(l))
 }
 
 // TunedTau2 returns the mixing variance of the normal mixture method

@@ -34,6 +34,18 @@ type MixtureSequence struct {
 	Mix   interval.Mixture `json:"mixture"`
 }
 
+// MarshalJSON encodes the value with non-finite floats as strings.
+func (s MixtureSequence) MarshalJSON() ([]byte, error) {
+	type plain MixtureSequence
+	return jsonfloat.Marshal(plain(s))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (s *MixtureSequence) UnmarshalJSON(b []byte) error {
+	type plain MixtureSequence
+	return jsonfloat.Unmarshal(b, (*plain)(s))
+}
+
 // MixtureLook is the state of a MixtureSequence after a look.
 type MixtureLook struct {
 	N int64 `json:"n"` // trials so far
@@ -60,6 +72,12 @@ type MixtureLook struct {
 func (l MixtureLook) MarshalJSON() ([]byte, error) {
 	type plain MixtureLook
 	return jsonfloat.Marshal(plain(l))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (l *MixtureLook) UnmarshalJSON(b []byte) error {
+	type plain MixtureLook
+	return jsonfloat.Unmarshal(b, (*plain)(l))
 }
 
 // NewMixtureSequence returns the always-valid test of H0: p = p0 at level

@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/enum"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 )
 
@@ -20,37 +21,24 @@ const (
 	AcceptNull                 // the lower boundary is crossed: accept H0 (reject H1)
 )
 
-var decisionNames = [...]string{"continue", "reject H0", "accept H0"}
+var decisionNames = enum.New[Decision]("test.Decision", []string{"continue", "reject H0", "accept H0"},
+	map[string]Decision{"reject": RejectNull, "accept": AcceptNull})
 
 // String returns "continue", "reject H0" or "accept H0".
-func (d Decision) String() string { return enumName(int(d), decisionNames[:], "Decision") }
+func (d Decision) String() string { return decisionNames.String(d) }
 
 // MarshalText encodes the decision by its name.
-func (d Decision) MarshalText() ([]byte, error) {
-	if d < Continue || d > AcceptNull {
-		return nil, argerr.Invalid("test.Decision.MarshalText", "d", int(d), "is not a decision")
-	}
-	return []byte(d.String()), nil
-}
+func (d Decision) MarshalText() ([]byte, error) { return decisionNames.MarshalText(d) }
 
 // UnmarshalText decodes a name accepted by ParseDecision.
-func (d *Decision) UnmarshalText(b []byte) error {
-	v, err := ParseDecision(string(b))
-	if err != nil {
-		return err
-	}
-	*d = v
-	return nil
-}
+func (d *Decision) UnmarshalText(b []byte) error { return decisionNames.UnmarshalText(d, b) }
 
-// ParseDecision returns the decision whose String() is s, ignoring case.
-func ParseDecision(s string) (Decision, error) {
-	i, err := parseEnum("test.ParseDecision", s, decisionNames[:], "", "a decision")
-	return Decision(i), err
-}
+// ParseDecision returns the decision whose String() is s, ignoring case;
+// "reject" and "accept" are accepted too.
+func ParseDecision(s string) (Decision, error) { return decisionNames.Parse("test.ParseDecision", s) }
 
 // DecisionValues returns the decisions in order.
-func DecisionValues() []Decision { return []Decision{Continue, RejectNull, AcceptNull} }
+func DecisionValues() []Decision { return decisionNames.Values() }
 
 // SPRTOptions are the options of NewSPRT and NewPairedSPRT; the zero value
 // is the untruncated test.
@@ -129,6 +117,12 @@ type DecisionLines struct {
 func (s SPRT) MarshalJSON() ([]byte, error) {
 	type plain SPRT
 	return jsonfloat.Marshal(plain(s))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (s *SPRT) UnmarshalJSON(b []byte) error {
+	type plain SPRT
+	return jsonfloat.Unmarshal(b, (*plain)(s))
 }
 
 // NewSPRT returns Wald's SPRT of H0: p = p0 against H1: p = p1.
@@ -262,6 +256,12 @@ type SPRTLook struct {
 func (l SPRTLook) MarshalJSON() ([]byte, error) {
 	type plain SPRTLook
 	return jsonfloat.Marshal(plain(l))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (l *SPRTLook) UnmarshalJSON(b []byte) error {
+	type plain SPRTLook
+	return jsonfloat.Unmarshal(b, (*plain)(l))
 }
 
 // Decide returns the SPRT's state after k successes in n observations
