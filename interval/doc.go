@@ -17,6 +17,16 @@
 // Every function and value of the package is safe for concurrent use: the
 // functions keep no state and the results are plain values.
 //
+// # Watching counts as they arrive
+//
+// ConfidenceSequence is the time-uniform interval for one proportion from
+// the beta-binomial mixture martingale (Robbins 1970; Howard, Ramdas,
+// McAuliffe, Sekhon 2021): the probability that it ever excludes the true
+// p, at any n, is at most 1 - Level, so it may be read after every
+// observation and the watching stopped at any look. A fixed-n interval
+// re-read at every look has no such guarantee. SequenceErrorProb computes
+// the exact probability of ever missing p up to a horizon.
+//
 // # Coverage
 //
 // A 95% interval method promises that, over repeated samples, 95% of its

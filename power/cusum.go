@@ -293,7 +293,10 @@ func (r *RunLength) UnmarshalJSON(b []byte) error {
 // banded (Ref below, Unit - Ref above the diagonal for an increase) and
 // an M-matrix, so Gaussian elimination without pivoting is stable; cost
 // O(Threshold Ref (Unit - Ref)) operations and O(Threshold Unit) memory,
-// limited by MaxCUSUMWork. ctx is checked every 1024 rows.
+// limited by MaxCUSUMWork: measured 0.4 ms for P0 = 0.3, P1 = 0.4, h = 8
+// (344 states), 5 ms for 0.01 to 0.02, h = 5 (345 states, jump 68) and
+// 64 ms for 0.001 to 0.002, h = 5 (3465 states, jump 692) on one core.
+// ctx is checked every 1024 rows.
 //
 // Accuracy: about 1e-12 relative for the ARL (the solve of an M-matrix
 // system with nonnegative solution).

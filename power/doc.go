@@ -100,6 +100,18 @@
 // Introduction to Statistical Quality Control, chapter on acceptance
 // sampling (single sampling plans, OC curves, rectifying inspection).
 //
+// # Sequential designs and monitoring
+//
+// SPRTOperating computes the exact operating characteristic and expected
+// sample number of Wald's SPRT (truncated or not) by recursion over the
+// continuation band, beside Wald's approximations. NewCUSUM and
+// CUSUMForARL build the Bernoulli CUSUM chart of Reynolds and Stoumbos
+// (1999) for an increase or a decrease of a rate, item by item;
+// CUSUMRunLength gives its exact average run length in and out of control
+// by the Markov chain of Brook and Evans (1972).
+// DifferenceSequenceErrorProb gives the exact time-uniform error of the
+// two-sample confidence sequences of package test.
+//
 // # Limits and errors
 //
 // Every search and enumeration takes a context.Context, checks it in its

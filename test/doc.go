@@ -39,6 +39,16 @@
 //     conditional, mid-p, asymptotic with and without continuity
 //     correction.
 //
+//   - NewSPRT, NewPairedSPRT: Wald's sequential probability ratio test of
+//     p = p0 against p = p1 (or, for pairs, on the discordant pairs), with
+//     its decision lines and the decision at any look; exact error rates
+//     and expected sample numbers are in power.SPRTOperating.
+//   - NewMixtureSequence, NewDifferenceSequence: always-valid p-values and
+//     confidence sequences for one proportion (exact) and for p1 - p2
+//     (exact product method, or the asymptotic normal mixture of Johari et
+//     al. 2022), valid at every look of a look schedule chosen freely. The
+//     hypotheses, levels and mixtures must still be fixed in advance.
+//
 // Every function returns a Result with the statistic, the p-value and its
 // natural logarithm (finite where the p-value underflows: at totals of
 // 1e6 a modest effect has p-values far below 1e-308), the method's

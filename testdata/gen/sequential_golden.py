@@ -21,6 +21,14 @@ Writes ../sequential_golden.tsv with four kinds of row:
   cserr   kind conc a b level p horizon error
           exact probability that the sequence ever excludes p by n <= horizon:
           recursion over the full k range with scipy.special.betaln.
+  tau     alpha n tau2
+          mixing variance of the two-sample normal mixture tuned for n per group
+          at p1 = p2 = 1/2: x v with v = 1/(2n) and x minimizing
+          (1 + 1/x)(2 ln(1/alpha) + ln(1 + x)) (scipy.optimize.minimize_scalar).
+  diffnorm alpha tau2 p1 p2 horizon error
+          exact probability that the two-sample normal-mixture sequence ever
+          excludes p1 - p2 within horizon pairs: recursion over the full
+          (k1, k2) grid with numpy.
 
 Run: /usr/bin/python3 testdata/gen/sequential_golden.py   (from the repo root;
 about 20 s)
@@ -239,6 +247,49 @@ CSERR = [
 ]
 for kind, conc, a, b, level, p, horizon in CSERR:
     rows.append(["cserr", kind, conc, a, b, level, p, horizon, fmt(cserr(kind, conc, a, b, level, p, horizon))])
+
+# ---------------------------------------------------------------- two-sample normal mixture
+from scipy.optimize import minimize_scalar
+
+
+def tuned_tau2(alpha, n):
+    l2 = -2 * math.log(alpha)
+    g = lambda lx: (1 + math.exp(-lx)) * (l2 + math.log1p(math.exp(lx)))
+    r = minimize_scalar(g, bounds=(-10, 20), method="bounded", options={"xatol": 1e-12})
+    return math.exp(r.x) / (2 * n)
+
+
+def diffnorm(alpha, tau2, p1, p2, horizon):
+    d = p1 - p2
+    alive = np.zeros((1, 1))
+    alive[0, 0] = 1.0
+    miss = 0.0
+    for n in range(1, horizon + 1):
+        new = np.zeros((n + 1, n + 1))
+        new[:n, :n] += alive * (1 - p1) * (1 - p2)
+        new[1:, :n] += alive * p1 * (1 - p2)
+        new[:n, 1:] += alive * (1 - p1) * p2
+        new[1:, 1:] += alive * p1 * p2
+        k = np.arange(n + 1) / n
+        h1, h2 = np.meshgrid(k, k, indexing="ij")
+        v = h1 * (1 - h1) / n + h2 * (1 - h2) / n
+        est = h1 - h2
+        with np.errstate(divide="ignore", invalid="ignore"):
+            hw = np.sqrt(2 * v * (v + tau2) / tau2 * (-math.log(alpha) + 0.5 * np.log1p(tau2 / v)))
+        lo = np.where(v > 0, np.maximum(est - hw, -1), -1)
+        hi = np.where(v > 0, np.minimum(est + hw, 1), 1)
+        out = (d < lo) | (d > hi)
+        miss += new[out].sum()
+        new[out] = 0
+        alive = new
+    return miss
+
+
+for alpha, n in [(0.05, 20), (0.05, 1000), (0.1, 200)]:
+    rows.append(["tau", alpha, n, fmt(tuned_tau2(alpha, n))])
+for alpha, n, p1, p2, horizon in [(0.05, 20, 0.5, 0.5, 100), (0.05, 20, 0.01, 0.2, 100), (0.05, 1000, 0.02, 0.1, 100), (0.05, 100, 0.3, 0.25, 150)]:
+    t2 = tuned_tau2(alpha, n)
+    rows.append(["diffnorm", alpha, fmt(t2), p1, p2, horizon, fmt(diffnorm(alpha, t2, p1, p2, horizon))])
 
 with open(OUT, "w") as f:
     f.write("# Reference values for Bernoulli CUSUM run lengths, truncated SPRTs and beta-binomial\n")
