@@ -24,31 +24,24 @@
 //     each with the confidence interval that inverts it (Sterne's,
 //     Clopper-Pearson, mid-p, Blaker's, Wilson, Wilson with continuity
 //     correction, likelihood ratio).
-//
 //   - Fisher: the conditional exact test of p1 = p2 (point-probability or
 //     central two-sided, mid-p).
-//
 //   - Barnard and Boschloo: unconditional exact tests of p1 = p2, the
 //     supremum over the common proportion located by a grid and local
 //     refinement, optionally restricted to a Berger-Boos interval.
-//
 //   - TwoSample: the pooled and unpooled z tests and Pearson's chi-square
 //     with and without Yates's correction.
-//
 //   - DifferenceMargin, RatioMargin, DifferenceEquivalence,
 //     RatioEquivalence: non-inferiority, superiority and equivalence (two
 //     one-sided tests) of p1 - p2 or p1/p2 with the Miettinen-Nurminen or
 //     Farrington-Manning score statistic.
-//
 //   - McNemar: paired proportions from the discordant counts, exact
 //     conditional, mid-p, asymptotic with and without continuity
 //     correction.
-//
 //   - NewSPRT, NewPairedSPRT: Wald's sequential probability ratio test of
 //     p = p0 against p = p1 (or, for pairs, on the discordant pairs), with
 //     its decision lines and the decision at any look; exact error rates
 //     and expected sample numbers are in power.SPRTOperating.
-//
 //   - NewMixtureSequence, NewDifferenceSequence: always-valid p-values and
 //     confidence sequences for one proportion (exact) and for p1 - p2
 //     (exact product method, or the asymptotic normal mixture of Johari et
