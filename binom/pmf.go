@@ -103,6 +103,14 @@ func bd0(x, mHi, mLo float64) float64 {
 	return x*math.Log(r) + mHi - x + mLo*(1-r)
 }
 
+// bd0Log is bd0 for a caller that holds r = x/mHi and l = ln r already.
+func bd0Log(x, mHi, mLo, r, l float64) float64 {
+	if d := (x - mHi) - mLo; math.Abs(d) < 0.1*(x+mHi) {
+		return bd0(x, mHi, mLo)
+	}
+	return x*l + mHi - x + mLo*(1-r)
+}
+
 // compMeans returns m p and m (1-p) as unevaluated sums hi + lo, accurate
 // to about 2^-106 relative: m p by math.FMA and m - m p by an exact TwoSum,
 // so 1-p is never rounded (it would be for p < 1/2).
@@ -129,18 +137,21 @@ func compMeans(m, p float64) (mpHi, mpLo, mqHi, mqLo float64) {
 //
 // with k = 0 and k = N in closed form (N ln(1-P) by log1p, N ln P). N P and
 // N (1-P) are compensated sums (math.FMA and an exact TwoSum), so neither
-// the product nor 1-P is rounded into the deviance.
+// the product nor 1-P is rounded into the deviance. For N <= smallN the
+// Stirling errors and ln(k (N-k)/N) come from tables of stirlerr(i) and
+// ln i, so that only the deviance terms away from the mean take a
+// logarithm.
 // Accuracy: within 1e-13 of the true value relative to max(1, |ln b|) for
 // N up to 1e12 and P in [1e-15, 1-1e-15]; worst measured error 5e-15 over
 // the 6046 mpmath values of testdata/binom_golden.tsv. Cost: O(1), no
-// allocation; 45-60 ns of CPU per call measured (BenchmarkLogProb, shared
-// machine under load), about three logarithms' worth.
+// allocation, at most three logarithms (two for N <= smallN; measured
+// figures in the README).
 func (d Dist) LogProb(k int64) float64 {
 	if v, ok := d.pmfSpecial(k); ok {
 		return v
 	}
-	lc, v := d.pmfParts(k)
-	return lc - 0.5*math.Log(v)
+	lc, lv := d.pmfParts(k)
+	return lc - 0.5*lv
 }
 
 // pmfSpecial returns ln P(X = k) where it needs no formula: an invalid
@@ -189,14 +200,44 @@ const tinyP = 1e-200
 // identity on tinyP.
 func (d Dist) tinyLogProb(k int64) float64 {
 	ref := Dist{N: d.N, P: float64(k) / float64(d.N)}
-	lc, v := ref.pmfParts(k)
+	lc, lv := ref.pmfParts(k)
 	fk, fnk := float64(k), float64(d.N-k)
-	return lc - 0.5*math.Log(v) + fk*(xmath.Log(d.P)-math.Log(ref.P)) + fnk*(math.Log1p(-d.P)-math.Log1p(-ref.P))
+	return lc - 0.5*lv + fk*(xmath.Log(d.P)-math.Log(ref.P)) + fnk*(math.Log1p(-d.P)-math.Log1p(-ref.P))
 }
 
+// smallN is the largest N whose Stirling errors and logarithms of
+// integers LogProb takes from tables (16 KiB in all).
+const smallN = 1024
+
+// lnInt[i] is ln i and stirTab[i] is stirlerr(i) for 1 <= i <= smallN
+// (entry 0 unused): the mpmath values below 16, the series above, exactly
+// the values stirlerr returns.
+var lnInt, stirTab = func() (ln, st [smallN + 1]float64) {
+	for i := 1; i <= smallN; i++ {
+		ln[i] = math.Log(float64(i))
+		st[i] = stirlerr(float64(i))
+	}
+	return
+}()
+
 // pmfParts returns the two parts of Loader's form for 0 < k < N and
-// 0 < P < 1: ln P(X = k) = lc - ln(v)/2 with v = 2 pi k (N-k)/N.
-func (d Dist) pmfParts(k int64) (lc, v float64) {
+// 0 < P < 1: ln P(X = k) = lc - lv/2 with lv = ln(2 pi k (N-k)/N).
+func (d Dist) pmfParts(k int64) (lc, lv float64) {
+	if d.N <= smallN {
+		// Table entries: ln(2 pi k (N-k)/N) is a sum of four terms of
+		// size ln N at most, good to a few 1e-16 absolute.
+		fk, fnk := float64(k), float64(d.N-k)
+		npHi, npLo, nqHi, nqLo := compMeans(float64(d.N), d.P)
+		lc = stirTab[d.N] - stirTab[k] - stirTab[d.N-k] - (bd0(fk, npHi, npLo) + bd0(fnk, nqHi, nqLo))
+		return lc, ln2pi + lnInt[k] + (lnInt[d.N-k] - lnInt[d.N])
+	}
+	lc, v := d.loaderParts(k)
+	return lc, math.Log(v)
+}
+
+// loaderParts returns Loader's form for N > smallN as ln P(X = k) =
+// lc - ln(v)/2 with v = 2 pi k (N-k)/N, for 0 < k < N and 0 < P < 1.
+func (d Dist) loaderParts(k int64) (lc, v float64) {
 	fk, fn := float64(k), float64(d.N)
 	fnk := float64(d.N - k)
 	npHi, npLo, nqHi, nqLo := compMeans(fn, d.P)
@@ -218,7 +259,8 @@ func (d Dist) pmfParts(k int64) (lc, v float64) {
 // Prob returns P(X = k): 0 outside 0..N. It is exp(LogProb(k)) computed as
 // e^lc / sqrt(2 pi k (N-k)/N) from the same parts (the square root is
 // cheaper than the logarithm, and e^lc >= P(X = k) cannot underflow where
-// P(X = k) does not).
+// P(X = k) does not); for N <= smallN as one exponential of the tabulated
+// form.
 // Accuracy: relative 1e-13 * max(1, |ln P(X = k)|) wherever the value is at
 // least 1e-300 (the exponent's rounding alone costs that much; worst
 // measured 4.5e-15); exactly 0 only where the true value rounds to 0.
@@ -227,6 +269,15 @@ func (d Dist) Prob(k int64) float64 {
 	if v, ok := d.pmfSpecial(k); ok {
 		return math.Exp(v)
 	}
-	lc, v := d.pmfParts(k)
+	return d.prob(k)
+}
+
+// prob is Prob for 0 < k < N, 0 < P < 1 and P >= tinyP.
+func (d Dist) prob(k int64) float64 {
+	if d.N <= smallN {
+		lc, lv := d.pmfParts(k)
+		return math.Exp(lc - 0.5*lv)
+	}
+	lc, v := d.loaderParts(k)
 	return math.Exp(lc) / math.Sqrt(v)
 }

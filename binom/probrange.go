@@ -80,11 +80,8 @@ func (d Dist) LogProbRange(lo, hi int64) float64 {
 // 0 < P < 1, the smaller computed directly and the larger as its
 // complement.
 func (d Dist) bothTails(k int64) (lower, upper float64) {
-	ls, ll, isLower := d.smallTail(k)
-	if isLower {
-		return ls, ll
-	}
-	return ll, ls
+	t := d.smallTail(k)
+	return t.logLower(), t.logUpper()
 }
 
 // logSumTerms returns ln sum_{j=lo..hi} b(j) for 0 <= lo < hi <= N and

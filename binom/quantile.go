@@ -12,7 +12,19 @@ import (
 type quantileTarget struct {
 	upper bool    // upper-tail quantile: ok(k) is "tail(k) <= target"
 	plain bool    // compare plain probabilities (q) rather than logs (lq)
-	q, lq float64 // target probability and its natural log
+	q, lq float64 // target probability and its natural log (lqUnset: not yet taken)
+}
+
+// lqUnset marks a plain target whose logarithm only the secant search
+// needs; it is taken on the way there.
+const lqUnset = 1
+
+// search2 is search for a target whose logarithm may not be taken yet.
+func (d Dist) search2(t *quantileTarget, guess int64) int64 {
+	if t.lq == lqUnset {
+		t.lq = xmath.Log(t.q)
+	}
+	return d.search(t, guess)
 }
 
 // eval returns, at k in [0, N], the decision ok(k), made on the same
@@ -26,19 +38,18 @@ type quantileTarget struct {
 func (d Dist) eval(t *quantileTarget, k int64) (ok bool, f, l, s float64) {
 	if k >= d.N {
 		l, s = 0, math.Inf(-1)
+		ok = true
 	} else {
-		l, s = d.bothTails(k)
-	}
-	if !t.upper {
-		if t.plain {
-			ok = math.Exp(l) >= t.q
-		} else {
+		tv := d.smallTail(k)
+		l, s = tv.logLower(), tv.logUpper()
+		switch {
+		case !t.upper && t.plain:
+			ok = tv.linLower() >= t.q
+		case !t.upper:
 			ok = l >= t.lq
-		}
-	} else {
-		if t.plain {
-			ok = math.Exp(s) <= t.q
-		} else {
+		case t.plain:
+			ok = tv.linUpper() <= t.q
+		default:
 			ok = s <= t.lq
 		}
 	}
@@ -156,13 +167,176 @@ func (d Dist) search(t *quantileTarget, guess int64) int64 {
 	return hi
 }
 
+// walkMax is the most unit steps locate takes by PMF ratios before it
+// hands over to the secant search.
+const walkMax = 24
+
+// walkTiny is the smallest tail or target value locate walks on in plain
+// arithmetic; smaller ones go to the secant search, which works in logs.
+const walkTiny = 1e-280
+
+// locate returns the smallest k in [0, N] with ok(k), starting at guess.
+// It evaluates the tail exactly (by the computation CDF, Survival, LogCDF
+// or LogSurvival makes) at the guess and then steps to the neighbours by
+// the PMF ratio recurrence,
+//
+//	P(X <= j-1) = P(X <= j) - b(j),  P(X > j-1) = P(X > j) + b(j),
+//	b(j+1) = b(j) (N-j) P / ((j+1)(1-P)),
+//
+// carrying a bound on the rounding of every step. A decision is taken
+// from a stepped value only where the target lies outside that bound
+// widened by 1e-12 max(1, |ln target|) relative, ten times the stated
+// accuracy of the tails on either side, so that it is the decision the
+// exact evaluation would make; inside it the tail is evaluated exactly
+// again. With the Cornish-Fisher start, one or two exact evaluations and a
+// few steps; a start more than walkMax steps off, or a tail below
+// walkTiny, goes to search.
+func (d Dist) locate(t *quantileTarget, guess int64) int64 {
+	n := d.N
+	k := min(max(guess, 0), n)
+	if k >= n {
+		return d.search2(t, guess)
+	}
+	// The walk runs on the tail whose value at the answer is at most
+	// about 1/2 (the target's complement where the target exceeds 1/2),
+	// so that plain arithmetic keeps its relative accuracy.
+	// A plain target above 1/2 is compared with a tail near 1, whose
+	// rounding (half an ulp of 1) the margin must also hold.
+	upperW, qv := t.upper, t.q
+	absTol := 0.0
+	if qv > 0.5 {
+		upperW = !t.upper
+		if t.plain {
+			qv = 1 - qv // exact (Sterbenz)
+			absTol = 0x1p-52
+		} else {
+			qv = -math.Expm1(t.lq)
+		}
+	}
+	if !(qv >= walkTiny) {
+		return d.search2(t, guess)
+	}
+	relTol := 1e-12 * logBound(qv)
+	okK, tk, b := d.decide(t, k, upperW, true)
+	if !(tk >= walkTiny) || !(b > 0) {
+		return d.search2(t, guess)
+	}
+	errT := 1e-12 * logBound(tk) * tk
+	errB := 1e-12 * logBound(b) // relative
+	fn := float64(n)
+	qp := (1 - d.P) / d.P
+	pq := d.P / (1 - d.P)
+	const eps = 0x1p-52
+	for range walkMax {
+		var j int64
+		if okK {
+			j = k - 1
+			if j < 0 {
+				return k
+			}
+			// Down: the lower tail loses b(k), the upper one gains it.
+			if upperW {
+				tk += b
+			} else {
+				tk -= b
+			}
+			errT += b*errB + 2*eps*(math.Abs(tk)+b)
+			fk := float64(k)
+			b *= fk * qp / (fn - fk + 1)
+		} else {
+			j = k + 1
+			if j >= n {
+				return n
+			}
+			fk := float64(k)
+			b *= (fn - fk) * pq / (fk + 1)
+			// Up: the lower tail gains b(k+1), the upper one loses it.
+			if upperW {
+				tk -= b
+			} else {
+				tk += b
+			}
+			errT += b*errB + 2*eps*(math.Abs(tk)+b)
+		}
+		errB += 4 * eps
+		delta := errT + relTol*math.Max(math.Abs(tk), qv) + absTol
+		// ok(j) is "walked tail <= qv" on the upper tail, ">= qv" on the
+		// lower one.
+		var okJ bool
+		switch {
+		case upperW && tk <= qv-delta, !upperW && tk >= qv+delta:
+			okJ = true
+		case upperW && tk >= qv+delta, !upperW && tk <= qv-delta:
+			okJ = false
+		default:
+			// Too close to call from the stepped value: evaluate.
+			okJ, tk, _ = d.decide(t, j, upperW, false)
+			if !(tk >= walkTiny) {
+				return d.search2(t, j)
+			}
+			errT = relTol * tk
+		}
+		if okK != okJ {
+			if okK {
+				return k
+			}
+			return j
+		}
+		k = j
+	}
+	return d.search2(t, k)
+}
+
+// logBound returns max(1, |ln x|) rounded up, from the binary exponent of
+// x > 0 (no logarithm).
+func logBound(x float64) float64 {
+	_, e := math.Frexp(x)
+	return math.Max(1, float64(max(e, 1-e))*math.Ln2)
+}
+
+// decide returns ok(k) for 0 <= k < N, made on exactly the computation of
+// the function the target inverts, the plain value of the upper tail (if
+// upperW) or the lower one and, if withPMF, b(k) = P(X = k) (from the
+// tail's own PMF factor where it has one).
+func (d Dist) decide(t *quantileTarget, k int64, upperW, withPMF bool) (ok bool, tail, b float64) {
+	tv := d.smallTail(k)
+	if withPMF {
+		switch {
+		case tv.form != formProd || tv.lb <= -700:
+			b = d.Prob(k)
+		case tv.lower:
+			b = math.Exp(tv.lb)
+		default:
+			// tv.lb is ln b(k+1); b(k) = b(k+1) (k+1)(1-P) / ((N-k) P).
+			b = math.Exp(tv.lb) * (float64(k+1) * (1 - d.P) / (float64(d.N-k) * d.P))
+		}
+	}
+	switch {
+	case !t.upper && t.plain:
+		ok = tv.linLower() >= t.q
+	case !t.upper:
+		ok = tv.logLower() >= t.lq
+	case t.plain:
+		ok = tv.linUpper() <= t.q
+	default:
+		ok = tv.logUpper() <= t.lq
+	}
+	if upperW {
+		return ok, tv.linUpper(), b
+	}
+	return ok, tv.linLower(), b
+}
+
+// ln002 is ln 0.02.
+const ln002 = -3.9120230054281460586
+
 // normalQuantileLog returns z with Phi(z) = e^lq for lq <= ln(1/2):
 // math.Erfinv down to Phi = 0.02, below that the asymptotic inversion of
 // Mills' ratio refined by two Newton steps on ln Phi (math.Erfc), good to
 // about 1e-12; below z = -37, where erfc underflows, the asymptotic
 // inversion alone (relative 1e-6). A starting point, not a result.
 func normalQuantileLog(lq float64) float64 {
-	if lq > math.Log(0.02) {
+	if lq > ln002 {
 		return math.Sqrt2 * math.Erfinv(2*math.Exp(lq)-1)
 	}
 	// ln Phi(z) ~ -z^2/2 - ln(-z sqrt(2 pi)) - ln(1 - 1/z^2), z < 0.
@@ -216,8 +390,9 @@ func (d Dist) guess(z float64) int64 {
 			}
 			// The deviance by bd0, whose series keeps its digits near the
 			// mean (a ln(a/mq) + b ln(b/mp) would cancel them).
-			dev := bd0(a, mqHi, mqLo) + bd0(b, mpHi, mpLo)
-			la, lb := math.Log(a/mqHi), math.Log(b/mpHi)
+			ra, rb := a/mqHi, b/mpHi
+			la, lb := math.Log(ra), math.Log(rb)
+			dev := bd0Log(a, mqHi, mqLo, ra, la) + bd0Log(b, mpHi, mpLo, rb, lb)
 			zk := math.Copysign(math.Sqrt(2*dev), b-mpHi)
 			res := zk + (b-a)/math.Sqrt(a*b*mu)/3 - z
 			slope := (lb - la) / zk // d z_k / d k
@@ -259,8 +434,8 @@ func (d Dist) Quantile(q float64) int64 {
 	case q == 1 || d.P == 1:
 		return d.N
 	}
-	t := quantileTarget{plain: true, q: q, lq: xmath.Log(q)}
-	return d.search(&t, d.guess(zFromLog(t.lq)))
+	t := quantileTarget{plain: true, q: q, lq: lqUnset}
+	return d.locate(&t, d.guess(zFromProb(q, d.zNeed())))
 }
 
 // LogQuantile returns the smallest k with LogCDF(k) >= lq, for lq <= 0; it
@@ -278,7 +453,7 @@ func (d Dist) LogQuantile(lq float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{lq: lq, q: math.Exp(lq)}
-	return d.search(&t, d.guess(zFromLog(lq)))
+	return d.locate(&t, d.guess(zFromLogNeed(lq, d.zNeed())))
 }
 
 // UpperQuantile returns the smallest k with Survival(k) <= q, the comparison
@@ -298,8 +473,8 @@ func (d Dist) UpperQuantile(q float64) int64 {
 	case q == 0 || d.P == 1:
 		return d.N
 	}
-	t := quantileTarget{upper: true, plain: true, q: q, lq: xmath.Log(q)}
-	return d.search(&t, d.guess(-zFromLog(t.lq)))
+	t := quantileTarget{upper: true, plain: true, q: q, lq: lqUnset}
+	return d.locate(&t, d.guess(-zFromProb(q, d.zNeed())))
 }
 
 // LogUpperQuantile returns the smallest k with LogSurvival(k) <= lq, for
@@ -317,7 +492,95 @@ func (d Dist) LogUpperQuantile(lq float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{upper: true, lq: lq, q: math.Exp(lq)}
-	return d.search(&t, d.guess(-zFromLog(lq)))
+	return d.locate(&t, d.guess(-zFromLogNeed(lq, d.zNeed())))
+}
+
+// zNeed returns the precision in z a quantile start needs: a quarter of
+// a trial in k (locate walks the rest).
+func (d Dist) zNeed() float64 { return 0.25 / math.Max(1, math.Sqrt(d.Variance())) }
+
+// zFromProb returns the standard normal quantile for the lower-tail
+// probability 0 < q < 1, a starting point good to about need (see
+// normalTail).
+func zFromProb(q, need float64) float64 {
+	if q <= 0.5 {
+		return normalTail(q, math.NaN(), need)
+	}
+	return -normalTail(1-q, math.NaN(), need) // 1-q is exact (Sterbenz)
+}
+
+// zFromLogNeed is zFromProb for the log probability lq <= 0.
+func zFromLogNeed(lq, need float64) float64 {
+	switch {
+	case lq >= 0:
+		return 40
+	case lq <= -math.Ln2:
+		u := math.NaN()
+		if lq >= lnErfinvMin {
+			u = math.Exp(lq)
+		}
+		return normalTail(u, lq, need)
+	}
+	u := -math.Expm1(lq)
+	return -normalTail(u, math.NaN(), need)
+}
+
+// lnErfinvMin is ln erfinvMin.
+const lnErfinvMin = -20.723265836946411156
+
+// erfinvMin is the smallest tail probability normalTail inverts with
+// math.Erfinv: 2u - 1 carries an absolute rounding error of 1e-16, which
+// moves z by less than 1e-16 / (u |z|) < 2e-8 there.
+const erfinvMin = 1e-9
+
+// normalTail returns z <= 0 with Phi(z) = u for a lower-tail probability
+// u <= 1/2, given as u (NaN if not at hand) or by its logarithm lu (NaN if
+// not at hand): math.Erfinv down to u = erfinvMin; below, the asymptotic
+// inversion of Mills' ratio,
+//
+//	ln Phi(z) = -t/2 - ln(2 pi t)/2 + ln S(1/t),  t = z^2,
+//	ln S(r) = -r + 5/2 r^2 - 37/3 r^3 + 353/4 r^4 + O(r^5)
+//
+// (the logarithm of the series 1 - r + 3 r^2 - 15 r^3 + 105 r^4 - ... of
+// Mills' ratio times |z|), solved for t by fixed-point steps
+// t <- -2 lu - ln(2 pi t) + 2 ln S(1/t) from t = -2 lu, each of which
+// shrinks the error by about 1/t < 1/36, until the change in z is below
+// need. The truncated series is good to about 1e3/t^5 in ln Phi, so
+// 1e3/(t^5 |z|) < 1e-8 in z; where need is finer than that, one Newton
+// step on ln Phi by math.Erfc (above z = -37, where it does not underflow)
+// brings it to about 1e-11. A starting point, not a result.
+func normalTail(u, lu, need float64) float64 {
+	if u >= erfinvMin {
+		return math.Sqrt2 * math.Erfinv(2*u-1)
+	}
+	if math.IsNaN(lu) {
+		lu = xmath.Log(u)
+	}
+	l2 := -2 * lu
+	t, lt := l2, math.Log(2*math.Pi*l2) // t and ln(2 pi t)
+	for i := 0; i < 6; i++ {
+		r := 1 / t
+		next := l2 - lt + 2*r*(-1+r*(2.5+r*(-37.0/3+r*(353.0/4))))
+		x := (next - t) / t
+		if i == 0 {
+			lt += math.Log1p(x)
+		} else {
+			lt += x * (1 - x*(0.5-x/3)) // |x| < 1e-3 after the first step
+		}
+		t = next
+		// The next step would move t by about x (1 - ...): z by
+		// |x| t / (2 |z|) = |x| |z| / 2.
+		if math.Abs(x)*math.Sqrt(t) < need {
+			break
+		}
+	}
+	z := -math.Sqrt(t)
+	if z < -37 || 1e3/(t*t*t*t*t)/-z <= need {
+		return z
+	}
+	phiTail := 0.5 * math.Erfc(-z/math.Sqrt2)
+	// d ln Phi / dz = phi(z)/Phi(z).
+	return z - (math.Log(phiTail)-lu)*phiTail/math.Exp(-0.5*z*z-0.5*ln2pi)
 }
 
 // zFromLog returns the standard normal quantile for the lower-tail log

@@ -132,6 +132,16 @@ func temmeInit() {
 // not converged to double precision within temmeOrder terms (the caller
 // then uses the continued fraction or the term sums).
 func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
+	lnSmall, small, lower, ok = d.temmeSmall(k)
+	if ok && math.IsNaN(lnSmall) {
+		lnSmall = xmath.Log(small)
+	}
+	return lnSmall, small, lower, ok
+}
+
+// temmeSmall is temmeTail with lnSmall left NaN where the plain tail is
+// at hand (above about 1e-190), for callers that may not need it.
+func (d Dist) temmeSmall(k int64) (lnSmall, small float64, lower, ok bool) {
 	temmeOnce.Do(temmeInit)
 	fa := float64(d.N - k)
 	fb := float64(k + 1)
@@ -167,12 +177,14 @@ func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
 			pPrev, pCur = pCur, zpow+float64(j-1)*pPrev
 		}
 		c := temmeG[j]
-		if h := len(c) - 1; epow[h] == 0 {
+		h := len(c) - 1
+		if epow[h] == 0 {
 			epow[h] = epow[h-1] * e
 		}
+		ep := epow[:h+1]
 		acc := c[0]
-		for l := 1; l < len(c); l++ {
-			acc = acc*w2 + c[l]*epow[l]
+		for l := 1; l < len(c) && l < len(ep); l++ {
+			acc = acc*w2 + c[l]*ep[l]
 		}
 		if j%2 == 1 {
 			acc *= w
@@ -201,7 +213,7 @@ func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
 	if az < 30 {
 		// Tail = Phi(-|z|) -+ phi(z) S/D, both terms from erfc and exp.
 		small = 0.5*math.Erfc(az/math.Sqrt2) + math.Exp(lnPhi)*corr
-		return xmath.Log(small), small, lower, true
+		return math.NaN(), small, lower, true
 	}
 	lnSmall = lnPhi + math.Log(millsRatio(az)+corr)
 	return lnSmall, math.Exp(lnSmall), lower, true
