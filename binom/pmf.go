@@ -228,8 +228,9 @@ func (d Dist) pmfParts(k int64) (lc, lv float64) {
 		// size ln N at most, good to a few 1e-16 absolute.
 		fk, fnk := float64(k), float64(d.N-k)
 		npHi, npLo, nqHi, nqLo := compMeans(float64(d.N), d.P)
-		lc = stirTab[d.N] - stirTab[k] - stirTab[d.N-k] - (bd0(fk, npHi, npLo) + bd0(fnk, nqHi, nqLo))
-		return lc, ln2pi + lnInt[k] + (lnInt[d.N-k] - lnInt[d.N])
+		// Both sums are symmetric in k and N-k, bit for bit.
+		lc = stirTab[d.N] - (stirTab[k] + stirTab[d.N-k]) - (bd0(fk, npHi, npLo) + bd0(fnk, nqHi, nqLo))
+		return lc, (lnInt[k] + lnInt[d.N-k]) - (lnInt[d.N] - ln2pi)
 	}
 	lc, v := d.loaderParts(k)
 	return lc, math.Log(v)

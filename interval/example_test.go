@@ -114,10 +114,12 @@ func ExampleCoverageCurve() {
 		_, s, _ := interval.CoverageCurve(context.Background(), 30, ps, interval.Options{Method: m})
 		fmt.Printf("%-16s min %.3f at p = %.2f, mean %.3f\n", m, s.MinCoverage, s.MinAtP, s.MeanCoverage)
 	}
+	// Clopper-Pearson coverage is symmetric in p and 1-p: its minimum is
+	// shared by p = 0.31 and 0.69, and the last bits of the sums pick one.
 	// Output:
 	// Wald             min 0.260 at p = 0.01, mean 0.883
 	// Wilson           min 0.930 at p = 0.30, mean 0.952
-	// Clopper-Pearson  min 0.954 at p = 0.31, mean 0.974
+	// Clopper-Pearson  min 0.954 at p = 0.69, mean 0.974
 }
 
 func ExampleCoverageOverN() {
