@@ -35,8 +35,9 @@ func eachCommand() *command {
 		Name:    "each",
 		Group:   "data",
 		Summary: "apply an interval or test to every row of a CSV file of counts, writing CSV",
-		Usage:   "each FILE|- VERB [verb options] [to=FILE]",
-		Options: []opt{{Name: "to", Doc: "write the CSV to this file instead of the screen"}},
+		Usage:   "each FILE|- VERB [verb options] [to=FILE] [adjust=A]",
+		Options: []opt{{Name: "to", Doc: "write the CSV to this file instead of the screen"},
+			{Name: "adjust", Doc: "add an adjusted_p_value column over the whole file: " + adjustHelp, Values: adjustWords}},
 		Help: helpText{
 			Computes: "Reads a CSV file (or standard input for -) with one set of counts per row, applies VERB " +
 				"with the given options to each row, and streams CSV out: the input columns, the result columns " +
@@ -55,7 +56,11 @@ func eachCommand() *command {
 				"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
 				"input: kofn -c 'each - check p=0.3' < visits.csv.",
 			Methods:     "", // filled by newTable with the row verbs
-			Assumptions: "Each row is a separate analysis: no correction for testing many rows is applied.",
+			Assumptions: "Each row is a separate analysis: no correction for testing many rows is applied, unless " +
+				"adjust= asks for one. With adjust= (verbs writing a p_value), the rows with a p-value form one " +
+				"family: the output rows are spilled to a temporary file while the p-values (8 bytes a row) stay " +
+				"in memory, and once the input ends a second pass writes the rows with adjusted_p_value and " +
+				"adjustment columns after the results; the input is read once, so standard input works.",
 			Examples:    []string{"each - check p=0.3", "each - flips method=exact"},
 			Sources:     "RFC 4180 (CSV).",
 		},
@@ -75,10 +80,14 @@ func runEach(c *call) error {
 		return inputErr(words[1], "cannot run on rows"+unknownHint(verbWord, c.S.cmds.rowVerbs()))
 	}
 	var rest []string
-	to := ""
+	to, adjustWord := "", ""
 	for _, w := range words[2:] {
 		if v, ok := strings.CutPrefix(w, "to="); ok {
 			to = v
+			continue
+		}
+		if v, ok := strings.CutPrefix(w, "adjust="); ok {
+			adjustWord = strings.ToLower(v)
 			continue
 		}
 		rest = append(rest, w)
@@ -99,6 +108,11 @@ func runEach(c *call) error {
 		return err
 	}
 	job := batchJob{spec: verb.Row, fn: fn, workers: runtime.GOMAXPROCS(0), source: file}
+	if adjustWord != "" {
+		if job.adjust, err = newAdjustSpill(adjustWord, verb); err != nil {
+			return err
+		}
+	}
 	job.metaNames, job.meta, err = rowMeta(vc, verb)
 	if err != nil {
 		return err
@@ -148,6 +162,9 @@ func runEach(c *call) error {
 		b.Row("rows", strconv.Itoa(st.rows))
 		b.Row("failed", strconv.Itoa(st.failed))
 		b.Row("header", st.header)
+		if job.adjust != nil {
+			b.Row("adjusted", job.adjust.summary())
+		}
 		b.Row("written to", to)
 	}
 	switch {
@@ -158,6 +175,9 @@ func runEach(c *call) error {
 	}
 	if to == "" {
 		fmt.Fprintf(c.S.Err, "each: %d rows done, none failed; %s\n", st.rows, safeText(st.header, false))
+		if job.adjust != nil {
+			fmt.Fprintf(c.S.Err, "each: %s\n", job.adjust.summary())
+		}
 	}
 	return nil
 }
@@ -210,6 +230,7 @@ type batchJob struct {
 	progress  io.Writer // a terminal for progress lines, or nil
 	size      int64     // input bytes when known, for the time left
 	source    string
+	adjust    *adjustSpill // adjust=: the whole file's adjusted p-values (batch_adjust.go)
 }
 
 // batchStats says what a run did.
@@ -294,6 +315,13 @@ func runBatch(ctx context.Context, in io.Reader, out io.Writer, job batchJob) (s
 	bw := bufio.NewWriterSize(out, 64<<10)
 	w := csv.NewWriter(bw)
 	hdr := append(append(append(escapeCells(header, job.escape), job.spec.Out...), job.metaNames...), "error")
+	if job.adjust != nil {
+		if err := job.adjust.start(width, job.spec); err != nil {
+			return st, err
+		}
+		defer job.adjust.close()
+		hdr = job.adjust.header(hdr)
+	}
 	if err := w.Write(hdr); err != nil {
 		return st, err
 	}
@@ -376,7 +404,7 @@ func runBatch(ctx context.Context, in io.Reader, out io.Writer, job batchJob) (s
 			if row[len(row)-1] != "" {
 				st.failed++
 			}
-			if werr = w.Write(row); werr != nil {
+			if werr = job.put(w, row); werr != nil {
 				cancel()
 			}
 		}
@@ -384,6 +412,9 @@ func runBatch(ctx context.Context, in io.Reader, out io.Writer, job batchJob) (s
 	wg.Wait()
 	stopProgress()
 	st.notRun += leftover
+	if werr == nil && job.adjust != nil {
+		werr = job.adjust.finish(ctx, w, st.notRun > 0 || ctx.Err() != nil)
+	}
 	w.Flush()
 	if werr == nil {
 		werr = w.Error()
