@@ -55,14 +55,14 @@ func eachCommand() *command {
 				"command fails if any row did. Undefined estimates (an empty group) are written NaN. " +
 				"From a shell: kofn -c 'each visits.csv check p=0.3' > results.csv, or with the data on standard " +
 				"input: kofn -c 'each - check p=0.3' < visits.csv.",
-			Methods:     "", // filled by newTable with the row verbs
+			Methods: "", // filled by newTable with the row verbs
 			Assumptions: "Each row is a separate analysis: no correction for testing many rows is applied, unless " +
 				"adjust= asks for one. With adjust= (verbs writing a p_value), the rows with a p-value form one " +
 				"family: the output rows are spilled to a temporary file while the p-values (8 bytes a row) stay " +
 				"in memory, and once the input ends a second pass writes the rows with adjusted_p_value and " +
 				"adjustment columns after the results; the input is read once, so standard input works.",
-			Examples:    []string{"each - check p=0.3", "each - flips method=exact"},
-			Sources:     "RFC 4180 (CSV).",
+			Examples: []string{"each - check p=0.3", "each - flips method=exact"},
+			Sources:  "RFC 4180 (CSV).",
 		},
 		Run: runEach,
 		raw: true,
