@@ -12,13 +12,14 @@ func coverCommand() *command {
 		Name:    "cover",
 		Group:   "intervals",
 		Summary: "exact coverage of interval methods against p (or against n), with a plot",
-		Usage:   "cover n=N|LO..HI [p=P] [method=M1,M2,...] [level=L] [bound=two|lower|upper] [points=G]",
+		Usage:   "cover n=N|LO..HI [p=P] [method=M1,M2,...] [level=L] [bound=two|lower|upper] [points=G] [show=S]",
 		Options: []opt{
 			{Name: "n", Doc: "trials; LO..HI with p= plots coverage against n"},
 			{Name: "p", Doc: "a true proportion: coverage at that p (or against n)"},
 			{Name: "method", Doc: "one or more bounds methods, separated by commas (default: the bounds default)", Values: boundsMethods},
 			optLevel, optBound,
 			{Name: "points", Doc: "grid points over p in (0, 1) for the sweep (default 1000)"},
+			optShow,
 		},
 		Help: helpText{
 			Computes: "The exact coverage probability of one-proportion interval methods: the chance, summed over " +
@@ -26,11 +27,12 @@ func coverCommand() *command {
 				"the true p; and the expected width. Without p= it sweeps p over a grid in (0, 1) and reports the " +
 				"lowest and the mean coverage, plotting the lowest coverage in each column against p; with p= " +
 				"and n=LO..HI it plots coverage against n, the sawtooth Brown, Cai and DasGupta (2001) describe. " +
-				"Exact methods never fall below the level; approximate ones dip below it at some p.",
+				"Exact methods never fall below the level; approximate ones dip below it at some p. show=table " +
+				"or show=csv lists every grid point (or n) with each method's coverage.",
 			Methods:     "Any bounds method; several can be compared, e.g. method=wald,wilson,clopper-pearson.",
 			Assumptions: "Closed intervals; coverage is computed, not simulated.",
 			Examples: []string{"cover n=30 method=wald,wilson,clopper-pearson", "cover n=30 p=0.2 method=wald",
-				"cover n=20..120 p=0.005 method=wald", "cover n=50 method=jeffreys level=90%"},
+				"cover n=20..120 p=0.005 method=wald", "cover n=50 method=jeffreys level=90%", "cover n=30 method=wald,wilson points=9 show=table"},
 			Sources: "Brown LD, Cai TT, DasGupta A (2001), Interval estimation for a binomial proportion, Statistical " +
 				"Science 16:101-133 (Wald coverage 0.946 at p = 0.2, n = 30; 0.945 at n = 591 and 0.792 at n = 592 " +
 				"for p = 0.005); Newcombe RG (1998), Statistics in Medicine 17:857-872.",
@@ -120,7 +122,9 @@ func runCover(c *call) error {
 			b.Row(pts[0].Method, "lowest "+s.num(sum.MinCoverage)+" at n = "+count(sum.MinAtN), "mean "+s.num(sum.MeanCoverage)+belowLevel(sum.MinCoverage, level))
 			xs, curves, yMin = binCurve(s, pts, pts[0].Method, func(pf interval.Performance) float64 { return float64(pf.N) }, curves, yMin)
 		}
-		c.Plot(coverPlot(s, xs, curves, yMin, level, "n (lowest coverage in each column)"))
+		c.Data(coverResult{out})
+		return c.showCurve(coverTable("n", out, func(pf interval.Performance) float64 { return float64(pf.N) }),
+			func() string { return coverPlot(s, xs, curves, yMin, level, "n (lowest coverage in each column)") })
 	default:
 		if lo != hi {
 			return inputErr("n="+a.Str("n", ""), "is a range; a range of n needs p=")
@@ -139,10 +143,27 @@ func runCover(c *call) error {
 			b.Row(pts[0].Method, "lowest "+s.num(sum.MinCoverage)+" at p = "+s.num(sum.MinAtP), "mean "+s.num(sum.MeanCoverage)+", mean width "+s.num(sum.MeanWidth)+belowLevel(sum.MinCoverage, level))
 			xs, curves, yMin = binCurve(s, pts, pts[0].Method, func(pf interval.Performance) float64 { return pf.P }, curves, yMin)
 		}
-		c.Plot(coverPlot(s, xs, curves, yMin, level, "p (lowest coverage in each column)"))
+		c.Data(coverResult{out})
+		return c.showCurve(coverTable("p", out, func(pf interval.Performance) float64 { return pf.P }),
+			func() string { return coverPlot(s, xs, curves, yMin, level, "p (lowest coverage in each column)") })
 	}
-	c.Data(coverResult{out})
-	return nil
+}
+
+// coverTable lists the coverage curves point by point: the x column,
+// then one coverage column per method.
+func coverTable(x string, curves []coverMethod, xOf func(interval.Performance) float64) valueTable {
+	t := valueTable{cols: []string{x}}
+	for _, m := range curves {
+		t.cols = append(t.cols, methodWord(m.Method))
+	}
+	for i, pf := range curves[0].Points {
+		row := []float64{xOf(pf)}
+		for _, m := range curves {
+			row = append(row, m.Points[i].Coverage)
+		}
+		t.add(row...)
+	}
+	return t
 }
 
 // belowLevel notes a coverage under the nominal level.

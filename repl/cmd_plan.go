@@ -81,16 +81,17 @@ func detectCommand() *command {
 		Summary: "power: the chance a study of n trials detects a given effect; n=LO..HI plots the sawtooth",
 		Usage:   "detect n=N|LO..HI (p=P0 truth=P1 | p1=P1 p2=P2 [n2=N2] | p12=A p21=B) [alpha=A] [alt=S] [method=M]",
 		Options: append([]opt{{Name: "n", Doc: "trials (one sample), group 1 size (two groups) or pairs; LO..HI for a curve"},
-			{Name: "n2", Doc: "two groups: size of group 2 (default: n)"}}, planOptions...),
+			{Name: "n2", Doc: "two groups: size of group 2 (default: n)"}, optShow}, planOptions...),
 		Help: helpText{
 			Computes: "The probability that a test at level alpha rejects H0 when the truth is as stated. One " +
 				"sample (p, truth): the exact binomial test's power, by summing the true distribution over the " +
 				"rejection region, with the attained size and the counts that do not reject. Two groups (p1, p2): " +
 				"the power of the comparison. Paired (p12, p21): the power of McNemar's test. With n=LO..HI the power is drawn against n: exact power is a sawtooth, because " +
-				"adding a trial can shrink the rejection region.",
+				"adding a trial can shrink the rejection region; show=table lists every n with its power, show=csv " +
+				"the same as CSV.",
 			Methods:     planMethodsHelp,
 			Assumptions: "Independent trials; fixed n; the stated truth is the effect worth detecting.",
-			Examples: []string{"detect n=40 p=0.3 truth=0.5", "detect n=10..120 p=0.3 truth=0.5",
+			Examples: []string{"detect n=40 p=0.3 truth=0.5", "detect n=10..120 p=0.3 truth=0.5", "detect n=30..45 p=0.2 truth=0.4 alt=higher show=table",
 				"detect n=474 p1=0.05 p2=0.10", "detect n=60 p1=0.2 p2=0.5 method=fisher", "detect n=100 p12=0.15 p21=0.05"},
 			Sources: planSources,
 		},
@@ -417,8 +418,11 @@ func runDetect(c *call) error {
 	b.Row("n", count(lo)+" to "+count(hi))
 	b.Row("lowest power", s.num(minP.Power), "at n = "+count(minP.N))
 	b.Row("highest power", s.num(maxP.Power), "at n = "+count(maxP.N))
-	c.Plot(powerPlot(s, curve, 0.8, "power"))
-	return nil
+	t := valueTable{cols: []string{"n", "power"}}
+	for _, pt := range curve {
+		t.add(float64(pt.N), pt.Power)
+	}
+	return c.showCurve(t, func() string { return powerPlot(s, curve, 0.8, "power") })
 }
 
 // powerPlot draws power against n as bars, one column per n; when the

@@ -30,10 +30,10 @@ func TestPlanningValues(t *testing.T) {
 		{"prove n=14 level=95%", "reliability", 1 - 0.1926, 1e-4, "Hanley 1983"},
 		// Montgomery, single sampling plan n = 89, c = 2 (read in a reproduced exercise):
 		// P(accept) at 0.01, 0.02, 0.05 = 0.93969, 0.736578, 0.172077; ATI at N = 10000, p = 0.01: 687.
-		{"accept n=89 c=2 at=0.01", "accept_prob", 0.93969, 1e-5, "Montgomery"},
-		{"accept n=89 c=2 at=0.02", "accept_prob", 0.736578, 1e-6, "Montgomery"},
-		{"accept n=89 c=2 at=0.05", "accept_prob", 0.172077, 1e-6, "Montgomery"},
-		{"accept n=89 c=2 at=0.01 lot=10000", "rectifying.ati", 687, 1e-3, "Montgomery"},
+		{"accept n=89 c=2 at=0.01", "at.0.y", 0.93969, 1e-5, "Montgomery"},
+		{"accept n=89 c=2 at=0.02", "at.0.y", 0.736578, 1e-6, "Montgomery"},
+		{"accept n=89 c=2 at=0.05", "at.0.y", 0.172077, 1e-6, "Montgomery"},
+		{"accept n=89 c=2 at=0.01 lot=10000", "rectifying.0.ati", 687, 1e-3, "Montgomery"},
 	}
 	checkValues(t, tests)
 }

@@ -2,6 +2,7 @@ package repl
 
 import (
 	"math"
+	"strings"
 
 	"github.com/kofnlab/kofn/power"
 )
@@ -162,11 +163,11 @@ func acceptCommand() *command {
 		Name:    "accept",
 		Group:   "planning",
 		Summary: "acceptance sampling by attributes: a plan's OC curve, AOQ and ATI, or design a plan",
-		Usage:   "accept n=N c=C [at=P] [lot=L]   or   accept aql=P1 rql=P2 [producer=A] [consumer=B]",
+		Usage:   "accept n=N c=C [at=P,...] [lot=L] [show=S]   or   accept aql=P1 rql=P2 [producer=A] [consumer=B] [show=S]",
 		Options: []opt{
 			{Name: "n", Doc: "items inspected from each lot"},
 			{Name: "c", Doc: "acceptance number: the lot is accepted with at most c defectives"},
-			{Name: "at", Doc: "a defect rate at which to report the acceptance probability"},
+			{Name: "at", Doc: "defect rates at which to report the acceptance probability, like 0.01 or 0.01,0.02,0.05"},
 			{Name: "lot", Doc: "lot size, for rectifying inspection (AOQ, ATI, AOQL)"},
 			{Name: "defectives", Doc: "with lot=: defectives in the lot, for the exact finite-lot (hypergeometric) acceptance chance"},
 			{Name: "aql", Doc: "design: acceptable quality level (defect rate that should pass)"},
@@ -174,18 +175,21 @@ func acceptCommand() *command {
 			{Name: "producer", Doc: "design: largest chance of rejecting a lot at the AQL (default 0.05)"},
 			{Name: "consumer", Doc: "design: largest chance of accepting a lot at the RQL (default 0.10)"},
 			{Name: "upto", Doc: "design: largest n searched"},
+			{Name: "show", Doc: "plot (default): the OC curve; table: its values as an aligned table (at the at= rates when given); csv: the same as CSV; both: plot and table", Values: optShow.Values},
 		},
 		Help: helpText{
 			Computes: "For a single sampling plan (inspect n items, accept the lot with at most c defectives): " +
 				"the operating characteristic, the chance of accepting a lot against its defect rate (binomial, " +
-				"for large lots), drawn as a curve; at= gives its value at one rate; lot= adds rectifying " +
+				"for large lots), drawn as a curve with the AQL and RQL marked when given; show=table or show=csv " +
+				"lists its values; at= gives its value at one rate or a list of rates; lot= adds rectifying " +
 				"inspection: average outgoing quality (AOQ) and average total inspection (ATI) at the rate, and the " +
 				"average outgoing quality limit (AOQL); lot= with defectives= gives the exact acceptance chance for " +
 				"that finite lot (hypergeometric, type A). With aql= and rql=: the plan with the smallest n that " +
 				"meets both risks, found by an exact search; adding lot= designs for isolated lots of that size " +
 				"(hypergeometric, type A) instead of a process.",
 			Assumptions: "Lots much larger than the sample (binomial model); items defective independently.",
-			Examples:    []string{"accept n=89 c=2", "accept n=89 c=2 at=0.01 lot=10000", "accept aql=0.01 rql=0.05"},
+			Examples: []string{"accept n=89 c=2", "accept n=89 c=2 at=0.01 lot=10000", "accept aql=0.01 rql=0.05",
+				"accept n=89 c=2 at=0.01,0.02,0.05 show=table", "accept aql=0.01 rql=0.05 show=csv"},
 			Sources: "Montgomery DC, Introduction to Statistical Quality Control, chapter on single sampling " +
 				"plans for attributes (n = 89, c = 2); Schilling EG, Neubauer DV (2009), Acceptance Sampling in Quality Control, 2nd ed.",
 		},
@@ -193,12 +197,15 @@ func acceptCommand() *command {
 	}
 }
 
+// acceptResult is accept's JSON: the plan, its design when aql= and rql=
+// were given, the acceptance chance at each at= rate (with rectifying
+// inspection when lot= is given), the finite-lot chance, the AOQL and the
+// OC curve.
 type acceptResult struct {
-	Plan       power.Plan        `json:"plan"`
-	Design     *power.PlanDesign `json:"design,omitempty"`
-	At         *float64          `json:"at,omitempty"`
-	AcceptProb *float64          `json:"accept_prob,omitempty"`
-	Rectifying *power.Rectifying `json:"rectifying,omitempty"`
+	Plan       power.Plan         `json:"plan"`
+	Design     *power.PlanDesign  `json:"design,omitempty"`
+	At         []power.Point      `json:"at,omitempty"`
+	Rectifying []power.Rectifying `json:"rectifying,omitempty"`
 	// LotDefectives and LotAcceptProb: the finite-lot acceptance chance.
 	LotDefectives *int64          `json:"lot_defectives,omitempty"`
 	LotAcceptProb *float64        `json:"lot_accept_prob,omitempty"`
@@ -269,17 +276,29 @@ func runAccept(c *call) error {
 		r.Plan = power.Plan{SampleSize: n, AcceptNumber: cc}
 		b = c.Block("sampling plan: inspect n = " + count(n) + ", accept with at most c = " + count(cc) + " defective")
 	}
+	var at []float64
 	if a.Has("at") {
-		p, err := a.Prob("at", 0)
-		if err != nil {
-			return err
+		raw := a.Str("at", "")
+		for _, f := range strings.Split(raw, ",") {
+			p, err := parseProb(f)
+			if err != nil {
+				return inputErr("at="+raw, "has "+shortToken(f)+", which "+reasonOf(err))
+			}
+			at = append(at, p)
 		}
-		pa, err := power.AcceptProb(r.Plan, p)
-		if err != nil {
-			return err
+		if len(at) > 10000 {
+			return inputErr("at="+shortToken(raw), "lists more than 10000 rates")
 		}
-		r.At, r.AcceptProb = &p, &pa
-		b.Row("P(accept) at "+fmtIn(p), s.num(pa))
+		for _, p := range at {
+			pa, err := power.AcceptProb(r.Plan, p)
+			if err != nil {
+				return err
+			}
+			r.At = append(r.At, power.Point{X: p, Y: pa})
+			if len(at) <= 20 {
+				b.Row("P(accept) at "+fmtIn(p), s.num(pa))
+			}
+		}
 	}
 	if a.Has("lot") {
 		lot, err := a.Count("lot", 0)
@@ -289,14 +308,16 @@ func runAccept(c *call) error {
 		if lot < r.Plan.SampleSize {
 			return inputErr("lot="+a.Str("lot", ""), "is smaller than the sample size n = "+count(r.Plan.SampleSize))
 		}
-		if r.At != nil {
-			rect, err := power.Rectify(r.Plan, lot, *r.At)
+		for _, p := range at {
+			rect, err := power.Rectify(r.Plan, lot, p)
 			if err != nil {
 				return err
 			}
-			r.Rectifying = &rect
-			b.Row("AOQ at "+fmtIn(*r.At), s.num(rect.AOQ), "average outgoing quality, lots of "+count(lot))
-			b.Row("ATI at "+fmtIn(*r.At), s.num(rect.ATI), "average total inspection per lot")
+			r.Rectifying = append(r.Rectifying, rect)
+			if len(at) <= 20 {
+				b.Row("AOQ at "+fmtIn(p), s.num(rect.AOQ), "average outgoing quality, lots of "+count(lot))
+				b.Row("ATI at "+fmtIn(p), s.num(rect.ATI), "average total inspection per lot")
+			}
 		}
 		if a.Has("defectives") {
 			dv, err := a.Count("defectives", 0)
@@ -330,14 +351,36 @@ func runAccept(c *call) error {
 	}
 	r.OC = oc
 	c.Data(r)
-	xs, ys := make([]float64, len(oc)), make([]float64, len(oc))
-	for i, pt := range oc {
-		xs[i], ys[i] = pt.X, pt.Y
+	t := valueTable{cols: []string{"defect_rate", "p_accept"}}
+	rows := r.At
+	if len(rows) == 0 {
+		rows = oc
 	}
-	ch := chart{xs: xs, series: []series{{"P(accept)", ys}}, yLo: 0, yHi: 1, ref: math.NaN(), height: 10,
-		ascii: s.Set.ASCII, width: s.Set.Width, digits: 3, xLabel: "defect rate"}
-	c.Plot("operating characteristic: P(accept) against the defect rate (binomial: large lots or a process)\n" + ch.render())
-	return nil
+	for _, pt := range rows {
+		t.add(pt.X, pt.Y)
+	}
+	if len(r.Rectifying) == len(rows) && len(rows) > 0 {
+		t.cols = append(t.cols, "aoq", "ati")
+		for i, rect := range r.Rectifying {
+			t.rows[i] = append(t.rows[i], rect.AOQ, rect.ATI)
+		}
+	}
+	return c.showCurve(t, func() string {
+		xs, ys := make([]float64, len(oc)), make([]float64, len(oc))
+		for i, pt := range oc {
+			xs[i], ys[i] = pt.X, pt.Y
+		}
+		ch := chart{xs: xs, series: []series{{"P(accept)", ys}}, yLo: 0, yHi: 1, ref: math.NaN(), height: 10,
+			ascii: s.Set.ASCII, width: s.Set.Width, digits: 3, xLabel: "defect rate"}
+		if r.Design != nil {
+			ch.marks = []float64{r.Design.AQL, r.Design.RQL}
+			ch.markNote = "AQL " + fmtIn(r.Design.AQL) + " and RQL " + fmtIn(r.Design.RQL)
+		} else if len(at) > 0 && len(at) <= 5 {
+			ch.marks = at
+			ch.markNote = "at= rates"
+		}
+		return "operating characteristic: P(accept) against the defect rate (binomial: large lots or a process)\n" + ch.render()
+	})
 }
 
 // ocRange returns the right end of the OC plot: the defect rate where the

@@ -1,6 +1,7 @@
 package repl
 
 import (
+	"fmt"
 	"math"
 	"regexp"
 	"strings"
@@ -102,5 +103,38 @@ func TestTailPartition(t *testing.T) {
 	a, b := runJSON(t, "tail k=67 n=52300 p=0.001"), runJSON(t, "tail 67/52300 p=0.001")
 	if num(t, a, "at_most") != num(t, b, "at_most") {
 		t.Error("tail k= n= differs from tail K/N")
+	}
+}
+
+// TestCurveTables: show=csv gives, row for row, the values of the JSON
+// curve; accept marks the AQL and RQL on its OC plot.
+func TestCurveTables(t *testing.T) {
+	t.Parallel()
+	obj := runJSON(t, "detect n=30..45 p=0.2 truth=0.4 alt=higher")
+	curve := obj["curve"].([]any)
+	out, stderr, failed := runScript(t, "detect n=30..45 p=0.2 truth=0.4 alt=higher show=csv")
+	if failed != 0 {
+		t.Fatal(stderr)
+	}
+	csvPart := out[strings.Index(out, "n,power\n"):]
+	rows := strings.Split(strings.TrimSpace(csvPart), "\n")[1:]
+	if len(rows) != len(curve) || len(rows) != 16 {
+		t.Fatalf("%d CSV rows for %d curve points", len(rows), len(curve))
+	}
+	for i, r := range rows {
+		pt := curve[i].(map[string]any)
+		if want := fmt.Sprintf("%v,%v", pt["n"], pt["power"]); r != want {
+			t.Errorf("row %d = %q, JSON %q", i, r, want)
+		}
+	}
+	plot, _, _ := runScript(t, "accept aql=0.01 rql=0.05")
+	if !strings.Contains(plot, "AQL 0.01 and RQL 0.05") || strings.Count(plot, "▲") != 3 {
+		t.Errorf("OC plot lacks the AQL and RQL marks:\n%s", plot)
+	}
+	a := runJSON(t, "accept n=89 c=2 at=0.01,0.02,0.05")
+	// Montgomery, Introduction to Statistical Quality Control, single sampling n = 89, c = 2:
+	// Pa(0.01) = 0.9397 (recalled, recomputed with scipy.stats.binom.cdf(2, 89, 0.01) = 0.93969).
+	if at := a["at"].([]any); len(at) != 3 || math.Abs(at[0].(map[string]any)["y"].(float64)-0.93969) > 1e-5 {
+		t.Errorf("at list: %v", a["at"])
 	}
 }
