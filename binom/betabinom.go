@@ -99,7 +99,8 @@ func (d BetaBinom) Skewness() float64 {
 	}
 	n, a, b := float64(d.N), d.A, d.B
 	s := a + b
-	return (s + 2*n) * (b - a) / (s + 2) * math.Sqrt((1+s)/(n*a*b*(n+s)))
+	// sqrt(a) and sqrt(b) apart: n a b underflows for subnormal shapes.
+	return (s + 2*n) * (b - a) / (s + 2) * math.Sqrt((1+s)/(n*(n+s))) / math.Sqrt(a) / math.Sqrt(b)
 }
 
 // LogProb returns ln P(X = k); -Inf for k outside 0..N, NaN only for an
@@ -438,11 +439,13 @@ func (d BetaBinom) walkDown(lq float64) int64 {
 // (Marsaglia G, Tsang WW (2000), "A simple method for generating gamma
 // variables", ACM TOMS 26:363-372, with the boost G(s) = G(s+1) U^(1/s) for
 // s < 1, kept in logs so tiny shapes do not underflow), then a binomial
-// variate (Dist.Rand). Cost O(1) in N. An invalid BetaBinom gives -1.
+// variate (Dist.Rand). Cost O(1) in N. An invalid BetaBinom gives -1; a nil
+// r draws from math/rand/v2's top-level generator.
 func (d BetaBinom) Rand(r *rand.Rand) int64 {
 	if !d.valid() {
 		return -1
 	}
+	r = orDefault(r) // nil: math/rand/v2's top-level generator, as Dist.Rand
 	lx, ly := logGamma(r, d.A), logGamma(r, d.B)
 	p := 1 / (1 + math.Exp(ly-lx))
 	return Dist{N: d.N, P: p}.Rand(r)

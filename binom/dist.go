@@ -108,7 +108,9 @@ func (d Dist) Skewness() float64 {
 //
 // For a point mass (N = 0, P = 0 or P = 1) it is 0/0, mathematically
 // undefined, and ExKurtosis returns NaN there, the only NaN for a valid
-// Dist. Accuracy: a few units in the last place (1 - 6 P (1-P) cancels
+// Dist. Where N P (1-P) is below about 1e-308 (a subnormal P) the value
+// exceeds the float range and is +Inf. Accuracy: a few units in the last
+// place (1 - 6 P (1-P) cancels
 // near P = (3 +- sqrt 3)/6, where the value is near 0 in absolute terms).
 func (d Dist) ExKurtosis() float64 {
 	if !d.valid() || d.degenerate() {

@@ -15,7 +15,8 @@ import (
 // Example (common practice): p = 0.5, halfWidth = 0.03, 95% gives n = 1068. The
 // formula ignores the discreteness of k/n; PrecisionN gives the exact
 // probability that k/n lands within halfWidth of p. Domain: 0 < p < 1, 0 < halfWidth < 1,
-// 0 < level < 1.
+// 0 < level < 1. The result is at least 1 (a level so low that z rounds the
+// formula to 0 still needs one trial).
 func MarginOfErrorN(p, halfWidth, level float64) (int64, error) {
 	const fn = "power.MarginOfErrorN"
 	if err := argerr.OpenProb(fn, "p", p); err != nil {
@@ -32,5 +33,5 @@ func MarginOfErrorN(p, halfWidth, level float64) (int64, error) {
 	if n > 1<<53 {
 		return 0, argerr.TooLarge(fn, "halfWidth", halfWidth, "needs more than 2^53 trials")
 	}
-	return int64(math.Ceil(n)), nil
+	return max(1, int64(math.Ceil(n))), nil
 }

@@ -40,15 +40,15 @@ func LogBinomReal(x, y, p, q float64) float64 {
 		if p < 0.1 {
 			return -xmath.Deviance(m, m*q) - m*p
 		}
-		return m * math.Log(q)
+		return m * xmath.Log(q)
 	case y <= 0:
 		if q < 0.1 {
 			return -xmath.Deviance(m, m*p) - m*q
 		}
-		return m * math.Log(p)
+		return m * xmath.Log(p)
 	}
 	lc := xmath.StirlingError(m) - xmath.StirlingError(x) - xmath.StirlingError(y) - xmath.Deviance(x, m*p) - xmath.Deviance(y, m*q)
-	return lc - 0.5*(math.Log(x)+math.Log(y/m)) - lnSqrt2Pi
+	return lc - 0.5*(xmath.Log(x)+xmath.Log(y/m)) - lnSqrt2Pi // xmath.Log: y/m may be subnormal
 }
 
 // LogBeta returns ln B(a, b) for a, b > 0 as

@@ -11,7 +11,8 @@ import "math"
 //	n2 (psi-1) p2^2 + (n1 psi + n2 - m (psi-1)) p2 - m = 0,
 //
 // taken in the form p2~ = 2m / (B + sqrt(B^2 + 4 n2 (psi-1) m)), exact at
-// psi = 1 (p2~ = m/N).
+// psi = 1 (p2~ = m/N), or (sqrt(B^2 + 4 n2 (psi-1) m) - B) / (2 n2 (psi-1))
+// when B < 0 (large psi), where the first form cancels.
 func OddsMLE(x1, n1, x2, n2 int64, psi float64) (p1, p2 float64) {
 	p1, _, p2, _ = oddsMLE(x1, n1, x2, n2, psi)
 	return p1, p2
@@ -40,7 +41,12 @@ func oddsMLE(x1, n1, x2, n2 int64, psi float64) (p1, q1, p2, q2 float64) {
 	A := f2 * (psi - 1)
 	B := f1*psi + f2 - m*(psi-1)
 	disc := math.Max(0, B*B+4*A*m)
-	p2 = clamp01(2 * m / (B + math.Sqrt(disc)))
+	if B >= 0 {
+		p2 = clamp01(2 * m / (B + math.Sqrt(disc)))
+	} else {
+		// B < 0 only when psi > 1 (so A > 0); B + sqrt(disc) would cancel.
+		p2 = clamp01((math.Sqrt(disc) - B) / (2 * A))
+	}
 	q2 = 1 - p2
 	if p2 > 0.5 {
 		C := psi*(2*f2+f1-m) + m - f2
