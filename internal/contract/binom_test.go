@@ -54,6 +54,18 @@ var dists = []struct {
 		_, hi := h.Support()
 		return h, true, hi
 	}},
+	{"FloatDist", func(a args) (any, bool, int64) {
+		n, p := a.C(), a.F()
+		var src rand.Source
+		if a.B() {
+			src = rand.NewPCG(3, 3)
+		}
+		d, err := binom.New(n, p)
+		if err != nil {
+			return binom.Dist{N: n, P: p}.Float(src), false, 0
+		}
+		return d.Float(src), true, d.N
+	}},
 	{"BetaBinom", func(a args) (any, bool, int64) {
 		n, x, y := a.C(), a.F()*10, a.F()*10
 		d, err := binom.NewBetaBinom(n, x, y)
@@ -109,7 +121,13 @@ func distEntries() []entry {
 								x = -x * 50 // log levels: 0 and below, and some above 0
 							}
 							in[j] = reflect.ValueOf(x)
-							argOK = quantileArgOK(m.Name, x)
+							argOK = quantileArgOK(m.Name, x) && !math.IsNaN(x)
+						case reflect.TypeOf((*rand.Source)(nil)).Elem():
+							var src rand.Source
+							if a.B() {
+								src = rand.NewPCG(5, 5)
+							}
+							in[j] = reflect.ValueOf(&src).Elem()
 						case reflect.TypeOf((*rand.Rand)(nil)):
 							var r *rand.Rand
 							if a.B() {
@@ -171,6 +189,12 @@ func checkDist(x any) string {
 				continue
 			}
 			switch m := v.method; {
+			case math.IsNaN(r) && !v.argOK:
+				// A NaN or out-of-domain argument: the documented NaN.
+			case m == "Quantile" || m == "Rand": // FloatDist's float-valued ones
+				if !(r >= 0 && r <= float64(v.top)) {
+					return fmt.Sprintf("%s = %v outside the support [0, %d]", m, r, v.top)
+				}
 			case m == "Skewness" || m == "ExKurtosis":
 				// Documented: NaN for a point mass, and beyond the float
 				// range (a subnormal P) an infinity.
