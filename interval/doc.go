@@ -5,6 +5,10 @@
 // cells of a matched table (PairedDifference, DiscordantRatio), and the
 // exact coverage and expected width of any one-proportion method
 // (Coverage, CoverageCurve, CoverageOverN).
+// StageWise gives the exact interval for p after a multi-stage study (a
+// Simon two-stage or group-sequential design, described by its Looks) by
+// the stage-wise ordering, which the plain interval for k of n is not
+// after a design that may stop early.
 //
 // In use (an invented sign-up test: 17 of 40 visitors converted):
 //

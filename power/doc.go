@@ -112,6 +112,29 @@
 // DifferenceSequenceErrorProb gives the exact time-uniform error of the
 // two-sample confidence sequences of package test.
 //
+// # Multi-stage designs
+//
+// Simon finds Simon's (1989) optimal and minimax two-stage designs for a
+// single-arm study, and the admissible designs between them (Jung, Lee,
+// Kim and George 2004), by an exact search with pruning that never drops a
+// candidate; EvaluateTwoStage gives the early-stopping probability,
+// expected size and rejection probability of any design. SequentialOne
+// designs a group-sequential test of one proportion with Lan-DeMets error
+// spending (OBrienFleming, Pocock, PowerFamily) and optional futility
+// bounds from beta spending (binding or non-binding), with exact stopping
+// counts found by dynamic programming over the count; SequentialOneN sizes
+// it. SequentialTwo designs the two-proportion version on the normal
+// approximation (SpendingBounds gives the normal-theory bounds) and checks
+// the attained size and power exactly by enumerating both groups' counts.
+// The inference at the end of a one-proportion multi-stage study is
+// test.StageWise and interval.StageWise, which take the Looks of a design
+// (TwoStage.Looks, SequentialOneDesign.StageLooks). Sources: Simon R
+// (1989), Controlled Clinical Trials 10:1-10; Jung SH, Lee T, Kim K,
+// George SL (2004), Statistics in Medicine 23:561-569; Lan KKG, DeMets DL
+// (1983), Biometrika 70:659-663; Kim K, DeMets DL (1987), Biometrika
+// 74:149-154; Jennison C, Turnbull BW (2000), Group Sequential Methods with
+// Applications to Clinical Trials, Chapman & Hall/CRC.
+//
 // # Limits and errors
 //
 // Every search and enumeration takes a context.Context, checks it in its
@@ -142,6 +165,7 @@
 // standards (for example the acceptance sampling standards in force for
 // the product) and local practice that apply. The power of a test holds
 // only under its assumptions (independent trials with a common
-// probability); clustering, drop-out, multiple endpoints or interim looks
-// change the answer.
+// probability); clustering, drop-out and multiple endpoints change the
+// answer, and interim looks must be planned (see Multi-stage designs), not
+// added to a single-stage plan.
 package power

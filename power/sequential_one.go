@@ -5,8 +5,10 @@ import (
 	"math"
 	"strconv"
 
+	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
+	"github.com/kofnlab/kofn/internal/root"
 	"github.com/kofnlab/kofn/internal/stagewise"
 )
 
@@ -381,6 +383,23 @@ func (d *SequentialOneDesign) evaluate(ctx context.Context, st []Look, alpha, be
 	return nil
 }
 
+// npFirstN returns the smallest n <= maxN at which the most powerful
+// randomized one-sided level-alpha test of p0 against p1 has power 1 -
+// beta (maxN + 1 if none), by bisection over n: that power never falls as
+// n grows, since a test of n + 1 trials may ignore one.
+func npFirstN(p0, p1, alpha, beta float64, maxN int64) int64 {
+	ok := func(n int64) bool {
+		d0, d1 := binom.Dist{N: n, P: p0}, binom.Dist{N: n, P: p1}
+		c := d0.UpperQuantile(alpha) // smallest c with P0(X > c) <= alpha
+		pw := d1.Survival(c)
+		if f0 := d0.Prob(c); f0 > 0 {
+			pw += (alpha - d0.Survival(c)) / f0 * d1.Prob(c)
+		}
+		return pw >= (1-beta)*(1-spendTol)
+	}
+	return root.SmallestInt(ok, 1, maxN)
+}
+
 // zScore is the score statistic of count k of n at p0 (sd = sqrt(p0 q0)),
 // +Inf above n and -Inf below 0.
 func zScore(k, n int64, p0, sd float64) float64 {
@@ -405,12 +424,15 @@ func EqualLooks(n int64, k int) []int64 {
 
 // SequentialOneN returns the smallest final size N (looks equally spaced:
 // EqualLooks(N, looks)) whose SequentialOne design has power at least 1 -
-// beta at p1, searching N from looks up to maxN (0 means DefaultMaxPlanN
-// capped at MaxStageWiseN). Power is a sawtooth in N (see the package
-// doc): the first N found is returned, and larger N can fall short. Cost:
-// one design per N, with a bracketing pass over N in steps of a tenth of
-// the normal-approximation size; ctx checked. ErrNoSolution when no N up to
-// maxN reaches the power.
+// beta at p1, searching N from looks up to maxN (0 means
+// 5000, at most MaxStageWiseN). Power is a sawtooth in N (see the package
+// doc): the first N found is returned, and larger N can fall short. The
+// search starts at the smallest N whose most powerful single-stage test
+// reaches the power (no multi-stage design of that size does better) and
+// steps up one N at a time, one design each: O(N^2) per step, usually a
+// few dozen steps; ctx checked. ErrNoSolution when no N up to maxN
+// reaches the power (at once when even the single-stage bound exceeds
+// maxN).
 func SequentialOneN(ctx context.Context, p0, p1, alpha, beta float64, looks int, maxN int64, opt SequentialOptions) (SequentialOneDesign, error) {
 	const fn = "power.SequentialOneN"
 	if err := checkSequentialArgs(fn, p0, p1, alpha, beta, opt); err != nil {
@@ -428,7 +450,14 @@ func SequentialOneN(ctx context.Context, p0, p1, alpha, beta float64, looks int,
 	if maxN < int64(looks) {
 		return SequentialOneDesign{}, argerr.Invalid(fn, "maxN", maxN, "is below the number of looks")
 	}
-	for n := int64(looks); n <= maxN; n++ {
+	// No design with final size n beats the most powerful (randomized)
+	// single-stage test of n trials (Neyman-Pearson lemma): start there.
+	lo := npFirstN(p0, p1, alpha, beta, maxN)
+	if lo > maxN {
+		return SequentialOneDesign{}, argerr.NoSolution(fn, "no final size up to maxN = "+argerr.Format(maxN)+
+			" reaches the power: even a single-stage test needs more")
+	}
+	for n := max(int64(looks), lo); n <= maxN; n++ {
 		if err := argerr.Canceled(fn, ctx); err != nil {
 			return SequentialOneDesign{}, err
 		}

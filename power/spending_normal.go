@@ -51,8 +51,8 @@ const maxGrid = 2001
 func (g *gsGrid) next(ctx context.Context, t, c, l float64, h float64) (*gsGrid, error) {
 	st := math.Sqrt(t)
 	a, b := l*st, c*st
-	a = math.Max(a, g.eta*t-12*st)
-	b = math.Min(b, g.eta*t+12*st)
+	a = math.Max(a, g.eta*t-9*st)
+	b = math.Min(b, g.eta*t+9*st)
 	ng := &gsGrid{t: t, eta: g.eta}
 	if !(b > a) {
 		return ng, nil
@@ -99,7 +99,7 @@ func (g *gsGrid) next(ctx context.Context, t, c, l float64, h float64) (*gsGrid,
 
 func normPDF(x float64) float64 { return math.Exp(-0.5*x*x) / math.Sqrt(2*math.Pi) }
 
-// gridStep returns the grid spacing for information fractions t: a 24th
+// gridStep returns the grid spacing for information fractions t: a 16th
 // of the smallest standard deviation of an increment.
 func gridStep(t []float64) float64 {
 	prev, m := 0.0, math.Inf(1)
@@ -107,7 +107,7 @@ func gridStep(t []float64) float64 {
 		m = math.Min(m, math.Sqrt(x-prev))
 		prev = x
 	}
-	return m / 24
+	return m / 16
 }
 
 // normalBounds holds normal-theory boundaries and their crossing
@@ -207,9 +207,11 @@ func boundsAt(ctx context.Context, t []float64, alpha, beta, eta float64, opt Se
 // (up to the negligible probability of crossing both). The recursion is
 // numerical integration on a grid of at most 2001 points per look with
 // Simpson's rule (Jennison C, Turnbull BW (2000), Group Sequential Methods
-// with Applications to Clinical Trials, chapter 19); boundaries within
-// about 1e-6 of the exact values. Cost O(K * 2001^2) at worst (a few
-// milliseconds for five equally spaced looks). Errors: t invalid, more
+// with Applications to Clinical Trials, chapter 19), the points a
+// sixteenth of an increment's standard deviation apart over 9 standard
+// deviations each side; boundaries within about 1e-6 of the exact values
+// (halving the spacing moves them by less than 1e-7). Cost O(K * 2001^2)
+// at worst (about 30 ms for five equally spaced looks). Errors: t invalid, more
 // than MaxLooks looks, alpha outside (0, 0.5), an invalid f.
 func SpendingBounds(ctx context.Context, t []float64, alpha float64, f SpendingFunction) ([]float64, error) {
 	const fn = "power.SpendingBounds"
@@ -265,26 +267,23 @@ func driftFor(ctx context.Context, t []float64, alpha, beta float64, opt Sequent
 		}
 		return p, nb, nil
 	}
-	lo, hi := 0.0, 2*(-mathext.NormalQuantile(alpha)-mathext.NormalQuantile(beta))+2
-	var best normalBounds
-	for range 60 {
-		mid := 0.5 * (lo + hi)
-		p, nb, err := power(mid)
+	hi := 2*(-mathext.NormalQuantile(alpha)-mathext.NormalQuantile(beta)) + 2
+	var ferr error
+	f := func(eta float64) float64 {
+		p, _, err := power(eta)
 		if err != nil {
-			return nb, err
+			ferr = err
+			return 0
 		}
-		if p >= 1-beta {
-			hi, best = mid, nb
-		} else {
-			lo = mid
-		}
-		if hi-lo < 1e-10*hi {
-			break
-		}
+		return p - (1 - beta)
 	}
-	if best.upper == nil {
-		_, nb, err := power(hi)
-		return nb, err
+	eta, err := root.Brent(f, 0, hi, 1e-12, 1e-12)
+	if ferr != nil {
+		return normalBounds{}, ferr
 	}
-	return best, nil
+	if err != nil {
+		return normalBounds{}, err
+	}
+	_, nb, err := power(eta)
+	return nb, err
 }

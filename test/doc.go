@@ -47,6 +47,10 @@
 //     (exact product method, or the asymptotic normal mixture of Johari et
 //     al. 2022), valid at every look of a look schedule chosen freely. The
 //     hypotheses, levels and mixtures must still be fixed in advance.
+//   - StageWise: H0 P = p0 at the end of a multi-stage study (a Simon
+//     two-stage or a group-sequential design, given by its looks), the
+//     exact p-value of the stage-wise ordering (Jennison and Turnbull
+//     2000, section 8.4; Koyama and Chen 2008), with interval.StageWise.
 //
 // Every function returns a Result with the statistic, the p-value and its
 // natural logarithm (finite where the p-value underflows: at totals of
