@@ -134,6 +134,7 @@ type tailVal struct {
 	form  int  // formProd, formLin or formLog
 	lb, f float64
 	s, ls float64
+	pmf   float64 // b(k) from the expansion's parts (formLin), for the quantile walk
 }
 
 const (
@@ -238,9 +239,9 @@ func (d Dist) smallTail(k int64) tailVal {
 		m := math.Min(fk+1, n-fk)
 		z := fk + 0.5 - n*d.P
 		if m >= temmeMinAB && z*z <= temmeZ2*m*v {
-			if ls, small, lo, ok := d.temmeSmall(k); ok {
+			if ls, small, pmf, lo, ok := d.temmeSmall(k); ok {
 				if math.IsNaN(ls) {
-					return tailVal{lower: lo, form: formLin, s: small}
+					return tailVal{lower: lo, form: formLin, s: small, pmf: pmf}
 				}
 				return tailVal{lower: lo, form: formLog, ls: ls}
 			}

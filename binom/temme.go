@@ -132,7 +132,7 @@ func temmeInit() {
 // not converged to double precision within temmeOrder terms (the caller
 // then uses the continued fraction or the term sums).
 func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
-	lnSmall, small, lower, ok = d.temmeSmall(k)
+	lnSmall, small, _, lower, ok = d.temmeSmall(k)
 	if ok && math.IsNaN(lnSmall) {
 		lnSmall = xmath.Log(small)
 	}
@@ -140,8 +140,15 @@ func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
 }
 
 // temmeSmall is temmeTail with lnSmall left NaN where the plain tail is
-// at hand (above about 1e-190), for callers that may not need it.
-func (d Dist) temmeSmall(k int64) (lnSmall, small float64, lower, ok bool) {
+// at hand (above about 1e-190), for callers that may not need it, and
+// with b(k) = P(X = k) from the same parts where they give it (0
+// elsewhere): with a = N-k, b = k+1, mu = N+1,
+//
+//	b(k) = x^a (1-x)^b / (a P B(a, b)) = phi(z) sqrt(b / (a mu)) / (P D)
+//
+// by Stirling's formula for 1/B(a, b) = sqrt(a b / (2 pi mu)) mu^mu /
+// (a^a b^b D), the same deviance and D as the tail.
+func (d Dist) temmeSmall(k int64) (lnSmall, small, pmf float64, lower, ok bool) {
 	temmeOnce.Do(temmeInit)
 	fa := float64(d.N - k)
 	fb := float64(k + 1)
@@ -160,7 +167,8 @@ func (d Dist) temmeSmall(k int64) (lnSmall, small float64, lower, ok bool) {
 	// One division for every reciprocal below (a, b, mu >= 25).
 	rab := 1 / (fa * fb * mu)
 	e := rab * fa * fb              // mu^(-1)
-	w := (fb - fa) * math.Sqrt(rab) // omega mu^(-1/2) = (b-a)/sqrt(a b mu)
+	sr := math.Sqrt(rab)
+	w := (fb - fa) * sr // omega mu^(-1/2) = (b-a)/sqrt(a b mu)
 	w2 := w * w
 	var epow [temmeOrder/2 + 1]float64
 	epow[0] = 1
@@ -199,7 +207,7 @@ func (d Dist) temmeSmall(k int64) (lnSmall, small float64, lower, ok bool) {
 		prevAbs = at
 	}
 	if !converged {
-		return 0, 0, lower, false
+		return 0, 0, 0, lower, false
 	}
 	// D = Gamma*(a) Gamma*(b) / Gamma*(mu) = e^x with |x| < 0.007 (a, b >=
 	// 25): Taylor to x^6 is exact to 1e-19.
@@ -212,11 +220,12 @@ func (d Dist) temmeSmall(k int64) (lnSmall, small float64, lower, ok bool) {
 	lnPhi := -dev - 0.5*ln2pi
 	if az < 30 {
 		// Tail = Phi(-|z|) -+ phi(z) S/D, both terms from erfc and exp.
-		small = 0.5*math.Erfc(az/math.Sqrt2) + math.Exp(lnPhi)*corr
-		return math.NaN(), small, lower, true
+		ePhi := math.Exp(lnPhi)
+		small = 0.5*math.Erfc(az/math.Sqrt2) + ePhi*corr
+		return math.NaN(), small, ePhi * (fb * sr) / (d.P * dd), lower, true
 	}
 	lnSmall = lnPhi + math.Log(millsRatio(az)+corr)
-	return lnSmall, math.Exp(lnSmall), lower, true
+	return lnSmall, math.Exp(lnSmall), 0, lower, true
 }
 
 // millsRatio returns Phi(-x)/phi(x) for x >= 30 by its asymptotic series

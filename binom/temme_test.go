@@ -67,3 +67,36 @@ func TestTemmeNormalisation(t *testing.T) {
 		}
 	}
 }
+
+// TestTemmePMF checks the PMF the expansion's parts give (for the quantile
+// walk) against LogProb, Loader's form: two assemblies of the same
+// Stirling and deviance terms, within 4e-15 max(1, |ln b|) relative (the
+// exponential of a deviance of size |ln b| carries that much rounding).
+func TestTemmePMF(t *testing.T) {
+	t.Parallel()
+	checked := 0
+	for _, n := range []int64{100, 1000, 12345, 1e6, 1e9, 1e12} {
+		for _, p := range []float64{0.01, 0.3, 0.5, 0.8} {
+			d := Dist{N: n, P: p}
+			for _, z := range []float64{-8, -3, -1, 0, 0.5, 2, 6} {
+				k := int64(d.Mean() + z*d.StdDev())
+				if k < 0 || k >= n {
+					continue
+				}
+				_, _, pmf, _, ok := d.temmeSmall(k)
+				if !ok || pmf == 0 {
+					continue
+				}
+				lw := d.LogProb(k)
+				want := math.Exp(lw)
+				if math.Abs(pmf-want) > 4e-15*math.Max(1, -lw)*want {
+					t.Errorf("%v k=%d: expansion's PMF %v, Prob %v", d, k, pmf, want)
+				}
+				checked++
+			}
+		}
+	}
+	if checked < 60 {
+		t.Errorf("only %d points checked", checked)
+	}
+}
