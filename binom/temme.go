@@ -166,7 +166,7 @@ func (d Dist) temmeSmall(k int64) (lnSmall, small, pmf float64, lower, ok bool) 
 	tol := 2e-17 / (az + math.Sqrt(az*az+4))
 	// One division for every reciprocal below (a, b, mu >= 25).
 	rab := 1 / (fa * fb * mu)
-	e := rab * fa * fb              // mu^(-1)
+	e := rab * fa * fb // mu^(-1)
 	sr := math.Sqrt(rab)
 	w := (fb - fa) * sr // omega mu^(-1/2) = (b-a)/sqrt(a b mu)
 	w2 := w * w
