@@ -89,7 +89,8 @@ func checkJSONLine(t *testing.T, line string) {
 	s, out, _ := testSession()
 	ctx, cancel := context.WithTimeout(context.Background(), 5*time.Second)
 	defer cancel()
-	if err := s.Run(ctx, line+" --json"); errors.Is(err, context.DeadlineExceeded) {
+	// Before any comment: "... # note --json" would comment the flag out.
+	if err := s.Run(ctx, strings.Join(splitLine(line), " ")+" --json"); errors.Is(err, context.DeadlineExceeded) {
 		return
 	}
 	for _, l := range strings.Split(strings.TrimSuffix(out.String(), "\n"), "\n") {
