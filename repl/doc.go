@@ -21,7 +21,9 @@
 //
 // Session settings (confidence level, digits, default methods, JSON output,
 // plot style and width) are changed with "set name=value" and shown with
-// "set" alone; they last for the session.
+// "set" alone; they last for the session. "record FILE" writes the
+// session's commands with their text and JSON results to FILE, as comment
+// lines under each command, so the record runs again as a script.
 //
 // # Output
 //

@@ -43,7 +43,9 @@ type Session struct {
 	script      bool   // prefix errors with the line number
 	interactive bool   // at a terminal prompt
 	lineNo      int
-	jsonOnce    bool // --json on the line being run
+	jsonOnce    bool      // --json on the line being run
+	depth       int       // nesting of Run (tour runs its steps through Run)
+	rec         *recorder // the session record, when one is being written
 }
 
 // jsonOut reports whether results print as JSON: the json setting, or
@@ -73,15 +75,19 @@ func (s *Session) Run(ctx context.Context, line string) error {
 		s.jsonOnce = true
 		defer func() { s.jsonOnce = false }()
 	}
+	s.depth++
+	defer func() { s.depth-- }()
 	c, err := s.exec(ctx, line, words)
 	if err != nil {
 		if errors.Is(err, errQuit) {
 			return err
 		}
 		s.report(words[0], err)
+		s.recordCall(line, words[0], nil, err)
 		return err
 	}
 	s.print(words[0], c)
+	s.recordCall(line, words[0], c, nil)
 	return nil
 }
 
@@ -151,11 +157,7 @@ func (s *Session) print(verb string, c *call) {
 		if c.data == nil {
 			return
 		}
-		b, err := jsonfloat.Marshal(struct {
-			Command string `json:"command"`
-			Input   string `json:"input"`
-			Result  any    `json:"result"`
-		}{strings.ToLower(verb), c.Line, c.data})
+		b, err := jsonEnvelope(verb, c)
 		if err != nil {
 			fmt.Fprintf(s.Err, "error: cannot encode the result as JSON: %v\n", err)
 			return
@@ -163,14 +165,28 @@ func (s *Session) print(verb string, c *call) {
 		fmt.Fprintf(s.Out, "%s\n", b)
 		return
 	}
+	renderText(s.Out, c)
+}
+
+// jsonEnvelope is the JSON form of a finished call.
+func jsonEnvelope(verb string, c *call) ([]byte, error) {
+	return jsonfloat.Marshal(struct {
+		Command string `json:"command"`
+		Input   string `json:"input"`
+		Result  any    `json:"result"`
+	}{strings.ToLower(verb), c.Line, c.data})
+}
+
+// renderText writes the call's text blocks and plots.
+func renderText(w io.Writer, c *call) {
 	for i, p := range c.parts {
 		if i > 0 {
-			io.WriteString(s.Out, "\n")
+			io.WriteString(w, "\n")
 		}
 		if p.block != nil {
-			p.block.render(s.Out)
+			p.block.render(w)
 		} else {
-			io.WriteString(s.Out, safeText(p.plot, true))
+			io.WriteString(w, safeText(p.plot, true))
 		}
 	}
 }

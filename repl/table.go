@@ -43,6 +43,7 @@ var commandTable = []func() *command{
 	eachCommand,
 	// session
 	setCommand,
+	recordCommand,
 	helpCommand,
 	tourCommand,
 	quitCommand,
