@@ -209,7 +209,9 @@ const simonTol = 1e-12
 //     r, and candidates whose expected size is not below the best already
 //     found at a smaller n are dominated and skipped;
 //   - r is the smallest count meeting the size (the size and power both
-//     fall as r grows), found by bisection;
+//     fall as r grows), found by a short walk up from the count of the
+//     same (n1, r1) at the previous n (the size at a fixed r only grows
+//     with n) or by bisection;
 //   - the search ends at the n beyond which n1 + q(n1)(n - n1) exceeds
 //     the best expected size for every n1, where q(n1) is the smallest
 //     continuation probability under p0 that the power allows.
@@ -217,10 +219,11 @@ const simonTol = 1e-12
 // Constraints are checked on tables of binomial probabilities built by
 // the Pascal recurrence with a relative tolerance of 1e-12; the reported
 // Alpha, Power, early-stopping probabilities and expected sizes are then
-// recomputed from binom's densities. Cost: a few milliseconds for the
-// common designs (p1 - p0 = 0.2), growing roughly as n^3 (about a second
-// when n is near 300); memory 32 MaxN^2 bytes; ctx is checked in the
-// loops. Errors: p0, p1 not in (0, 1) with p0 < p1; alpha, beta not in (0,
+// recomputed from binom's densities. Cost, measured on two cores: under
+// a millisecond for the common designs (p1 - p0 = 0.2, n below 50), about
+// 7 ms for p0 = 0.5, p1 = 0.6 (n near 200), 80 ms near n = 300 and 0.2 s
+// near n = 400, growing roughly as n^3; memory 32 MaxN^2 bytes; ctx is
+// checked for every n. Errors: p0, p1 not in (0, 1) with p0 < p1; alpha, beta not in (0,
 // 1) with alpha + beta < 1; MaxN above MaxSimonN (ErrTooLarge); no design
 // with n <= MaxN (ErrNoSolution). When the bound on n that proves
 // optimality exceeds MaxN, a warning says the optimal design is the best
@@ -360,6 +363,11 @@ type simonSearch struct {
 	pmf0, pmf1           [][]float64 // pmf[m][x], x = 0..m
 	sf0, sf1             [][]float64 // sf[m][x] = P(X > x), x = 0..m
 	r1max                []int64     // largest r1 with P1(X1 > r1) >= power, -1 if none
+	// rLast[n1][r1] is the smallest final count meeting the size found for
+	// (n1, r1) at a smaller n (-1: none yet). The size at a fixed r grows
+	// with n (one more second-stage trial can only add rejections), so it
+	// bounds the count at larger n from below.
+	rLast [][]int32
 }
 
 func newSimonSearch(p0, p1, alpha, beta float64) *simonSearch {
@@ -369,6 +377,7 @@ func newSimonSearch(p0, p1, alpha, beta float64) *simonSearch {
 	s.sf0 = [][]float64{{0}}
 	s.sf1 = [][]float64{{0}}
 	s.r1max = []int64{-1}
+	s.rLast = [][]int32{nil}
 	return s
 }
 
@@ -408,6 +417,11 @@ func (s *simonSearch) grow(n int64) {
 			}
 		}
 		s.r1max = append(s.r1max, r)
+		last := make([]int32, r+1)
+		for i := range last {
+			last[i] = -1
+		}
+		s.rLast = append(s.rLast, last)
 	}
 }
 
@@ -494,19 +508,32 @@ func (s *simonSearch) bestAt(n int64, bound float64) (simonCand, bool) {
 			if en >= best.en {
 				continue
 			}
-			// smallest r in [r1, rHi] with size <= alpha.
+			// smallest r in [r1, rHi] with size <= alpha: a short walk up
+			// from the count found at a smaller n, else bisection.
 			lo, hi := r1, max(rHi, r1)
-			if stageTail(f0, sf0n2, r1, hi) > s.alpha*(1+simonTol) {
+			ok := func(r int64) bool { return stageTail(f0, sf0n2, r1, r) <= s.alpha*(1+simonTol) }
+			if c := int64(s.rLast[n1][r1]); c >= 0 {
+				lo = min(max(lo, c), hi)
+				for steps := 0; lo < hi && steps < 4 && !ok(lo); steps++ {
+					lo++
+				}
+				if lo < hi && !ok(lo) {
+					lo++
+				} else {
+					hi = lo
+				}
+			} else if !ok(hi) {
 				continue
 			}
 			for lo < hi {
 				mid := lo + (hi-lo)/2
-				if stageTail(f0, sf0n2, r1, mid) <= s.alpha*(1+simonTol) {
+				if ok(mid) {
 					hi = mid
 				} else {
 					lo = mid + 1
 				}
 			}
+			s.rLast[n1][r1] = int32(hi)
 			rHi = hi
 			if stageTail(f1, sf1n2, r1, hi) >= s.power*(1-simonTol) {
 				best = simonCand{TwoStage: TwoStage{R1: r1, N1: n1, R: hi, N: n}, en: en}
