@@ -214,6 +214,9 @@ func DiscordantRatio(n12, n21 int64, opt Options) (Interval, error) {
 	if err := argerr.Count(fn, "n21", n21); err != nil {
 		return Interval{}, err
 	}
+	if n12 > binom.MaxN-n21 { // checked before the sum, which could overflow
+		return Interval{}, argerr.TooLarge(fn, "n12", n12, "plus n21 = "+argerr.Format(n21)+" exceeds 2^53")
+	}
 	m := n12 + n21
 	if m == 0 {
 		return Interval{}, argerr.Invalid(fn, "n12 + n21", m, "is 0; the ratio needs at least one discordant pair")

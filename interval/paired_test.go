@@ -163,5 +163,12 @@ func TestPairedOverflow(t *testing.T) {
 		if strings.Contains(err.Error(), "= -") {
 			t.Errorf("PairedDifference(%v) error %q prints a negative (overflowed) value", c, err)
 		}
+		if c[0] <= binom.MaxN-c[1] {
+			continue // n12 + n21 within 2^53: a valid discordant ratio
+		}
+		_, err = interval.DiscordantRatio(c[0], c[1], interval.Options{})
+		if !errors.Is(err, interval.ErrTooLarge) || strings.Contains(err.Error(), "= -") {
+			t.Errorf("DiscordantRatio(%d, %d) error = %v, want ErrTooLarge with the caller's values", c[0], c[1], err)
+		}
 	}
 }
