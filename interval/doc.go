@@ -111,6 +111,15 @@
 // Symposium 4:135-148; Tango T (1998), Statistics in Medicine 17:891-908.
 // Each function's comment names the source of its method.
 //
+// # Credible intervals
+//
+// Credible returns Bayesian credible intervals (equal-tailed or highest
+// posterior density) for one proportion under a stated Beta prior (Prior:
+// Jeffreys, the zero value, uniform or informative); NewPosterior gives the
+// posterior's mean, median, mode, spread and tail probabilities P(p > c).
+// Every credible interval carries its prior (Interval.Prior). A credible
+// interval is a statement about the posterior, not a coverage guarantee.
+//
 // # Caution
 //
 // Results in clinical studies, safety-critical acceptance or other

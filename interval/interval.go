@@ -27,6 +27,9 @@ type Interval struct {
 	// Parameter names what the interval is for: "p", "p1 - p2", "p1 / p2",
 	// "odds ratio", "paired p1 - p2" or "discordant ratio n12 / n21".
 	Parameter string `json:"parameter"`
+	// Prior is the Beta prior of a credible interval (Credible and the
+	// credible intervals for two arms); nil for a confidence interval.
+	Prior *Prior `json:"prior,omitempty"`
 	// Clipped reports that a limit of an approximate method fell outside
 	// the parameter's range and was moved to its end (a Warning says which).
 	Clipped bool `json:"clipped"`

@@ -132,4 +132,19 @@
 // O, Nurminen M (1985), Statistics in Medicine 4:213-226; Schuirmann DJ
 // (1987), Journal of Pharmacokinetics and Biopharmaceutics 15:657-680;
 // Sterne TE (1954), Biometrika 41:275-278.
+//
+// # Which arm is better, the Bayesian way
+//
+// Compare answers the question a two-sample test answers, "is arm 1 better
+// than arm 2?", with posterior probabilities instead of a p-value:
+// P(p1 > p2 | data), P(p2 > p1 | data) and the expected loss of choosing
+// each arm, under stated Beta priors (interval.Prior). It lives here, beside
+// the frequentist two-sample tests it is an alternative to, rather than in
+// interval (which holds the credible intervals themselves: interval.Credible)
+// so that a reader choosing how to compare two arms finds every way in one
+// package. Exact finite sums serve any size when a posterior shape is an
+// integer (uniform priors, or informative priors with integer shapes);
+// quadrature with an error estimate serves the rest up to
+// MaxQuadratureShapes. These probabilities are not p-values, and a decision
+// between treatments that can hurt someone needs a qualified statistician.
 package test

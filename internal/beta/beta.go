@@ -115,7 +115,7 @@ func LogCDF(a, b, x, y float64) float64 {
 	if x*(a+b+2) < a+1 {
 		return logDirect(a, b, x, y)
 	}
-	return xmath.Log1mExp(math.Min(0, LogUpper(b, a, y, x)))
+	return xmath.Log1mExp(math.Min(0, LogUpper(a, b, x, y)))
 }
 
 // LogUpper returns ln(1 - I_x(a, b)) = ln P(B > x), B ~ Beta(a, b), with
@@ -124,7 +124,8 @@ func LogCDF(a, b, x, y float64) float64 {
 // I_y(b, a), whose continued fraction in y converges there, but its first
 // coefficient 1 - (a+b) y/(b+1) is a difference of numbers near 1 that loses
 // about a factor 1/x of relative accuracy when x is small and b large. So
-// while (a+b) x <= 1e5 the lower tail is summed as the positive series
+// while x < 1/2 and (a+b) x <= 1e5 the lower tail is summed as the positive
+// series (which converges at least as fast as the powers of x)
 //
 //	I_x(a, b) = x^a y^b / (a B(a, b)) * sum_j prod_{i<j} (a+b+i) x / (a+1+i)
 //
@@ -143,7 +144,7 @@ func LogUpper(a, b, x, y float64) float64 {
 	if x*(a+b+2) < a+1 {
 		return xmath.Log1mExp(math.Min(0, logDirect(a, b, x, y)))
 	}
-	if (a+b)*x > 1e5 {
+	if x >= 0.5 || (a+b)*x > 1e5 {
 		return logDirect(b, a, y, x)
 	}
 	sum, t := 1.0, 1.0
@@ -259,6 +260,7 @@ func Quantile(a, b, lp float64, upper bool) float64 {
 	t := math.Log(a/b) + z*math.Sqrt(1/a+1/b)
 	t = math.Max(-tMax, math.Min(tMax, t))
 	lo, hi := -tMax, tMax
+	prevStep := math.Inf(1)
 	for i := 0; i < 200; i++ {
 		h, dh := f(t)
 		g, dg := sign*h, sign*dh
@@ -279,9 +281,14 @@ func Quantile(a, b, lp float64, upper bool) float64 {
 		if !(next > lo && next < hi) {
 			next = lo + 0.5*(hi-lo)
 		}
-		if math.Abs(next-t) <= 2e-16*math.Max(1, math.Abs(t)) || hi-lo <= 2e-16*math.Max(1, math.Abs(t)) {
+		step := math.Abs(next - t)
+		scale := math.Max(1, math.Abs(t))
+		// Converged: a step at rounding level, a collapsed bracket, or a
+		// small step that no longer shrinks (the tail's rounding noise).
+		if step <= 2e-16*scale || hi-lo <= 2e-16*scale || (step < 1e-13*scale && step > 0.5*prevStep) {
 			return next
 		}
+		prevStep = step
 		t = next
 	}
 	return t

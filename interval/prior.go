@@ -1,0 +1,169 @@
+package interval
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/jsonfloat"
+)
+
+// PriorKind names a Beta prior for a binomial proportion.
+type PriorKind int
+
+const (
+	// PriorJeffreys is Beta(1/2, 1/2), the Jeffreys prior of a binomial
+	// proportion (Jeffreys H (1946), "An invariant form for the prior
+	// probability in estimation problems", Proc. R. Soc. A 186:453-461). It
+	// is the zero value because it is invariant under reparametrisation,
+	// adds only one trial's worth of information, and its equal-tailed
+	// interval has coverage close to the level at every n (Brown, Cai and
+	// DasGupta 2001, Statistical Science 16:101-133, who recommend it).
+	PriorJeffreys PriorKind = iota
+	// PriorUniform is Beta(1, 1), the uniform prior of Bayes and Laplace,
+	// common in reports of "the probability that B beats A".
+	PriorUniform
+	// PriorBeta is an informative Beta(A, B) prior with the shapes given in
+	// Prior.A and Prior.B: A - 1 prior successes and B - 1 prior failures,
+	// or, loosely, a prior mean A/(A+B) worth A+B trials.
+	PriorBeta
+)
+
+var priorKindNames = [...]string{"Jeffreys", "uniform", "beta"}
+
+// String returns "Jeffreys", "uniform" or "beta".
+func (k PriorKind) String() string {
+	if k < 0 || int(k) >= len(priorKindNames) {
+		return "PriorKind(" + argerr.Format(int(k)) + ")"
+	}
+	return priorKindNames[k]
+}
+
+// MarshalText encodes the kind by its String form.
+func (k PriorKind) MarshalText() ([]byte, error) {
+	if k < 0 || int(k) >= len(priorKindNames) {
+		return nil, argerr.Invalid("interval.PriorKind.MarshalText", "k", int(k), "is not a prior kind")
+	}
+	return []byte(k.String()), nil
+}
+
+// UnmarshalText decodes a kind written by MarshalText (ParsePriorKind).
+func (k *PriorKind) UnmarshalText(b []byte) error {
+	v, err := ParsePriorKind(string(b))
+	if err != nil {
+		return err
+	}
+	*k = v
+	return nil
+}
+
+// ParsePriorKind accepts the String forms case-insensitively, and also
+// "flat" and "bayes-laplace" for the uniform prior and "informative" for
+// beta.
+func ParsePriorKind(s string) (PriorKind, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "jeffreys":
+		return PriorJeffreys, nil
+	case "uniform", "flat", "bayes-laplace":
+		return PriorUniform, nil
+	case "beta", "informative":
+		return PriorBeta, nil
+	}
+	return 0, argerr.Invalid("interval.ParsePriorKind", "s", s, "is not a prior; use Jeffreys, uniform or beta")
+}
+
+// PriorKindValues returns every PriorKind in order.
+func PriorKindValues() []PriorKind { return []PriorKind{PriorJeffreys, PriorUniform, PriorBeta} }
+
+// MaxShape is the largest Beta shape accepted, prior or posterior (1e15).
+const MaxShape = 1e15
+
+// Prior is a Beta(A, B) prior for a binomial proportion. The zero value is
+// the Jeffreys prior. For PriorJeffreys and PriorUniform the shapes are
+// implied (A and B may be left 0); for PriorBeta they must be given, each
+// in (0, 1e15]. Every result that depends on a prior carries the resolved
+// Prior (its kind and both shapes), so the prior is always stated.
+type Prior struct {
+	Kind PriorKind `json:"kind"`
+	A    float64   `json:"a"` // first shape: prior successes + 1, loosely
+	B    float64   `json:"b"` // second shape: prior failures + 1, loosely
+}
+
+// JeffreysPrior, UniformPrior and BetaPrior build the three kinds.
+func JeffreysPrior() Prior { return Prior{Kind: PriorJeffreys, A: 0.5, B: 0.5} }
+
+// UniformPrior returns the Beta(1, 1) prior.
+func UniformPrior() Prior { return Prior{Kind: PriorUniform, A: 1, B: 1} }
+
+// BetaPrior returns the informative Beta(a, b) prior (validated where it is
+// used).
+func BetaPrior(a, b float64) Prior { return Prior{Kind: PriorBeta, A: a, B: b} }
+
+// String gives the prior as a reader sees it: "Jeffreys Beta(0.5, 0.5)",
+// "uniform Beta(1, 1)", "beta Beta(2, 8)".
+func (p Prior) String() string {
+	r, err := p.Resolve("interval.Prior.String")
+	if err != nil {
+		return fmt.Sprintf("%v Beta(%v, %v) (invalid)", p.Kind, argerr.Format(p.A), argerr.Format(p.B))
+	}
+	return fmt.Sprintf("%v Beta(%v, %v)", r.Kind, argerr.Format(r.A), argerr.Format(r.B))
+}
+
+// MarshalJSON encodes the prior as {"kind", "a", "b"}.
+func (p Prior) MarshalJSON() ([]byte, error) {
+	type plain Prior
+	return jsonfloat.Marshal(plain(p))
+}
+
+// Resolve returns the prior with its shapes filled in and checked, for
+// function fn's error messages: PriorJeffreys and PriorUniform take their
+// fixed shapes (A and B must be 0 or equal to them), PriorBeta needs A and B
+// in (0, MaxShape].
+func (p Prior) Resolve(fn string) (Prior, error) {
+	var a, b float64
+	switch p.Kind {
+	case PriorJeffreys:
+		a, b = 0.5, 0.5
+	case PriorUniform:
+		a, b = 1, 1
+	case PriorBeta:
+		if !(p.A > 0 && p.A <= MaxShape) {
+			return Prior{}, argerr.Invalid(fn, "Prior.A", p.A, "must be positive and at most 1e15")
+		}
+		if !(p.B > 0 && p.B <= MaxShape) {
+			return Prior{}, argerr.Invalid(fn, "Prior.B", p.B, "must be positive and at most 1e15")
+		}
+		return p, nil
+	default:
+		return Prior{}, argerr.Invalid(fn, "Prior.Kind", int(p.Kind), "is not a prior kind; use PriorJeffreys, PriorUniform or PriorBeta")
+	}
+	if (p.A != 0 && p.A != a) || math.IsNaN(p.A) {
+		return Prior{}, argerr.Invalid(fn, "Prior.A", p.A, "contradicts the "+p.Kind.String()+" prior; use BetaPrior for other shapes")
+	}
+	if (p.B != 0 && p.B != b) || math.IsNaN(p.B) {
+		return Prior{}, argerr.Invalid(fn, "Prior.B", p.B, "contradicts the "+p.Kind.String()+" prior; use BetaPrior for other shapes")
+	}
+	return Prior{Kind: p.Kind, A: a, B: b}, nil
+}
+
+// Update returns the posterior shapes a + k, b + n - k after k successes in
+// n trials, checking the counts (kArg, nArg name them in errors) and that
+// the shapes stay within MaxShape.
+func (p Prior) Update(fn, kArg, nArg string, k, n int64) (Prior, float64, float64, error) {
+	r, err := p.Resolve(fn)
+	if err != nil {
+		return Prior{}, 0, 0, err
+	}
+	if err := argerr.KN(fn, kArg, nArg, k, n); err != nil {
+		return Prior{}, 0, 0, err
+	}
+	if n > 1<<49 {
+		return Prior{}, 0, 0, argerr.TooLarge(fn, nArg, n, "exceeds 2^49, beyond which posterior shapes lose the counts' last digits")
+	}
+	a, b := r.A+float64(k), r.B+float64(n-k)
+	if a > MaxShape || b > MaxShape {
+		return Prior{}, 0, 0, argerr.TooLarge(fn, nArg, n, "makes a posterior shape exceed 1e15")
+	}
+	return r, a, b, nil
+}
