@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"runtime"
 	"strings"
+	"sync"
 	"sync/atomic"
 	"testing"
 	"time"
@@ -133,4 +134,51 @@ func TestEachEscapesOnTerminal(t *testing.T) {
 	}
 }
 
-var _ = io.EOF
+
+// syncBuffer is a bytes.Buffer safe for the progress goroutine.
+type syncBuffer struct {
+	mu sync.Mutex
+	b  bytes.Buffer
+}
+
+func (s *syncBuffer) Write(p []byte) (int, error) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.b.Write(p)
+}
+
+func (s *syncBuffer) String() string {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.b.String()
+}
+
+// TestEachProgress: with a terminal for progress, a run longer than a
+// second writes a progress line (rows, rate, time left) and clears it at
+// the end; without one it writes nothing (runEach passes a progress
+// writer only when standard error is a terminal).
+func TestEachProgress(t *testing.T) {
+	if testing.Short() {
+		t.Skip("takes over a second")
+	}
+	t.Parallel()
+	cmd := tbl.get("bounds")
+	data := benchRows(cmd.Row.In, 30, 10, 300)
+	slow := func(_ context.Context, v []int64) ([]float64, error) {
+		time.Sleep(50 * time.Millisecond)
+		return []float64{0, 0, 1}, nil
+	}
+	var prog syncBuffer
+	job := batchJob{spec: cmd.Row, fn: slow, workers: 1, progress: &prog, size: int64(len(data)),
+		errText: func(err error) string { return err.Error() }}
+	if _, err := runBatch(context.Background(), bytes.NewReader(data), io.Discard, job); err != nil {
+		t.Fatal(err)
+	}
+	p := prog.String()
+	if !strings.Contains(p, "rows read") || !strings.Contains(p, "rows/s") || !strings.HasSuffix(p, "\r\x1b[K") {
+		t.Errorf("progress %q", p)
+	}
+	if strings.Contains(p, "\n") {
+		t.Errorf("progress wrote a new line: %q", p)
+	}
+}

@@ -85,3 +85,47 @@ func TestHistoryLongLines(t *testing.T) {
 		t.Errorf("lines %.80q", h.lines)
 	}
 }
+
+// TestInteractiveHistoryFallback runs the interactive loop with a FIFO,
+// a symbolic link and a directory where the history file belongs: each
+// time the shell says in one line why history is off, runs the commands,
+// and does not hang.
+func TestInteractiveHistoryFallback(t *testing.T) {
+	dir := t.TempDir()
+	target := filepath.Join(dir, "target")
+	os.WriteFile(target, []byte("x\n"), 0o644)
+	for name, mk := range map[string]func(string) error{
+		"fifo":      func(p string) error { return syscall.Mkfifo(p, 0o600) },
+		"symlink":   func(p string) error { return os.Symlink(target, p) },
+		"directory": func(p string) error { return os.Mkdir(p, 0o700) },
+	} {
+		state := filepath.Join(dir, name)
+		path := filepath.Join(state, "kofn", "history")
+		if err := os.MkdirAll(filepath.Dir(path), 0o700); err != nil {
+			t.Fatal(err)
+		}
+		if err := mk(path); err != nil {
+			t.Fatal(err)
+		}
+		t.Setenv("XDG_STATE_HOME", state)
+		var out, errw syncBuffer
+		s := NewSession(&out, &errw)
+		done := make(chan int, 1)
+		go func() { done <- interactive(s, strings.NewReader("bounds 17/40\n"), true) }()
+		select {
+		case <-done:
+		case <-time.After(10 * time.Second):
+			t.Fatalf("%s: the interactive shell hangs", name)
+		}
+		e := errw.String()
+		if !strings.HasPrefix(e, "kofn: no history this session: ") || strings.Count(e, "\n") != 1 || !strings.Contains(e, "not a regular file") {
+			t.Errorf("%s: stderr %q, want one line saying why history is off", name, e)
+		}
+		if !strings.Contains(out.String(), "Wilson interval") {
+			t.Errorf("%s: the command did not run: %q", name, out.String())
+		}
+	}
+	if b, _ := os.ReadFile(target); string(b) != "x\n" {
+		t.Errorf("the link's target changed: %q", b)
+	}
+}
