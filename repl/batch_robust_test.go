@@ -134,7 +134,6 @@ func TestEachEscapesOnTerminal(t *testing.T) {
 	}
 }
 
-
 // syncBuffer is a bytes.Buffer safe for the progress goroutine.
 type syncBuffer struct {
 	mu sync.Mutex
