@@ -1,6 +1,7 @@
 package repl
 
 import (
+	"fmt"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -69,4 +70,23 @@ func shortToken(tok string) string {
 // blanks, long words shortened and control characters escaped.
 func shellMessage(t *table, verb string, err error) string {
 	return safeText(shortenWords(shellError(t, verb, err)), false)
+}
+
+// jsonSafe escapes, as \uXXXX, the runes that encoding/json leaves raw
+// but a terminal acts on (DEL, C1 controls, bidirectional overrides).
+// They can only stand inside JSON strings, so the result is the same JSON
+// value, safe to show.
+func jsonSafe(b []byte) []byte {
+	if !needsEscape(string(b), true) {
+		return b
+	}
+	var out []byte
+	for _, r := range string(b) {
+		if unsafeRune(r) && r >= 0x20 {
+			out = fmt.Appendf(out, `\u%04x`, r)
+			continue
+		}
+		out = utf8.AppendRune(out, r)
+	}
+	return out
 }

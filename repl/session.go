@@ -138,7 +138,7 @@ func (s *Session) report(verb string, err error) {
 			Command string `json:"command"`
 			Error   string `json:"error"`
 		}{verb, msg})
-		fmt.Fprintf(s.Out, "%s\n", b)
+		fmt.Fprintf(s.Out, "%s\n", jsonSafe(b))
 	}
 	prefix := "error: "
 	if strings.HasPrefix(msg, "\n") {
@@ -168,13 +168,15 @@ func (s *Session) print(verb string, c *call) {
 	renderText(s.Out, c)
 }
 
-// jsonEnvelope is the JSON form of a finished call.
+// jsonEnvelope is the JSON form of a finished call, safe to show on a
+// terminal (see jsonSafe).
 func jsonEnvelope(verb string, c *call) ([]byte, error) {
-	return jsonfloat.Marshal(struct {
+	b, err := jsonfloat.Marshal(struct {
 		Command string `json:"command"`
 		Input   string `json:"input"`
 		Result  any    `json:"result"`
 	}{strings.ToLower(verb), c.Line, c.data})
+	return jsonSafe(b), err
 }
 
 // renderText writes the call's text blocks and plots.

@@ -1,6 +1,7 @@
 package repl
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"regexp"
@@ -136,5 +137,18 @@ func TestCurveTables(t *testing.T) {
 	// Pa(0.01) = 0.9397 (recalled, recomputed with scipy.stats.binom.cdf(2, 89, 0.01) = 0.93969).
 	if at := a["at"].([]any); len(at) != 3 || math.Abs(at[0].(map[string]any)["y"].(float64)-0.93969) > 1e-5 {
 		t.Errorf("at list: %v", a["at"])
+	}
+}
+
+// TestJSONSafe: DEL, C1 and bidirectional overrides leave JSON escaped,
+// and the value reads back unchanged (found by FuzzLine: "\x7f -json").
+func TestJSONSafe(t *testing.T) {
+	t.Parallel()
+	in := "a\x7fb\u0085c\u202ed\x1b"
+	b, _ := json.Marshal(in)
+	safe := jsonSafe(b)
+	var back string
+	if err := json.Unmarshal(safe, &back); err != nil || back != in || needsEscape(string(safe), true) {
+		t.Errorf("jsonSafe(%q) = %q, back %q, %v", b, safe, back, err)
 	}
 }
