@@ -134,3 +134,22 @@ func ExampleStageWise() {
 	// Output:
 	// p = 0.0086, 95% lower bound 0.0853
 }
+
+func BenchmarkStageWise(b *testing.B) {
+	// Simon's optimal design for p0 = 0.2, p1 = 0.4 (3/13, 12/43) and one
+	// for p0 = 0.5, p1 = 0.6 (32/61, 105/190): p-value and interval.
+	for _, c := range []struct {
+		name  string
+		looks []interval.Look
+		k     int64
+		p0    float64
+	}{{"n=43", simonLooks(3, 13, 12, 43), 14, 0.2}, {"n=190", simonLooks(32, 61, 105, 190), 110, 0.5}} {
+		b.Run(c.name, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := test.StageWise(context.Background(), c.looks, 2, c.k, c.p0, test.StageWiseOptions{Alternative: test.Higher}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

@@ -176,3 +176,62 @@ func TestValidate(t *testing.T) {
 		t.Errorf("New with a cancelled context = %v, want context.Canceled", err)
 	}
 }
+
+// TestTailsMonotone checks, over random small designs and every stopping
+// outcome, that the upper stage-wise tail rises and the lower tail falls
+// with p (the property interval.StageWise's bisection relies on; the
+// stage-wise ordering is stochastically monotone for the binomial).
+func TestTailsMonotone(t *testing.T) {
+	t.Parallel()
+	rng := uint64(12345)
+	next := func(n int64) int64 { // xorshift, deterministic
+		rng ^= rng << 13
+		rng ^= rng >> 7
+		rng ^= rng << 17
+		return int64(rng % uint64(n))
+	}
+	valid := 0
+	for trial := 0; trial < 60; trial++ {
+		K := 1 + int(next(4))
+		var looks []Look
+		var n int64
+		for k := 0; k < K; k++ {
+			n += 1 + next(12)
+			fut := next(n+2) - 1
+			eff := fut + 2 + next(n-fut+1)
+			if eff > n+1 {
+				eff = n + 1
+			}
+			if k == K-1 {
+				eff = fut + 1
+				if fut < 0 {
+					fut, eff = 0, 1
+				}
+			}
+			looks = append(looks, Look{N: n, Futility: fut, Efficacy: eff})
+		}
+		if Validate("test", looks) != nil {
+			continue
+		}
+		valid++
+		for k, l := range looks {
+			for s := int64(0); s <= l.N; s++ {
+				if s > l.Futility && s < l.Efficacy {
+					continue
+				}
+				prevU, prevL := -1.0, 2.0
+				for p := 0.02; p < 1; p += 0.04 {
+					u, _ := LogTail(context.Background(), looks, k, s, p, UpperTail)
+					lo, _ := LogTail(context.Background(), looks, k, s, p, LowerTail)
+					if math.Exp(u) < prevU*(1-1e-12) || math.Exp(lo) > prevL*(1+1e-12) {
+						t.Fatalf("design %+v outcome (%d, %d): tails not monotone at p = %.2f", looks, k+1, s, p)
+					}
+					prevU, prevL = math.Exp(u), math.Exp(lo)
+				}
+			}
+		}
+	}
+	if valid < 20 {
+		t.Fatalf("only %d of 60 random designs were valid", valid)
+	}
+}
