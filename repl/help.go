@@ -81,6 +81,8 @@ func runHelp(c *call) error {
 			doc := o.Doc
 			if len(o.Values) > 0 && o.Name == "method" {
 				doc += ": " + strings.Join(o.Values, ", ")
+			} else if len(o.Values) > 0 && !mentionsAll(doc, o.Values) {
+				doc += " (" + strings.Join(o.Values, ", ") + ")"
 			}
 			sb.WriteString(hangText(pad(o.Name, nw)+"  ", doc, w, "  "))
 		}
@@ -168,4 +170,15 @@ func hangText(label, text string, width int, indent string) string {
 		}
 	}
 	return sb.String()
+}
+
+// mentionsAll reports whether doc names every value (so the help need not
+// list them again).
+func mentionsAll(doc string, values []string) bool {
+	for _, v := range values {
+		if !strings.Contains(doc, v) {
+			return false
+		}
+	}
+	return true
 }

@@ -67,6 +67,14 @@ func TestCompletion(t *testing.T) {
 		{"cover n=30 method=wald,wi", "wald,wilson ", "wald,wi"},
 		{"each data.csv bo", "bounds ", "bo"},
 		{"each data.csv bounds me", "method=", "me"},
+		// Values read from the packages' lists (test.AlternativeValues, test.TwoSidedRuleValues,
+		// test.BinomialMethodValues, test.McNemarMethodValues).
+		{"check 17/40 p=0.3 alt=", "higher ", ""},
+		{"versus 1/2 3/4 rule=bl", "blaker ", "bl"},
+		{"check 17/40 p=0.3 method=", "likelihood-ratio ", ""},
+		{"flips 1 2 3 4 method=a", "asymptotic-cc ", "a"},
+		{"detect n=10..20 p=0.3 truth=0.5 show=", "table ", ""},
+		{"set check=", "score ", ""},
 	}
 	for _, tc := range tests {
 		cands, word := completions(tbl, tc.head)
