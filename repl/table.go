@@ -31,6 +31,8 @@ var commandTable = []func() *command{
 	armsCommand,
 	splitCommand,
 	familyCommand,
+	strataCommand,
+	trendCommand,
 	// planning
 	detectCommand,
 	sizeCommand,

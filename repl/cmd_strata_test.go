@@ -1,0 +1,77 @@
+package repl
+
+import (
+	"context"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/kofnlab/kofn/interval"
+	"github.com/kofnlab/kofn/test"
+)
+
+// TestStrataMatchesPackage: strata and trend print the package's numbers
+// (R base's, see test.TestCMHAgainstR: the three invented sites give
+// chi-square 5.1688, p = 0.022996 and a Mantel-Haenszel odds ratio of
+// 2.1176 with Robins-Breslow-Greenland limits 1.1080 and 4.0471).
+func TestStrataMatchesPackage(t *testing.T) {
+	t.Parallel()
+	sites := []interval.Stratum{{K1: 12, N1: 30, K2: 6, N2: 28}, {K1: 8, N1: 25, K2: 5, N2: 27}, {K1: 15, N1: 40, K2: 9, N2: 38}}
+	obj := runJSON(t, "strata 12/30:6/28 8/25:5/27 15/40:9/38")
+	want, _ := test.CMH(context.Background(), sites, test.CMHOptions{})
+	if got := num(t, obj, "test.p_value"); got != want.PValue || !relNear(got, 0.022996292174175339, 1e-9) {
+		t.Errorf("p-value %v, package %v", got, want.PValue)
+	}
+	if got := num(t, obj, "common.lower"); !relNear(got, 1.108039941731497, 1e-9) {
+		t.Errorf("lower limit %v", got)
+	}
+	ex := runJSON(t, "strata 12/30:6/28 8/25:5/27 15/40:9/38 method=exact")
+	if got := num(t, ex, "test.p_value"); !relNear(got, 0.025796803656180489, 1e-9) {
+		t.Errorf("exact p-value %v", got)
+	}
+	tr := runJSON(t, "trend 2/40 5/40 9/40 14/40 scores=0,1,2,3")
+	if z := num(t, tr, "statistic.value"); !relNear(z*z, 13.128205128205128, 1e-6) {
+		t.Errorf("trend chi-square %v", z*z)
+	}
+}
+
+// TestStrataFile: file= reads one stratum per CSV row and by= gives one
+// analysis per key, in order of first appearance; bad input names the
+// file, the line and the column.
+func TestStrataFile(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	path := filepath.Join(dir, "sites.csv")
+	data := "week,site,k1,n1,k2,n2\n1,a,12,30,6,28\n1,b,8,25,5,27\n2,a,15,40,9,38\n2,b,20,30,5,30\n"
+	if err := os.WriteFile(path, []byte(data), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	s, out, _ := testSession()
+	if err := s.Run(context.Background(), "strata file="+path+" by=week"); err != nil {
+		t.Fatal(err)
+	}
+	text := out.String()
+	if !strings.Contains(text, "week = 1:") || !strings.Contains(text, "week = 2:") || strings.Index(text, "week = 1:") > strings.Index(text, "week = 2:") {
+		t.Errorf("groups missing or out of order:\n%s", text)
+	}
+	bad := filepath.Join(dir, "bad.csv")
+	_ = os.WriteFile(bad, []byte("k1,n1,k2,n2\n1,5,2,x\n"), 0o600)
+	if msg, err := runErr("strata file=" + bad); err == nil || !strings.Contains(msg, "line 2") || !strings.Contains(msg, "column n2") {
+		t.Errorf("bad row: %q, %v", msg, err)
+	}
+	if msg, err := runErr("strata file=" + path + " by=month"); err == nil || !strings.Contains(msg, "month") {
+		t.Errorf("missing key column: %q, %v", msg, err)
+	}
+	if msg, err := runErr("strata 12/30:6/28 8/25"); err == nil || !strings.Contains(msg, "K1/N1:K2/N2") {
+		t.Errorf("malformed stratum: %q, %v", msg, err)
+	}
+}
+
+func relNear(got, want, rel float64) bool {
+	d := got - want
+	if d < 0 {
+		d = -d
+	}
+	return d <= rel*max(want, -want)
+}
