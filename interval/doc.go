@@ -31,6 +31,14 @@
 // re-read at every look has no such guarantee. SequenceErrorProb computes
 // the exact probability of ever missing p up to a horizon.
 //
+// # Families of intervals
+//
+// Multinomial gives simultaneous intervals for the category probabilities
+// of one multinomial sample (Sison-Glaz, Quesenberry-Hurst, Goodman), and
+// VersusControl for the differences of k - 1 groups against a control
+// (Bonferroni or Sidak levels): all the intervals of a Family hold
+// together with its Level.
+//
 // # Coverage
 //
 // A 95% interval method promises that, over repeated samples, 95% of its
@@ -108,7 +116,10 @@
 // Journal of Statistics 28:783-798; Miettinen O, Nurminen M (1985),
 // Statistics in Medicine 4:213-226; Koopman PAR (1984), Biometrics
 // 40:513-517; Cornfield J (1956), Proceedings of the Third Berkeley
-// Symposium 4:135-148; Tango T (1998), Statistics in Medicine 17:891-908.
+// Symposium 4:135-148; Tango T (1998), Statistics in Medicine 17:891-908;
+// Sison CP, Glaz J (1995), JASA 90:366-369; Quesenberry CP, Hurst DC
+// (1964), Technometrics 6:191-195; Goodman LA (1965), Technometrics
+// 7:247-254.
 // Each function's comment names the source of its method.
 //
 // # Credible intervals

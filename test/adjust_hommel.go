@@ -1,11 +1,9 @@
 package test
 
 import (
-	"container/heap"
 	"context"
 	"math"
 	"slices"
-	"sort"
 
 	"github.com/kofnlab/kofn/internal/argerr"
 )
@@ -125,39 +123,63 @@ func hommelSorted(ctx context.Context, fn string, s, a []float64) error {
 		sufS[r] = math.Max(sufS[r+1], S[r])
 	}
 	// For r >= 2: istar[r] is the first 1-based i with r p(i) >= A_r (m+1 if none).
-	// best[c] = max r with min(m-r, istar[r]-1) = c.
-	best := make([]int, m+1)
-	var ranges rangeHeap
-	start := make([][]int, m+2) // start[i] lists r whose saturated range begins at i
+	// best[c] = max r with min(m-r, istar[r]-1) = c. The saturated ranges
+	// [istar[r], m-r] are grouped by their start (a counting sort).
+	best := make([]int32, m+1)
+	istar := make([]int32, m+1)
+	first := make([]int32, m+2) // first[i]..first[i+1]-1 index byStart for ranges starting at i
 	for r := 1; r <= m; r++ {
-		istar := m + 1
+		is := m + 1
 		if r >= 2 {
-			istar = 1 + sort.Search(m, func(j int) bool { return float64(r)*s[j] >= A[r] })
+			// The first j with r s[j] >= A_r, by bisection (s ascends).
+			lo, hi, fr := 0, m, float64(r)
+			for lo < hi {
+				mid := int(uint(lo+hi) >> 1)
+				if fr*s[mid] >= A[r] {
+					hi = mid
+				} else {
+					lo = mid + 1
+				}
+			}
+			is = lo + 1
 		}
-		if c := min(m-r, istar-1); c >= 1 {
-			best[c] = max(best[c], r)
+		istar[r] = int32(is)
+		if c := min(m-r, is-1); c >= 1 {
+			best[c] = max(best[c], int32(r))
 		}
-		if istar <= m-r {
-			start[istar] = append(start[istar], r)
+		if is <= m-r {
+			first[is+1]++
 		}
 	}
-	bestR := 0
-	sufBest := make([]int, m+2)
+	for i := 1; i <= m+1; i++ {
+		first[i] += first[i-1]
+	}
+	byStart := make([]int32, first[m+1])
+	fill := slices.Clone(first)
+	for r := 2; r <= m; r++ {
+		if is := int(istar[r]); is <= m-r {
+			byStart[fill[is]] = int32(r)
+			fill[is]++
+		}
+	}
+	var bestR int32
+	sufBest := make([]int32, m+2)
 	for c := m; c >= 1; c-- {
 		bestR = max(bestR, best[c])
 		sufBest[c] = bestR
 	}
+	var ranges rangeHeap
 	for i := 1; i <= m; i++ {
 		if i%checkEvery == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return err
 			}
 		}
-		for _, r := range start[i] {
-			heap.Push(&ranges, rangeItem{v: A[r], end: m - r})
+		for _, r := range byStart[first[i]:first[i+1]] {
+			ranges.push(rangeItem{v: A[r], end: m - int(r)})
 		}
 		for len(ranges) > 0 && ranges[0].end < i {
-			heap.Pop(&ranges)
+			ranges.pop()
 		}
 		v := sufS[m-i+1]
 		if len(ranges) > 0 {
@@ -178,6 +200,7 @@ type envelope struct {
 	lines []int     // t of the lines on the hull, oldest first
 	cross []float64 // cross[j] = u where lines[j-1] and lines[j] meet (cross[0] unused)
 	zero  bool      // some added q_t is 0, so the minimum is 0
+	at    int       // the hull index of the last query's optimum
 }
 
 // meet returns the u at which the lines of t1 < t2 are equal:
@@ -217,8 +240,17 @@ func (e *envelope) min(r int) float64 {
 		return math.Inf(1)
 	}
 	u := 1 / float64(r)
-	// The optimal line is lines[J] with J the number of crossings above u.
-	J := sort.Search(n-1, func(j int) bool { return e.cross[j+1] <= u })
+	// The optimal line is lines[J] with J the number of crossings above u
+	// (cross decreases along the hull). The queries' u decrease, so J
+	// moves forward, except after lines were dropped from the end.
+	J := min(e.at, n-1)
+	for J > 0 && e.cross[J] <= u {
+		J--
+	}
+	for J+1 < n && e.cross[J+1] > u {
+		J++
+	}
+	e.at = J
 	best := math.Inf(1)
 	for j := max(0, J-1); j <= min(n-1, J+1); j++ {
 		t := e.lines[j]
@@ -235,13 +267,37 @@ type rangeItem struct {
 // rangeHeap is a max-heap of values with the last index they apply to.
 type rangeHeap []rangeItem
 
-func (h rangeHeap) Len() int           { return len(h) }
-func (h rangeHeap) Less(i, j int) bool { return h[i].v > h[j].v }
-func (h rangeHeap) Swap(i, j int)      { h[i], h[j] = h[j], h[i] }
-func (h *rangeHeap) Push(x any)        { *h = append(*h, x.(rangeItem)) }
-func (h *rangeHeap) Pop() any {
-	old := *h
-	x := old[len(old)-1]
-	*h = old[:len(old)-1]
-	return x
+func (h *rangeHeap) push(x rangeItem) {
+	*h = append(*h, x)
+	a := *h
+	for i := len(a) - 1; i > 0; {
+		p := (i - 1) / 2
+		if a[p].v >= a[i].v {
+			break
+		}
+		a[p], a[i] = a[i], a[p]
+		i = p
+	}
+}
+
+func (h *rangeHeap) pop() {
+	a := *h
+	n := len(a) - 1
+	a[0] = a[n]
+	a = a[:n]
+	for i := 0; ; {
+		l, r, big := 2*i+1, 2*i+2, i
+		if l < n && a[l].v > a[big].v {
+			big = l
+		}
+		if r < n && a[r].v > a[big].v {
+			big = r
+		}
+		if big == i {
+			break
+		}
+		a[i], a[big] = a[big], a[i]
+		i = big
+	}
+	*h = a
 }

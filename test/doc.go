@@ -51,6 +51,19 @@
 //     two-stage or a group-sequential design, given by its looks), the
 //     exact p-value of the stage-wise ordering (Jennison and Turnbull
 //     2000, section 8.4; Koyama and Chen 2008), with interval.StageWise.
+//   - EqualProportions: p_1 = ... = p_k for k groups, by Pearson's
+//     chi-square, the likelihood-ratio G or the exact Freeman-Halton test
+//     (a dynamic programme over the columns, with mid-p); Pairwise and
+//     VersusControl compare all pairs or each group with a control, with
+//     a multiplicity adjustment (KSampleResult, ComparisonsResult).
+//   - SampleRatio: the sample-ratio check of an experiment's allocation
+//     (chi-square, G, exact multinomial), with observed against intended
+//     shares and the warning that a mismatch invalidates the comparison.
+//   - AdjustPValues, AdjustPValuesInto, Adjust: Holm, Bonferroni, Sidak,
+//     Hochberg, Hommel, Benjamini-Hochberg and Benjamini-Yekutieli
+//     adjusted p-values and decisions for a slice of any length (O(m)
+//     radix order; O(m log m) for Hommel); FamilyLevel and SelectedLevel
+//     give the per-interval levels of a family of intervals.
 //
 // Every function returns a Result with the statistic, the p-value and its
 // natural logarithm (finite where the p-value underflows: at totals of
@@ -131,7 +144,13 @@
 // unconditional exact tests for comparing two binomials (Cytel); Miettinen
 // O, Nurminen M (1985), Statistics in Medicine 4:213-226; Schuirmann DJ
 // (1987), Journal of Pharmacokinetics and Biopharmaceutics 15:657-680;
-// Sterne TE (1954), Biometrika 41:275-278.
+// Sterne TE (1954), Biometrika 41:275-278; Freeman GH, Halton JH (1951),
+// Biometrika 38:141-149; Mehta CR, Patel NR (1983), JASA 78:427-434; Holm S
+// (1979), Scand J Statist 6:65-70; Hochberg Y (1988), Biometrika
+// 75:800-802; Hommel G (1988), Biometrika 75:383-386; Benjamini Y, Hochberg
+// Y (1995), JRSS B 57:289-300; Benjamini Y, Yekutieli D (2001), Ann Statist
+// 29:1165-1188; Kohavi R, Tang D, Xu Y (2020), Trustworthy Online
+// Controlled Experiments, chapter 21.
 //
 // # Which arm is better, the Bayesian way
 //
