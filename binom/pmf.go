@@ -79,34 +79,40 @@ var invOdd = [...]float64{1.0 / 3, 1.0 / 5, 1.0 / 7, 1.0 / 9, 1.0 / 11, 1.0 / 13
 // mLo (1 - x/m), exact to rounding.
 func bd0(x, mHi, mLo float64) float64 {
 	if d := (x - mHi) - mLo; math.Abs(d) < 0.1*(x+mHi) {
-		// x - mHi is exact here (Sterbenz), so d carries the low part and
-		// the series is relative-accurate even when x - m is far below
-		// the rounding unit of m (the deviance is then (x-m)^2/(2m), and
-		// its square root, the signed distance the uniform expansion
-		// needs, is first order in mLo). |v| < 0.1: the terms fall by
-		// v^2 < 0.01, and 18 of them reach 1e-36.
-		v := d / (x + mHi + mLo)
-		s := d * v
-		ej := 2 * x * v
-		v2 := v * v
-		for _, w := range invOdd {
-			ej *= v2
-			s1 := s + ej*w
-			if s1 == s {
-				break
-			}
-			s = s1
-		}
-		return s
+		return bd0Series(x, mHi, mLo, d)
 	}
 	r := x / mHi
 	return x*math.Log(r) + mHi - x + mLo*(1-r)
 }
 
+// bd0Series is bd0 near the mean, for d = (x - mHi) - mLo with
+// |d| < 0.1 (x + mHi).
+func bd0Series(x, mHi, mLo, d float64) float64 {
+	// x - mHi is exact here (Sterbenz), so d carries the low part and
+	// the series is relative-accurate even when x - m is far below
+	// the rounding unit of m (the deviance is then (x-m)^2/(2m), and
+	// its square root, the signed distance the uniform expansion
+	// needs, is first order in mLo). |v| < 0.1: the terms fall by
+	// v^2 < 0.01, and 18 of them reach 1e-36.
+	v := d / (x + mHi + mLo)
+	s := d * v
+	ej := 2 * x * v
+	v2 := v * v
+	for _, w := range invOdd {
+		ej *= v2
+		s1 := s + ej*w
+		if s1 == s {
+			break
+		}
+		s = s1
+	}
+	return s
+}
+
 // bd0Log is bd0 for a caller that holds r = x/mHi and l = ln r already.
 func bd0Log(x, mHi, mLo, r, l float64) float64 {
 	if d := (x - mHi) - mLo; math.Abs(d) < 0.1*(x+mHi) {
-		return bd0(x, mHi, mLo)
+		return bd0Series(x, mHi, mLo, d)
 	}
 	return x*l + mHi - x + mLo*(1-r)
 }
@@ -224,16 +230,35 @@ var lnInt, stirTab = func() (ln, st [smallN + 1]float64) {
 // 0 < P < 1: ln P(X = k) = lc - lv/2 with lv = ln(2 pi k (N-k)/N).
 func (d Dist) pmfParts(k int64) (lc, lv float64) {
 	if d.N <= smallN {
-		// Table entries: ln(2 pi k (N-k)/N) is a sum of four terms of
-		// size ln N at most, good to a few 1e-16 absolute.
-		fk, fnk := float64(k), float64(d.N-k)
-		npHi, npLo, nqHi, nqLo := compMeans(float64(d.N), d.P)
-		// Both sums are symmetric in k and N-k, bit for bit.
-		lc = stirTab[d.N] - (stirTab[k] + stirTab[d.N-k]) - (bd0(fk, npHi, npLo) + bd0(fnk, nqHi, nqLo))
-		return lc, (lnInt[k] + lnInt[d.N-k]) - (lnInt[d.N] - ln2pi)
+		return d.smallParts(k)
 	}
 	lc, v := d.loaderParts(k)
 	return lc, math.Log(v)
+}
+
+// smallParts is pmfParts for N <= smallN, from the tables: ln(2 pi k
+// (N-k)/N) is a sum of four terms of size ln N at most, good to a few
+// 1e-16 absolute, and both sums are symmetric in k and N-k, bit for bit.
+// The log branches of the two deviance terms are bd0's, written out
+// (the same operations in the same order) to save the calls.
+func (d Dist) smallParts(k int64) (lc, lv float64) {
+	fk, fnk := float64(k), float64(d.N-k)
+	npHi, npLo, nqHi, nqLo := compMeans(float64(d.N), d.P)
+	var b1, b2 float64
+	if e := (fk - npHi) - npLo; math.Abs(e) < 0.1*(fk+npHi) {
+		b1 = bd0Series(fk, npHi, npLo, e)
+	} else {
+		r := fk / npHi
+		b1 = fk*math.Log(r) + npHi - fk + npLo*(1-r)
+	}
+	if e := (fnk - nqHi) - nqLo; math.Abs(e) < 0.1*(fnk+nqHi) {
+		b2 = bd0Series(fnk, nqHi, nqLo, e)
+	} else {
+		r := fnk / nqHi
+		b2 = fnk*math.Log(r) + nqHi - fnk + nqLo*(1-r)
+	}
+	lc = stirTab[d.N] - (stirTab[k] + stirTab[d.N-k]) - (b1 + b2)
+	return lc, (lnInt[k] + lnInt[d.N-k]) - (lnInt[d.N] - ln2pi)
 }
 
 // loaderParts returns Loader's form for N > smallN as ln P(X = k) =
@@ -276,7 +301,7 @@ func (d Dist) Prob(k int64) float64 {
 // prob is Prob for 0 < k < N, 0 < P < 1 and P >= tinyP.
 func (d Dist) prob(k int64) float64 {
 	if d.N <= smallN {
-		lc, lv := d.pmfParts(k)
+		lc, lv := d.smallParts(k)
 		return math.Exp(lc - 0.5*lv)
 	}
 	lc, v := d.loaderParts(k)
