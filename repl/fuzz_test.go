@@ -78,9 +78,6 @@ func FuzzLine(f *testing.F) {
 // of an error message ("interval.Proportion: ...").
 var goPrefixRE = regexp.MustCompile(`^error: (binom|interval|test|power)\.[A-Z]\w*:`)
 
-// snakeKeyRE matches a JSON object key.
-var snakeKeyRE = regexp.MustCompile(`"([^"\\]*)":`)
-
 // checkJSONLine runs line with --json: every output line must be one JSON
 // object whose keys are lower_snake (help pages quote user text as values,
 // never as keys).
