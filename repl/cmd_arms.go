@@ -267,10 +267,10 @@ func runSplit(c *call) error {
 		}
 		for i, p := range parts {
 			if w[i], err = parseFloat(p); err != nil {
-				return err
+				return inputErr("weights="+word, "has weight "+strconv.Itoa(i+1)+" "+strconv.Quote(p)+", which "+reasonOf(err))
 			}
 			if !(w[i] > 0) {
-				return inputErr(p, "is not a positive weight")
+				return inputErr("weights="+word, "has weight "+strconv.Itoa(i+1)+" "+strconv.Quote(p)+", which is not positive")
 			}
 		}
 	}
