@@ -97,9 +97,13 @@ func (f SpendingFunction) String() string {
 // sequential tests based on the type I error spending rate function,
 // Biometrika 74:149-154). The O'Brien-Fleming type uses the upper normal
 // tail directly (2 Phi(-z/sqrt t)), so small early values keep their
-// relative accuracy. The arguments are not checked: a in (0, 1), a valid
-// function.
+// relative accuracy. It returns NaN when a is not in (0, 1), t is NaN or
+// f is not a valid function (an unknown family, or Rho outside (0, 100]
+// for the power family).
 func (f SpendingFunction) Spent(a, t float64) float64 {
+	if !(a > 0 && a < 1) || math.IsNaN(t) || f.check("", "f") != nil {
+		return math.NaN()
+	}
 	if t <= 0 {
 		return 0
 	}

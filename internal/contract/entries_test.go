@@ -292,6 +292,7 @@ func entries() []entry {
 		}},
 	}
 	e = append(e, distEntries()...)
+	e = append(e, stagesEntries()...)
 	e = append(e, allEnums()...)
 	return append(e, allJSON()...)
 }
