@@ -232,8 +232,9 @@ func (c CUSUM) Step(s int64, success bool) (int64, bool) {
 // Batch returns the statistic after a group of items with k successes
 // among m, when their order is unknown: the binomial CUSUM update
 // max(0, s + k Unit - m Ref) (for a decrease, max(0, s + m Ref - k Unit)),
-// which equals the item-by-item chart when the group's items arrive with
-// every success first (an increase) and no reset inside the group. Its
+// which equals the item-by-item chart when the group's items that raise
+// the statistic come first (successes for an increase, failures for a
+// decrease), so that no reset happens inside the group. Its
 // run lengths are not those of CUSUMRunLength (those count single
 // items). Errors: k < 0, k > m, or s < 0.
 func (c CUSUM) Batch(s, k, m int64) (int64, bool, error) {
@@ -346,7 +347,7 @@ func cusumSize(fn string, c CUSUM, threshold int64) error {
 	t := float64(threshold)
 	if t*float64(up+down+1) > MaxCUSUMWork || t*float64(up)*float64(down) > 200*MaxCUSUMWork {
 		return argerr.TooLarge(fn, "Threshold", threshold, "with jumps of "+argerr.Format(up)+" and "+argerr.Format(down)+
-			" needs a Markov chain over the limit MaxCUSUMWork = 1e7; use a smaller Unit (a coarser reference value) or a lower limit")
+			" needs a Markov chain of more than 1e7 entries (MaxCUSUMWork); use a coarser reference value (a smaller Unit) or a lower limit")
 	}
 	return nil
 }

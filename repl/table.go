@@ -33,6 +33,7 @@ var commandTable = []func() *command{
 	familyCommand,
 	strataCommand,
 	trendCommand,
+	watchCommand,
 	// planning
 	detectCommand,
 	sizeCommand,
@@ -41,6 +42,7 @@ var commandTable = []func() *command{
 	acceptCommand,
 	simonCommand,
 	interimCommand,
+	alarmCommand,
 	// data
 	eachCommand,
 	// session
