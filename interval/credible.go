@@ -2,10 +2,10 @@ package interval
 
 import (
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/beta"
+	"github.com/kofnlab/kofn/internal/enum"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 	"github.com/kofnlab/kofn/internal/xmath"
 	"gonum.org/v1/gonum/mathext"
@@ -36,6 +36,12 @@ type Posterior struct {
 func (p Posterior) MarshalJSON() ([]byte, error) {
 	type plain Posterior
 	return jsonfloat.Marshal(plain(p))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (p *Posterior) UnmarshalJSON(b []byte) error {
+	type plain Posterior
+	return jsonfloat.Unmarshal(b, (*plain)(p))
 }
 
 // NewPosterior returns the posterior of a proportion after k successes in
@@ -111,48 +117,26 @@ const (
 	HighestDensity
 )
 
-var credibleKindNames = [...]string{"equal-tailed", "highest density"}
+var credibleKindNames = enum.New[CredibleKind]("interval.CredibleKind", []string{"equal-tailed", "highest density"},
+	map[string]CredibleKind{"central": EqualTailed, "et": EqualTailed, "hpd": HighestDensity, "shortest": HighestDensity})
 
 // String returns "equal-tailed" or "highest density".
-func (k CredibleKind) String() string {
-	if k < 0 || int(k) >= len(credibleKindNames) {
-		return "CredibleKind(" + argerr.Format(int(k)) + ")"
-	}
-	return credibleKindNames[k]
-}
+func (k CredibleKind) String() string { return credibleKindNames.String(k) }
 
 // MarshalText encodes the kind by its String form.
-func (k CredibleKind) MarshalText() ([]byte, error) {
-	if k < 0 || int(k) >= len(credibleKindNames) {
-		return nil, argerr.Invalid("interval.CredibleKind.MarshalText", "k", int(k), "is not a credible-interval kind")
-	}
-	return []byte(k.String()), nil
-}
+func (k CredibleKind) MarshalText() ([]byte, error) { return credibleKindNames.MarshalText(k) }
 
 // UnmarshalText decodes a kind (ParseCredibleKind).
-func (k *CredibleKind) UnmarshalText(b []byte) error {
-	v, err := ParseCredibleKind(string(b))
-	if err != nil {
-		return err
-	}
-	*k = v
-	return nil
-}
+func (k *CredibleKind) UnmarshalText(b []byte) error { return credibleKindNames.UnmarshalText(k, b) }
 
 // ParseCredibleKind accepts the String forms case-insensitively, and
 // "central", "et", "hpd" and "shortest".
 func ParseCredibleKind(s string) (CredibleKind, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "equal-tailed", "equal tailed", "central", "et":
-		return EqualTailed, nil
-	case "highest density", "highest-density", "hpd", "shortest":
-		return HighestDensity, nil
-	}
-	return 0, argerr.Invalid("interval.ParseCredibleKind", "s", s, "is not a credible interval kind; use equal-tailed or hpd")
+	return credibleKindNames.Parse("interval.ParseCredibleKind", s)
 }
 
 // CredibleKindValues returns every CredibleKind in order.
-func CredibleKindValues() []CredibleKind { return []CredibleKind{EqualTailed, HighestDensity} }
+func CredibleKindValues() []CredibleKind { return credibleKindNames.Values() }
 
 // CredibleOptions configures Credible. The zero value asks for the
 // two-sided 95% equal-tailed interval under the Jeffreys prior.
@@ -192,7 +176,9 @@ type CredibleOptions struct {
 // the credible interval keeps its lower limit above 0 at k = 0: it is the
 // posterior's quantile, with no frequentist boundary modification.
 //
-// Cost: equal-tailed about 2 x 1-3 us; HPD a few us (BenchmarkCredible).
+// Cost (CPU time per call at 37 of 1000, BenchmarkCredible*, measured as
+// user time on a loaded two-core machine): equal-tailed 3.7 us, highest
+// density 4.8 us.
 // Errors: k < 0, k > n, Level outside (0, 1), an unknown Side or Kind, a
 // one-sided HPD request, an invalid prior, and the HPD of a U-shaped
 // posterior (A, B < 1; ErrNoSolution: the region is two pieces).
@@ -339,7 +325,9 @@ func (h hpdSolver) upper(t, tm, start float64) float64 {
 		if next <= tm {
 			next = tm + 0.5*(u-tm)
 		}
-		if math.Abs(next-u) <= 2e-16*math.Max(1, math.Abs(u)) {
+		// Quadratic convergence: after a step below 1e-8 the next would be
+		// near 1e-16 (and the guess from the outer step is that close).
+		if math.Abs(next-u) <= 1e-8*math.Max(1, math.Abs(u)) {
 			return next
 		}
 		u = next
@@ -381,12 +369,19 @@ func (h hpdSolver) solve() (tl, tu float64) {
 		// density, equal at both ends.
 		dr := math.Exp(beta.LogPDF(a, b, xl, yl)-ls) * (xl*yl - xu*yu*dl/du)
 		next := t - r/dr
-		if math.Abs(next-t) <= 4e-16*math.Max(1, math.Abs(t)) {
+		if math.Abs(next-t) <= 1e-8*math.Max(1, math.Abs(t)) && next > lo && next < hi {
+			// Quadratic convergence: the step after this one would be
+			// about 1e-16; take the point without evaluating the tails.
+			u += dl / du * (next - t)
+			t = next
 			break
 		}
 		if !(next > lo && next < hi) {
 			next = lo + 0.5*(hi-lo)
 		}
+		// U moves by about g'(L)/g'(U) times L's step: start the next
+		// equal-density solve there.
+		u += dl / du * (next - t)
 		if hi-lo <= 4e-16*math.Max(1, math.Abs(t)) {
 			break
 		}

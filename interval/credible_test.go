@@ -99,9 +99,25 @@ func TestPosteriorClosedForms(t *testing.T) {
 	if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-14, 0)); diff != "" {
 		t.Errorf("(-want +got):\n%s", diff)
 	}
-	b, _ := json.Marshal(p)
-	if string(b) == "" || !json.Valid(b) {
-		t.Errorf("bad JSON %s", b)
+	b, err := json.Marshal(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var back interval.Posterior
+	if err := json.Unmarshal(b, &back); err != nil {
+		t.Fatal(err)
+	}
+	if diff := cmp.Diff(p, back); diff != "" {
+		t.Errorf("JSON round trip of %s (-want +got):\n%s", b, diff)
+	}
+	iv, _ := interval.Credible(3, 9, interval.CredibleOptions{Prior: interval.BetaPrior(2, 8)})
+	b, _ = json.Marshal(iv)
+	var ivBack interval.Interval
+	if err := json.Unmarshal(b, &ivBack); err != nil {
+		t.Fatal(err)
+	}
+	if diff := cmp.Diff(iv, ivBack); diff != "" {
+		t.Errorf("JSON round trip of %s (-want +got):\n%s", b, diff)
 	}
 }
 

@@ -3,9 +3,9 @@ package interval
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/enum"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 )
 
@@ -30,51 +30,27 @@ const (
 	PriorBeta
 )
 
-var priorKindNames = [...]string{"Jeffreys", "uniform", "beta"}
+var priorKindNames = enum.New[PriorKind]("interval.PriorKind", []string{"Jeffreys", "uniform", "beta"},
+	map[string]PriorKind{"flat": PriorUniform, "bayes-laplace": PriorUniform, "informative": PriorBeta})
 
 // String returns "Jeffreys", "uniform" or "beta".
-func (k PriorKind) String() string {
-	if k < 0 || int(k) >= len(priorKindNames) {
-		return "PriorKind(" + argerr.Format(int(k)) + ")"
-	}
-	return priorKindNames[k]
-}
+func (k PriorKind) String() string { return priorKindNames.String(k) }
 
 // MarshalText encodes the kind by its String form.
-func (k PriorKind) MarshalText() ([]byte, error) {
-	if k < 0 || int(k) >= len(priorKindNames) {
-		return nil, argerr.Invalid("interval.PriorKind.MarshalText", "k", int(k), "is not a prior kind")
-	}
-	return []byte(k.String()), nil
-}
+func (k PriorKind) MarshalText() ([]byte, error) { return priorKindNames.MarshalText(k) }
 
 // UnmarshalText decodes a kind written by MarshalText (ParsePriorKind).
-func (k *PriorKind) UnmarshalText(b []byte) error {
-	v, err := ParsePriorKind(string(b))
-	if err != nil {
-		return err
-	}
-	*k = v
-	return nil
-}
+func (k *PriorKind) UnmarshalText(b []byte) error { return priorKindNames.UnmarshalText(k, b) }
 
 // ParsePriorKind accepts the String forms case-insensitively, and also
 // "flat" and "bayes-laplace" for the uniform prior and "informative" for
 // beta.
 func ParsePriorKind(s string) (PriorKind, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "jeffreys":
-		return PriorJeffreys, nil
-	case "uniform", "flat", "bayes-laplace":
-		return PriorUniform, nil
-	case "beta", "informative":
-		return PriorBeta, nil
-	}
-	return 0, argerr.Invalid("interval.ParsePriorKind", "s", s, "is not a prior; use Jeffreys, uniform or beta")
+	return priorKindNames.Parse("interval.ParsePriorKind", s)
 }
 
 // PriorKindValues returns every PriorKind in order.
-func PriorKindValues() []PriorKind { return []PriorKind{PriorJeffreys, PriorUniform, PriorBeta} }
+func PriorKindValues() []PriorKind { return priorKindNames.Values() }
 
 // MaxShape is the largest Beta shape accepted, prior or posterior (1e15).
 const MaxShape = 1e15
@@ -114,6 +90,12 @@ func (p Prior) String() string {
 func (p Prior) MarshalJSON() ([]byte, error) {
 	type plain Prior
 	return jsonfloat.Marshal(plain(p))
+}
+
+// UnmarshalJSON decodes what MarshalJSON writes.
+func (p *Prior) UnmarshalJSON(b []byte) error {
+	type plain Prior
+	return jsonfloat.Unmarshal(b, (*plain)(p))
 }
 
 // Resolve returns the prior with its shapes filled in and checked, for

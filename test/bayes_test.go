@@ -104,3 +104,26 @@ func BenchmarkCompareQuadrature1e4(b *testing.B) {
 		test.Compare(4900, 10000, 5100, 10000, test.CompareOptions{})
 	}
 }
+
+// TestCompareLossesDirect checks the closed form of the expected loss
+// against its definition through shifted posteriors: E[max(p2 - p1, 0)] =
+// m2 P(p2' > p1) - m1 P(p2 > p1') with p2' ~ Beta(a2+1, b2), p1' ~
+// Beta(a1+1, b1), each probability computed by Compare itself with the
+// prior shifted by one success.
+func TestCompareLossesDirect(t *testing.T) {
+	t.Parallel()
+	u := interval.UniformPrior()
+	for _, c := range [][4]int64{{3, 10, 7, 12}, {50, 100, 40, 100}, {0, 1000, 5, 1000}, {9000, 10000, 8900, 10000}} {
+		r, err := test.Compare(c[0], c[1], c[2], c[3], test.CompareOptions{Prior1: u, Prior2: u})
+		if err != nil {
+			t.Fatal(err)
+		}
+		m1, m2 := r.A1/(r.A1+r.B1), r.A2/(r.A2+r.B2)
+		s2, _ := test.Compare(c[0], c[1], c[2], c[3], test.CompareOptions{Prior1: u, Prior2: interval.BetaPrior(2, 1)})
+		s1, _ := test.Compare(c[0], c[1], c[2], c[3], test.CompareOptions{Prior1: interval.BetaPrior(2, 1), Prior2: u})
+		want := m2*s2.ProbSecondBetter - m1*s1.ProbSecondBetter
+		if diff := cmp.Diff(want, r.LossFirst, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
+			t.Errorf("%v: LossFirst (-want +got):\n%s", c, diff)
+		}
+	}
+}
