@@ -98,14 +98,29 @@ func bruteSimon(p0, p1, alpha, beta float64, nMax int64) (optEN float64, mmN int
 	for n := int64(0); n <= nMax; n++ {
 		f0[n], f1[n] = pmf(n, p0), pmf(n, p1)
 	}
-	// reject(r1, n1, r, n, f) = sum_{x1 > r1} sum_{x2: x1 + x2 > r} f[n1][x1] f[n2][x2]
-	reject := func(r1, n1, r, n int64, f [][]float64) float64 {
+	// sf[n][m] = P(X > m) for X ~ Binomial(n, p), summed from the pmf.
+	tails := func(f [][]float64) [][]float64 {
+		sf := make([][]float64, len(f))
+		for n, row := range f {
+			sf[n] = make([]float64, len(row))
+			var acc float64
+			for m := len(row) - 1; m >= 0; m-- {
+				sf[n][m] = acc
+				acc += row[m]
+			}
+		}
+		return sf
+	}
+	s0, s1 := tails(f0), tails(f1)
+	// reject(r1, n1, r, n) = sum_{x1 > r1} b(x1; n1) P(X2 > r - x1), X2 of size n - n1.
+	reject := func(r1, n1, r, n int64, f, sf [][]float64) float64 {
 		var s float64
 		for x1 := r1 + 1; x1 <= n1; x1++ {
-			for x2 := int64(0); x2 <= n-n1; x2++ {
-				if x1+x2 > r {
-					s += f[n1][x1] * f[n-n1][x2]
-				}
+			switch m := r - x1; {
+			case m < 0:
+				s += f[n1][x1]
+			case m < n-n1:
+				s += f[n1][x1] * sf[n-n1][m]
 			}
 		}
 		return s
@@ -121,10 +136,10 @@ func bruteSimon(p0, p1, alpha, beta float64, nMax int64) (optEN float64, mmN int
 				}
 				en := float64(n1) + (1-pet)*float64(n-n1)
 				for r := r1; r < n; r++ {
-					if reject(r1, n1, r, n, f0) > alpha {
+					if reject(r1, n1, r, n, f0, s0) > alpha {
 						continue
 					}
-					if reject(r1, n1, r, n, f1) < 1-beta {
+					if reject(r1, n1, r, n, f1, s1) < 1-beta {
 						break // power only falls as r grows
 					}
 					optEN = math.Min(optEN, en)
@@ -145,22 +160,25 @@ func bruteSimon(p0, p1, alpha, beta float64, nMax int64) (optEN float64, mmN int
 
 func TestSimonBruteForce(t *testing.T) {
 	t.Parallel()
-	// Independent exhaustive searches (bruteSimon) on small cases; nMax
-	// covers the designs of Simon's Table 1 for these rows.
+	// Independent exhaustive searches (bruteSimon) over every design with
+	// n <= nMax, for the rows of simonTable1 (Simon 1989, Table 1,
+	// recalled) whose designs have n <= 50, and one row not in the table;
+	// nMax covers the optimal design of each.
 	cases := []struct {
 		p0, p1, alpha, beta float64
 		nMax                int64
-		long                bool
 	}{
-		{0.05, 0.25, 0.05, 0.20, 24, false},
-		{0.10, 0.30, 0.05, 0.20, 34, false},
-		{0.05, 0.25, 0.10, 0.10, 30, true},
-		{0.20, 0.40, 0.10, 0.20, 36, true},
+		{0.05, 0.25, 0.05, 0.20, 24},
+		{0.10, 0.30, 0.05, 0.20, 34},
+		{0.70, 0.90, 0.05, 0.20, 32},
+		{0.05, 0.25, 0.05, 0.10, 36},
+		{0.10, 0.30, 0.05, 0.10, 40},
+		{0.20, 0.40, 0.05, 0.20, 48},
+		{0.30, 0.50, 0.05, 0.20, 50},
+		{0.40, 0.60, 0.05, 0.20, 50},
+		{0.05, 0.25, 0.10, 0.10, 30},
 	}
 	for _, c := range cases {
-		if c.long && testing.Short() {
-			continue
-		}
 		optEN, mmN, mmEN, best := bruteSimon(c.p0, c.p1, c.alpha, c.beta, c.nMax)
 		r, err := Simon(context.Background(), c.p0, c.p1, c.alpha, c.beta, SimonOptions{})
 		if err != nil {

@@ -304,7 +304,7 @@ func interimTwo(c *call, looks []float64, lo *option, beta float64, opts power.S
 	b.Row("power", c.S.num(d.PowerNormal), "normal theory")
 	b.Row("expected n", c.S.num(d.ExpectedN0Normal)+" / "+c.S.num(d.ExpectedN1Normal), "per group under H0 / H1, normal theory; at most "+count(d.MaxN))
 	if d.Exact {
-		b.Row("exact size", c.S.num(d.AlphaExact), "at p1 = p2 = "+in(d.ExactNull)+" (the larger of two null values)")
+		b.Row("exact size", c.S.num(d.AlphaExact), "at p1 = p2 = "+in(d.ExactNull)+" (the largest of three null values)")
 		b.Row("exact power", c.S.num(d.PowerExact), "by enumeration of both groups' counts")
 		b.Row("exact expected n", c.S.num(d.ExpectedN0)+" / "+c.S.num(d.ExpectedN1), "per group under H0 / H1")
 	}
