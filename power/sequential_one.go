@@ -415,6 +415,9 @@ func zScore(k, n int64, p0, sd float64) float64 {
 // EqualLooks returns k looks spread evenly over n trials: round(i n / k)
 // for i = 1..k (strictly increasing when n >= k).
 func EqualLooks(n int64, k int) []int64 {
+	if k <= 0 {
+		return nil // no looks (a negative k once panicked)
+	}
 	out := make([]int64, k)
 	for i := 1; i <= k; i++ {
 		out[i-1] = int64(math.Round(float64(n) * float64(i) / float64(k)))

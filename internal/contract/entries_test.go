@@ -294,6 +294,7 @@ func entries() []entry {
 	e = append(e, distEntries()...)
 	e = append(e, stagesEntries()...)
 	e = append(e, allEnums()...)
+	e = append(e, sequentialEntries()...)
 	return append(e, allJSON()...)
 }
 
