@@ -109,8 +109,9 @@ type MultinomialOptions struct {
 // Warnings report small totals for the chi-square methods.
 //
 // Errors: fewer than 2 categories, a negative count, a zero total, a level
-// outside (0, 1), an unknown method; ErrTooLarge for Sison-Glaz beyond
-// N = 1e9 or k = 1e5 (its cost is O(k c) with c about sqrt(N)).
+// outside (0, 1), an unknown method; ErrTooLarge for Sison-Glaz when its
+// search would sum more than 3e8 terms (its cost is O(k c log c) with c
+// about sqrt(N); a million categories of a million counts is refused).
 //
 // Accuracy: the chi-square methods to about 1e-14 (gonum's incomplete
 // gamma inverse); Sison-Glaz's c and gamma as the Edgeworth approximation
@@ -183,17 +184,30 @@ func Multinomial(counts []int64, opt MultinomialOptions) (Family, error) {
 			f.Warnings = append(f.Warnings, fmt.Sprintf("total %d is small for a chi-square based interval (common practice: 30 or more); prefer Sison-Glaz", N))
 		}
 	case SisonGlaz:
-		if N > 1e9 || k > 100000 {
-			return Family{}, argerr.TooLarge(fn, "counts", N, "too large for Sison-Glaz (N above 1e9 or more than 1e5 categories); use Goodman")
+		// c is about z sqrt(n_i) for a normal quantile z below 10 at any
+		// sensible level and number of categories; cmax bounds the search,
+		// and with it the work, which is refused up front beyond about a
+		// second.
+		var nz, top int64
+		for _, ci := range counts {
+			if ci > 0 {
+				nz++
+			}
+			top = max(top, ci)
 		}
-		c, gamma, ok := sisonGlaz(counts, N, lev, sgCoverage)
+		cmax := min(N, int64(10*math.Sqrt(float64(top)))+20)
+		evals := 2*math.Log2(float64(cmax)+1) + 4
+		if evals*float64(nz)*float64(2*cmax+1) > maxSisonGlazWork {
+			return Family{}, argerr.TooLarge(fn, "counts", N, "too large for Sison-Glaz (the search would take more than about a second); use Goodman")
+		}
+		c, gamma, ok := sisonGlaz(counts, N, lev, cmax, sgCoverage)
 		if !ok {
 			// The expansion saturates below the level (very uneven or tiny
 			// counts): compute nu exactly instead, where that is affordable.
-			if float64(k)*float64(N)*float64(N) > 1e9 {
+			if evals*float64(nz)*float64(N+1)*float64(2*cmax+1) > maxSisonGlazWork {
 				return Family{}, argerr.NoSolution(fn, "no c reaches the level: the Edgeworth approximation fails for these counts and the exact computation is too large; use Goodman")
 			}
-			c, gamma, ok = sisonGlaz(counts, N, lev, sgCoverageExact)
+			c, gamma, ok = sisonGlaz(counts, N, lev, cmax, sgCoverageExact)
 			if !ok {
 				return Family{}, argerr.NoSolution(fn, "no c reaches the level for these counts; use Goodman")
 			}
@@ -218,13 +232,13 @@ func Multinomial(counts []int64, opt MultinomialOptions) (Family, error) {
 // sisonGlaz returns the c and gamma of the Sison-Glaz intervals: c + 1 is
 // the smallest c' with nu(c') >= lev, found by doubling and bisection (nu
 // increases with c).
-func sisonGlaz(counts []int64, N int64, lev float64, nu func([]int64, int64, int64) float64) (c int64, gamma float64, ok bool) {
+func sisonGlaz(counts []int64, N int64, lev float64, cmax int64, nu func([]int64, int64, int64) float64) (c int64, gamma float64, ok bool) {
 	hi := int64(1)
 	for nu(counts, N, hi) < lev {
-		if hi >= N {
+		if hi >= cmax {
 			return 0, 0, false
 		}
-		hi = min(2*hi, N)
+		hi = min(2*hi, cmax)
 	}
 	lo := hi / 2 // nu(lo) < lev unless lo = 0
 	if lo == 0 {
@@ -246,6 +260,10 @@ func sisonGlaz(counts []int64, N int64, lev float64, nu func([]int64, int64, int
 	}
 	return lo, (lev - nuLo) / (nuHi - nuLo), true
 }
+
+// maxSisonGlazWork bounds the terms Multinomial's Sison-Glaz search may sum
+// (about a second of work).
+const maxSisonGlazWork = 3e8
 
 // sgCoverage returns nu(c) = P(n_i - c <= X_i <= n_i + c for all i) for X
 // multinomial(N, n/N) by Levin's formula

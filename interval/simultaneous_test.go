@@ -69,7 +69,7 @@ func TestMultinomialGoldenR(t *testing.T) {
 			}
 		case "sg":
 			lev := r.Float(2)
-			c, g, ok := sisonGlaz(x, sum(x), lev, sgCoverage)
+			c, g, ok := sisonGlaz(x, sum(x), lev, sum(x), sgCoverage)
 			if !ok || c != r.Int(3) || !relClose(g, r.Float(4), 1e-9) {
 				t.Errorf("%s: c %d gamma %v (%v), want %d %v", r.Pos(), c, g, ok, r.Int(3), r.Float(4))
 			}
@@ -228,4 +228,52 @@ func TestFamilyJSONRoundTrip(t *testing.T) {
 	if d := cmp.Diff(f, g); d != "" || !strings.Contains(string(b), `"intervals":[{"lower":0,`) {
 		t.Errorf("%s (-in +out):\n%s", b, d)
 	}
+}
+
+// TestMultinomialLarge: Sison-Glaz at a billion observations in two
+// categories stays fast and close to Goodman's width (both are about
+// z sqrt(p (1-p)/N)); a million categories of large counts are refused.
+func TestMultinomialLarge(t *testing.T) {
+	t.Parallel()
+	sg, err := Multinomial([]int64{600_000_000, 400_000_000}, MultinomialOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	gd, _ := Multinomial([]int64{600_000_000, 400_000_000}, MultinomialOptions{Method: Goodman})
+	if r := sg.Intervals[0].Width() / gd.Intervals[0].Width(); r < 0.8 || r > 1.1 {
+		t.Errorf("width ratio %v: %+v vs %+v", r, sg.Intervals[0], gd.Intervals[0])
+	}
+	big := make([]int64, 1_000_000)
+	for i := range big {
+		big[i] = 1_000_000
+	}
+	if _, err := Multinomial(big, MultinomialOptions{}); !errors.Is(err, ErrTooLarge) {
+		t.Errorf("a million large categories: %v", err)
+	}
+}
+
+// FuzzMultinomial: four categories, any method and level; limits in
+// [0, 1] around the estimate, errors typed.
+func FuzzMultinomial(f *testing.F) {
+	f.Add(int64(41), int64(27), int64(0), int64(5), 0.95, 0)
+	f.Add(int64(0), int64(0), int64(0), int64(1), 0.5, 2)
+	f.Add(int64(-3), int64(2), int64(9), int64(1), math.NaN(), 1)
+	f.Fuzz(func(t *testing.T, a, b, c, d int64, lev float64, m int) {
+		if a > 1e7 || b > 1e7 || c > 1e7 || d > 1e7 {
+			return
+		}
+		fam, err := Multinomial([]int64{a, b, c, d}, MultinomialOptions{Level: lev, Method: MultinomialMethod(m)})
+		if err != nil {
+			var e *Error
+			if !errors.As(err, &e) || !strings.HasPrefix(err.Error(), "interval.Multinomial: ") {
+				t.Fatalf("untyped error %v", err)
+			}
+			return
+		}
+		for _, iv := range fam.Intervals {
+			if !(iv.Lower >= 0 && iv.Upper <= 1 && iv.Lower <= iv.Estimate && iv.Estimate <= iv.Upper) {
+				t.Fatalf("%v %v %v: %+v", []int64{a, b, c, d}, lev, m, iv)
+			}
+		}
+	})
 }
