@@ -302,7 +302,7 @@ func logBound(x float64) float64 {
 // upperW) or the lower one and, if withPMF, b(k) = P(X = k) (from the
 // tail's own PMF factor where it has one).
 func (d Dist) decide(t *quantileTarget, k int64, upperW, withPMF bool) (ok bool, tail, b float64) {
-	tv := d.smallTail(k)
+	tv := d.smallTailPMF(k, withPMF)
 	if tv.form == formLog {
 		// Rare (tiny P, or an expansion tail below 1e-190): the methods.
 		if withPMF {
@@ -339,7 +339,10 @@ func (d Dist) decide(t *quantileTarget, k int64, upperW, withPMF bool) (ok bool,
 	} else {
 		small = tv.linSmall()
 		if withPMF {
-			b = tv.pmf
+			b = 0
+			if tv.form == formLin {
+				b = tv.f
+			}
 			if !(b > 0) {
 				b = d.Prob(k)
 			}

@@ -67,7 +67,10 @@ func TestSumAgainstFraction(t *testing.T) {
 			}
 			for _, k := range ks {
 				lower := d.lowerDirect(k)
-				if d.sumTerms(k, lower) > sumMaxTerms {
+				if short := d.shortSum(k, lower); short != (d.sumTerms(k, lower) <= sumMaxTerms) {
+					t.Errorf("%v k=%d lower=%v: shortSum %v, sumTerms %v", d, k, lower, short, d.sumTerms(k, lower))
+				}
+				if !d.shortSum(k, lower) {
 					continue
 				}
 				tv := d.sumTail(k, lower)

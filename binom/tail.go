@@ -125,16 +125,33 @@ func (d Dist) sumTerms(k int64, lower bool) float64 {
 	return min(est, 12*math.Sqrt(n*d.P*(1-d.P))+16)
 }
 
+// sumVarMax is the variance below which the sum's estimate 12 sd + 16 is
+// at most sumMaxTerms.
+const sumVarMax = (sumMaxTerms - 16) * (sumMaxTerms - 16) / 144.0
+
+// shortSum reports sumTerms(k, lower) <= sumMaxTerms without a division
+// or a square root: j <= sumMaxTerms, or r <= 1 - 39/sumMaxTerms, or
+// N P (1-P) <= sumVarMax.
+func (d Dist) shortSum(k int64, lower bool) bool {
+	n, fk := float64(d.N), float64(k)
+	var j, num, den float64
+	if lower {
+		j, num, den = fk, fk*(1-d.P), (n-fk+1)*d.P
+	} else {
+		j, num, den = n-fk-1, (n-fk-1)*d.P, (fk+2)*(1-d.P)
+	}
+	return j <= sumMaxTerms || num <= (1-39.0/sumMaxTerms)*den || n*d.P*(1-d.P) <= sumVarMax
+}
+
 // tailVal is the smaller tail at some k in one of three forms, so that
 // each of CDF, Survival, LogCDF and LogSurvival takes only the operations
 // it needs: e^lb f (a log PMF times a sum or a continued fraction), the
 // plain value s, or its logarithm ls.
 type tailVal struct {
-	lower bool // the smaller tail is the lower one, P(X <= k)
-	form  int  // formProd, formLin or formLog
-	lb, f float64
+	lower bool    // the smaller tail is the lower one, P(X <= k)
+	form  int     // formProd, formLin or formLog
+	lb, f float64 // formProd; for formLin, f holds b(k) when smallTailPMF asked for it
 	s, ls float64
-	pmf   float64 // b(k) from the expansion's parts (formLin), for the quantile walk
 }
 
 const (
@@ -186,6 +203,54 @@ func (t *tailVal) linLarge() float64 {
 	return 1 - t.linSmall()
 }
 
+// get returns the lower tail (if lowerWanted) or the upper one, as its
+// logarithm (if logWanted) or plainly: logLower, logUpper, linLower or
+// linUpper in one call, by the same operations.
+func (t *tailVal) get(lowerWanted, logWanted bool) float64 {
+	small := lowerWanted == t.lower
+	switch t.form {
+	case formProd:
+		switch {
+		case small && logWanted:
+			return t.lb + math.Log(t.f)
+		case small:
+			if t.lb > -700 {
+				return math.Exp(t.lb) * t.f
+			}
+			return math.Exp(t.lb + math.Log(t.f))
+		}
+		var lin float64
+		if t.lb > -700 {
+			lin = math.Exp(t.lb) * t.f
+		} else {
+			lin = math.Exp(t.lb + math.Log(t.f))
+		}
+		if logWanted {
+			return math.Log1p(-lin)
+		}
+		return 1 - lin
+	case formLin:
+		switch {
+		case small && logWanted:
+			return xmath.Log(t.s)
+		case small:
+			return t.s
+		case logWanted:
+			return math.Log1p(-t.s)
+		}
+		return 1 - t.s
+	}
+	switch {
+	case small && logWanted:
+		return t.ls
+	case small:
+		return math.Exp(t.ls)
+	case logWanted:
+		return xmath.Log1mExp(t.ls)
+	}
+	return -math.Expm1(t.ls)
+}
+
 func (t *tailVal) logLower() float64 {
 	if t.lower {
 		return t.logSmall()
@@ -225,12 +290,16 @@ func (t *tailVal) linUpper() float64 {
 //   - in the bulk of a wide distribution, the uniform expansion;
 //   - elsewhere, logLower or logUpper (the continued fraction on the side
 //     where its argument is at most 1/2, the term sum on the other).
-func (d Dist) smallTail(k int64) tailVal {
+func (d Dist) smallTail(k int64) tailVal { return d.smallTailPMF(k, false) }
+
+// smallTailPMF is smallTail that, if withPMF, also leaves b(k) from the
+// uniform expansion's parts in f of a formLin result (0 where it has none).
+func (d Dist) smallTailPMF(k int64, withPMF bool) tailVal {
 	if d.P < tinyP {
 		return tailVal{form: formLog, ls: d.LogProb(k + 1)}
 	}
 	lower := d.lowerDirect(k)
-	if d.sumTerms(k, lower) <= sumMaxTerms {
+	if d.shortSum(k, lower) {
 		return d.sumTail(k, lower)
 	}
 	n := float64(d.N)
@@ -239,9 +308,9 @@ func (d Dist) smallTail(k int64) tailVal {
 		m := math.Min(fk+1, n-fk)
 		z := fk + 0.5 - n*d.P
 		if m >= temmeMinAB && z*z <= temmeZ2*m*v {
-			if ls, small, pmf, lo, ok := d.temmeSmall(k); ok {
+			if ls, small, pmf, lo, ok := d.temmeSmall(k, withPMF); ok {
 				if math.IsNaN(ls) {
-					return tailVal{lower: lo, form: formLin, s: small, pmf: pmf}
+					return tailVal{lower: lo, form: formLin, s: small, f: pmf}
 				}
 				return tailVal{lower: lo, form: formLog, ls: ls}
 			}
@@ -331,7 +400,7 @@ func (d Dist) LogCDF(k int64) float64 {
 		return math.Inf(-1)
 	}
 	t := d.smallTail(k)
-	return t.logLower()
+	return t.get(true, true)
 }
 
 // LogSurvival returns ln P(X > k) = ln I_P(k+1, N-k): 0 for k < 0, -Inf
@@ -354,7 +423,7 @@ func (d Dist) LogSurvival(k int64) float64 {
 		return 0
 	}
 	t := d.smallTail(k)
-	return t.logUpper()
+	return t.get(false, true)
 }
 
 // CDF returns P(X <= k), the plain value of LogCDF(k); 0 for k < 0 and 1
@@ -380,7 +449,7 @@ func (d Dist) CDF(k int64) float64 {
 		return 0
 	}
 	t := d.smallTail(k)
-	return t.linLower()
+	return t.get(true, false)
 }
 
 // Survival returns P(X > k), the plain value of LogSurvival(k); 1 for
@@ -401,5 +470,5 @@ func (d Dist) Survival(k int64) float64 {
 		return 1
 	}
 	t := d.smallTail(k)
-	return t.linUpper()
+	return t.get(false, false)
 }

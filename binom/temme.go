@@ -132,7 +132,7 @@ func temmeInit() {
 // not converged to double precision within temmeOrder terms (the caller
 // then uses the continued fraction or the term sums).
 func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
-	lnSmall, small, _, lower, ok = d.temmeSmall(k)
+	lnSmall, small, _, lower, ok = d.temmeSmall(k, false)
 	if ok && math.IsNaN(lnSmall) {
 		lnSmall = xmath.Log(small)
 	}
@@ -141,14 +141,14 @@ func (d Dist) temmeTail(k int64) (lnSmall, small float64, lower, ok bool) {
 
 // temmeSmall is temmeTail with lnSmall left NaN where the plain tail is
 // at hand (above about 1e-190), for callers that may not need it, and
-// with b(k) = P(X = k) from the same parts where they give it (0
-// elsewhere): with a = N-k, b = k+1, mu = N+1,
+// if withPMF, with b(k) = P(X = k) from the same parts where they give it
+// (0 elsewhere): with a = N-k, b = k+1, mu = N+1,
 //
 //	b(k) = x^a (1-x)^b / (a P B(a, b)) = phi(z) sqrt(b / (a mu)) / (P D)
 //
 // by Stirling's formula for 1/B(a, b) = sqrt(a b / (2 pi mu)) mu^mu /
 // (a^a b^b D), the same deviance and D as the tail.
-func (d Dist) temmeSmall(k int64) (lnSmall, small, pmf float64, lower, ok bool) {
+func (d Dist) temmeSmall(k int64, withPMF bool) (lnSmall, small, pmf float64, lower, ok bool) {
 	temmeOnce.Do(temmeInit)
 	fa := float64(d.N - k)
 	fb := float64(k + 1)
@@ -222,7 +222,10 @@ func (d Dist) temmeSmall(k int64) (lnSmall, small, pmf float64, lower, ok bool) 
 		// Tail = Phi(-|z|) -+ phi(z) S/D, both terms from erfc and exp.
 		ePhi := math.Exp(lnPhi)
 		small = 0.5*math.Erfc(az/math.Sqrt2) + ePhi*corr
-		return math.NaN(), small, ePhi * (fb * sr) / (d.P * dd), lower, true
+		if withPMF {
+			pmf = ePhi * (fb * sr) / (d.P * dd)
+		}
+		return math.NaN(), small, pmf, lower, true
 	}
 	lnSmall = lnPhi + math.Log(millsRatio(az)+corr)
 	return lnSmall, math.Exp(lnSmall), 0, lower, true

@@ -83,7 +83,7 @@ func TestTemmePMF(t *testing.T) {
 				if k < 0 || k >= n {
 					continue
 				}
-				_, _, pmf, _, ok := d.temmeSmall(k)
+				_, _, pmf, _, ok := d.temmeSmall(k, true)
 				if !ok || pmf == 0 {
 					continue
 				}
