@@ -5,9 +5,7 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/power"
-	"github.com/kofnlab/kofn/test"
 )
 
 var spendWords = []string{"obf", "pocock", "rho:R"}
@@ -34,7 +32,7 @@ func interimCommand() *command {
 				"stopping counts at each look, the smallest count whose cumulative chance under p0 stays within the " +
 				"alpha spent, found on the exact binomial by dynamic programming over the count; futility counts from " +
 				"beta spending under p1. With looks=K the smallest equally spaced design reaching the power. " +
-				"With observed=K/N the stage-wise ordering p-value and interval at the end of the study. Two " +
+				"With observed=K/N the stage-wise ordering p-value, interval and median estimate at the end of the study. Two " +
 				"proportions (p1, p2, equal groups): bounds on the pooled z statistic by the normal approximation, the " +
 				"maximum size from the inflation factor, and the attained size and power checked exactly by enumerating " +
 				"both groups' counts (up to 300 per group). Shows, per look, the bounds and the alpha spent and attained, " +
@@ -210,24 +208,9 @@ func runInterim(c *call) error {
 		if look == 0 {
 			return inputErr(o.word, "has N = "+count(n)+", which is not one of the looks")
 		}
-		lv, err := c.Level()
-		if err != nil {
+		if out.Observed, err = stagedAnalysis(c, d.StageLooks(), look, k, p0, "look "+count(int64(look))); err != nil {
 			return err
 		}
-		st := d.StageLooks()
-		r, err := test.StageWise(c.Ctx, st, look, k, p0, test.StageWiseOptions{Alternative: test.Higher, SkipInterval: true})
-		if err != nil {
-			return err
-		}
-		iv, err := interval.StageWise(c.Ctx, st, look, k, interval.StageWiseOptions{Level: lv})
-		if err != nil {
-			return err
-		}
-		out.Observed = &stagedInference{Look: look, K: k, N: n, PValue: r.PValue, Interval: iv}
-		ib := c.Block("after the study: " + kn(k, n) + " at look " + count(int64(look)) + ", stage-wise ordering (exact)")
-		ib.Row("p-value", c.S.num(r.PValue), "one-sided, H0 p <= "+in(p0))
-		ib.Row("estimate", c.S.num(iv.Estimate), "k/n, biased after early stopping")
-		ib.Row("interval", c.S.num(iv.Lower)+" to "+c.S.num(iv.Upper), pct(iv.Level)+" two-sided")
 	}
 	if err := a.Check(); err != nil {
 		return err

@@ -31,7 +31,8 @@ func simonCommand() *command {
 				"than R of N succeed. Each design shows the chance of stopping after stage one (early stop) and the " +
 				"expected size under p0, the attained size and the power. With a design R1/N1 R/N: its size, power, " +
 				"early stop and expected size; with observed=K/N also the exact p-value and confidence interval by the " +
-				"stage-wise ordering, which the plain K/N interval is not after a design that may stop early.",
+				"stage-wise ordering, which the plain K/N interval is not after a design that may stop early, and the " +
+				"median estimate (the midpoint of the one-sided 50% stage-wise bounds) beside K/N.",
 			Methods: "Exact binomial sums; an exhaustive search with pruning that never drops a candidate. Admissible " +
 				"designs minimise q n + (1 - q) EN0 for a weight q (the range of q is shown). Stage-wise ordering " +
 				"p-value and interval (one-sided for the p-value, the interval two-sided at level).",
@@ -116,23 +117,9 @@ func runSimon(c *call) error {
 		default:
 			return inputErr(o.word, "has N = "+count(m)+", which is neither N1 = "+count(n1)+" nor N = "+count(n))
 		}
-		lv, err := c.Level()
-		if err != nil {
+		if res.Observed, err = stagedAnalysis(c, d.Looks(), look, k, p0, "stage "+count(int64(look))); err != nil {
 			return err
 		}
-		r, err := test.StageWise(c.Ctx, d.Looks(), look, k, p0, test.StageWiseOptions{Alternative: test.Higher, SkipInterval: true})
-		if err != nil {
-			return err
-		}
-		iv, err := interval.StageWise(c.Ctx, d.Looks(), look, k, interval.StageWiseOptions{Level: lv})
-		if err != nil {
-			return err
-		}
-		res.Observed = &stagedInference{Look: look, K: k, N: m, PValue: r.PValue, Interval: iv}
-		ib := c.Block("after the study: " + kn(k, m) + " at stage " + count(int64(look)) + ", stage-wise ordering (exact)")
-		ib.Row("p-value", c.S.num(r.PValue), "one-sided, H0 p <= "+in(p0))
-		ib.Row("estimate", c.S.num(iv.Estimate), "k/n, biased after early stopping")
-		ib.Row("interval", c.S.num(iv.Lower)+" to "+c.S.num(iv.Upper), pct(iv.Level)+" two-sided")
 	}
 	c.Data(res)
 	return a.Check()
@@ -153,6 +140,45 @@ type stagedInference struct {
 	N        int64             `json:"n"`
 	PValue   float64           `json:"p_value"`
 	Interval interval.Interval `json:"interval"`
+	// Median is the midpoint of the one-sided 50% stage-wise bounds: the p
+	// at which the outcome sits at the median of the stage-wise ordering
+	// (exactly so for a continuous statistic).
+	Median float64 `json:"median"`
+}
+
+// stagedAnalysis writes and returns the stage-wise ordering analysis of the
+// outcome k at look (1-based) of the design st: the one-sided p-value
+// against p0, the two-sided interval at the session level, the naive k/n
+// and the median estimate.
+func stagedAnalysis(c *call, st []interval.Look, look int, k int64, p0 float64, where string) (*stagedInference, error) {
+	lv, err := c.Level()
+	if err != nil {
+		return nil, err
+	}
+	r, err := test.StageWise(c.Ctx, st, look, k, p0, test.StageWiseOptions{Alternative: test.Higher, SkipInterval: true})
+	if err != nil {
+		return nil, err
+	}
+	iv, err := interval.StageWise(c.Ctx, st, look, k, interval.StageWiseOptions{Level: lv})
+	if err != nil {
+		return nil, err
+	}
+	lo, err := interval.StageWise(c.Ctx, st, look, k, interval.StageWiseOptions{Level: 0.5, Side: interval.LowerBound})
+	if err != nil {
+		return nil, err
+	}
+	hi, err := interval.StageWise(c.Ctx, st, look, k, interval.StageWiseOptions{Level: 0.5, Side: interval.UpperBound})
+	if err != nil {
+		return nil, err
+	}
+	n := st[look-1].N
+	out := &stagedInference{Look: look, K: k, N: n, PValue: r.PValue, Interval: iv, Median: (lo.Lower + hi.Upper) / 2}
+	b := c.Block("after the study: " + kn(k, n) + " at " + where + ", stage-wise ordering (exact)")
+	b.Row("p-value", c.S.num(r.PValue), "one-sided, H0 p <= "+in(p0))
+	b.Row("interval", c.S.num(iv.Lower)+" to "+c.S.num(iv.Upper), pct(iv.Level)+" two-sided")
+	b.Row("median estimate", c.S.num(out.Median), "midpoint of the one-sided 50% bounds "+c.S.num(lo.Lower)+" and "+c.S.num(hi.Upper))
+	b.Row("k/n", c.S.num(iv.Estimate), "biased after a design that can stop early")
+	return out, nil
 }
 
 func simonSearch(c *call, p0 float64) error {

@@ -1,6 +1,9 @@
 package repl
 
-import "testing"
+import (
+	"math"
+	"testing"
+)
 
 func TestStagedDesignValues(t *testing.T) {
 	t.Parallel()
@@ -20,6 +23,9 @@ func TestStagedDesignValues(t *testing.T) {
 		// Stage-one stop: the stage-wise p-value is P(X1 >= x1) (Koyama and Chen 2008); for 1 of 13
 		// at p0 = 0.2 that is 1 - 0.8^13 = 0.945024.
 		{"simon 3/13 12/43 p0=0.2 observed=1/13", "observed.p_value", 1 - 0.054975581388800036, 1e-12, "Koyama and Chen 2008"},
+		// A stop at stage one with x1 responses has Clopper-Pearson's limits for x1 of n1 (Koyama and
+		// Chen 2008); for 0 of 13 at 95% the upper limit is 1 - 0.025^(1/13) in closed form.
+		{"simon 3/13 12/43 p0=0.2 observed=0/13", "observed.interval.upper", 1 - math.Pow(0.025, 1.0/13), 1e-9, "Clopper and Pearson 1934"},
 		// Lan-DeMets O'Brien-Fleming type bounds, five looks, one-sided 0.025 (DeMets and Lan 1994;
 		// Jennison and Turnbull 2000, chapter 7; recalled): 4.877 at the first look, 2.031 at the last.
 		{"interim p1=0.5 p2=0.3 looks=5", "looks.0.z", 4.877, 1e-4, "DeMets and Lan 1994"},
