@@ -299,7 +299,7 @@ func sprtOperating(ctx context.Context, fn string, s test.SPRT, p float64) (SPRT
 	}
 	r.Steps = n
 	r.Undecided = running
-	if running > 0 {
+	if running >= 1e-15 {
 		r.Warnings = append(r.Warnings, "the untruncated test was followed for "+argerr.Format(n)+
 			" observations and is still running with probability "+argerr.Format(running)+"; Accept, Reject and ASN are lower bounds")
 	}

@@ -159,3 +159,43 @@ func BenchmarkSPRTOperating(b *testing.B) {
 		})
 	}
 }
+
+// When p1 = 1 - p0 a success and a failure move Z by +a and -a, and when
+// both boundaries are whole multiples of a the walk stops exactly on them:
+// the SPRT is the gambler's ruin, whose absorption probability and
+// expected duration are classical closed forms (Feller W (1968), An
+// Introduction to Probability Theory and Its Applications, vol. 1, 3rd
+// ed., chapter XIV, sections 2 and 3), and Wald's approximations, which
+// only neglect the overshoot, are exact.
+func TestSPRTGamblersRuin(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		p0   float64
+		m, l int // upper boundary m steps above the start, lower l steps below
+	}{{0.4, 3, 2}, {0.3, 2, 2}, {0.45, 5, 4}} {
+		p1 := 1 - c.p0
+		a := math.Log(p1 / c.p0)
+		A, B := math.Exp(float64(c.m)*a), math.Exp(-float64(c.l)*a)
+		alpha := (1 - B) / (A - B)
+		beta := B * (A - 1) / (A - B)
+		s, err := test.NewSPRT(c.p0, p1, alpha, beta, test.SPRTOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, p := range []float64{0.2, c.p0, 0.5 + 1e-3, p1, 0.8} {
+			q := 1 - p
+			r := q / p
+			L := float64(c.l + c.m)
+			up := -math.Expm1(float64(c.l)*math.Log(r)) / -math.Expm1(L*math.Log(r)) // (1 - r^l)/(1 - r^(l+m))
+			dur := float64(c.l)/(q-p) - L/(q-p)*up
+			got, err := SPRTOperating(context.Background(), s, p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := []float64{1 - up, up, dur, 1 - up, dur}
+			if diff := cmp.Diff(want, []float64{got.Accept, got.Reject, got.ASN, got.WaldAccept, got.WaldASN}, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
+				t.Errorf("p0 %g m %d l %d at p %g: accept, reject, ASN, Wald's (-Feller +got)\n%s", c.p0, c.m, c.l, p, diff)
+			}
+		}
+	}
+}

@@ -27,6 +27,8 @@ func watchCommand() *command {
 			{Name: "alpha", Doc: "chance of rejecting a true H0 (default 0.05)"},
 			{Name: "beta", Doc: "sprt, pairs: chance of accepting H0 when H1 holds (default 0.1)"},
 			{Name: "max", Doc: "sprt, pairs: truncate at this many observations (default none)"},
+			{Name: "yn", Doc: "pairs, design: the chance of an n12 pair (yes in the first, no in the second) under H1"},
+			{Name: "ny", Doc: "pairs, design: the chance of an n21 pair under H1; with yn= the expected number of all pairs is shown"},
 			{Name: "planned", Doc: "always, ab: the size (per group) the mixture is tuned for (default 1000)"},
 			{Name: "guess", Doc: "always: the proportion the mixture is tuned around (default 0.5)"},
 			{Name: "delta", Doc: "ab: the null difference p1 - p2 (default 0)"},
@@ -142,6 +144,21 @@ func watchSPRT(c *call, paired bool) error {
 	if err != nil {
 		return err
 	}
+	var cells []float64 // yn=, ny= for the paired design
+	if paired && (a.Has("yn") || a.Has("ny")) {
+		if err := a.Need("yn", "ny"); err != nil {
+			return err
+		}
+		p12, err := a.Prob("yn", 0)
+		if err != nil {
+			return err
+		}
+		p21, err := a.Prob("ny", 0)
+		if err != nil {
+			return err
+		}
+		cells = []float64{p12, p21}
+	}
 	if err := a.Check(); err != nil {
 		return err
 	}
@@ -170,7 +187,17 @@ func watchSPRT(c *call, paired bool) error {
 			out.Operating = append(out.Operating, r)
 		}
 		if paired {
-			b.Row("counts", "discordant pairs", "expected pairs in all = expected n / (p12 + p21)")
+			b.Row("counts", "discordant pairs", "expected pairs in all = expected n / (p12 + p21); give yn= and ny= to see them")
+			if cells != nil {
+				p12, p21 := cells[0], cells[1]
+				r, err := power.PairedSPRTOperating(c.Ctx, s, p12, p21)
+				if err != nil {
+					return err
+				}
+				b.Row("at yn = "+in(p12)+", ny = "+in(p21), "theta "+c.S.num(r.P)+", reject "+c.S.num(r.Reject),
+					"expected discordant pairs "+c.S.num(r.ASN)+", expected pairs in all "+c.S.num(r.ExpectedPairs))
+				out.Operating = append(out.Operating, r)
+			}
 		}
 		c.Data(out)
 		return nil
