@@ -238,8 +238,21 @@ func equalTailed(a, b float64, lv level) (lo, hi float64) {
 // distribution with probability level in (0, 1), as Credible describes;
 // flat reports a = b = 1 (the central interval is returned). It fails with
 // ErrNoSolution for a, b < 1 (U-shaped density: the region is two pieces).
-// a, b must be positive and finite (not checked: used by validated callers).
+// a and b must be positive and finite and level in (0, 1): ErrInvalidArgument
+// otherwise (an infinite shape once made the solver run without end).
 func HPDBeta(a, b, level float64) (lo, hi float64, flat bool, err error) {
+	const fn = "interval.HPDBeta"
+	for _, s := range [2]struct {
+		name string
+		v    float64
+	}{{"a", a}, {"b", b}} {
+		if !(s.v > 0) || math.IsInf(s.v, 1) {
+			return 0, 0, false, argerr.Invalid(fn, s.name, s.v, "must be a positive, finite shape")
+		}
+	}
+	if !(level > 0 && level < 1) {
+		return 0, 0, false, argerr.Invalid(fn, "level", level, "must lie strictly between 0 and 1")
+	}
 	switch {
 	case a == 1 && b == 1:
 		return (1 - level) / 2, (1 + level) / 2, true, nil

@@ -295,6 +295,7 @@ func entries() []entry {
 	e = append(e, stagesEntries()...)
 	e = append(e, allEnums()...)
 	e = append(e, sequentialEntries()...)
+	e = append(e, bayesStrataEntries()...)
 	return append(e, allJSON()...)
 }
 
