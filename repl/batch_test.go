@@ -105,6 +105,7 @@ func benchmarkEach(b *testing.B, verb string, rows, lo, spread int) {
 				b.Fatal(err)
 			}
 			job := batchJob{spec: cmd.Row, fn: fn, workers: workers, errText: func(err error) string { return err.Error() }}
+			c0 := cpuTime()
 			for b.Loop() {
 				if st, err := runBatch(context.Background(), bytes.NewReader(data), io.Discard, job); err != nil || st.failed > 0 {
 					b.Fatal(err, st.failed)
@@ -113,6 +114,7 @@ func benchmarkEach(b *testing.B, verb string, rows, lo, spread int) {
 			perRow := b.Elapsed().Seconds() / float64(b.N) / float64(rows)
 			b.ReportMetric(perRow*1e9, "ns/row")
 			b.ReportMetric(1/perRow, "rows/s")
+			b.ReportMetric(float64(cpuTime()-c0)/1e3/float64(b.N)/float64(rows), "cpu-us/row")
 		})
 	}
 }
