@@ -3,9 +3,9 @@ package power
 import (
 	"context"
 	"math"
-	"slices"
 
 	"github.com/kofnlab/kofn/internal/argerr"
+	"github.com/kofnlab/kofn/internal/root"
 	"github.com/kofnlab/kofn/internal/xmath"
 	"github.com/kofnlab/kofn/test"
 )
@@ -27,101 +27,112 @@ func pooledZ(x1, n1, x2, n2 int64) float64 {
 // Barnard's p-value is the supremum over the nuisance proportion of the
 // probability of the tables at least as extreme (by the pooled z) as the
 // observed one, so it is monotone in the extremity of z and the region is
-// {tables at least as extreme as z*}. The tables are sorted by extremity
-// (ties, equal z within 1e-12 relative, share one rank as their p-values
-// are equal), and z* is found by bisection over the ranks with test.Barnard
-// deciding each probe: O(log(n1 n2)) Barnard p-values, each O(n1 n2).
+// {tables at least as extreme as z*}: key(table) >= k*, with key = z
+// (test.Higher), -z (test.Lower) or |z| (two-sided). k* is found by bisection on the
+// key's value, each probe a call of test.Barnard on the least extreme
+// table at or above the midpoint (or the most extreme below it), until no
+// table's key lies between the largest accepted and the smallest rejected
+// one (keys within 1e-12 relative count as tied: their p-values are
+// equal). Within a row x1 the pooled z falls as x2 grows (Barnard's
+// convexity of the pooled score ordering), so each probe's table and the
+// final region come from binary searches per row: O(n1 log n2) per probe,
+// O(n1) memory, and some 20 to 40 probes.
 func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative) (*twoRegion, error) {
-	type tab struct {
-		x1, x2 int64
-		key    float64 // larger is more extreme
+	key := func(x1, x2 int64) float64 {
+		z := pooledZ(x1, n1, x2, n2)
+		switch alt {
+		case test.Lower:
+			return -z
+		case test.TwoSided:
+			return math.Abs(z)
+		}
+		return z
 	}
-	tabs := make([]tab, 0, (n1+1)*(n2+1))
-	for x1 := int64(0); x1 <= n1; x1++ {
-		for x2 := int64(0); x2 <= n2; x2++ {
-			z := pooledZ(x1, n1, x2, n2)
-			switch alt {
-			case test.Lower:
-				z = -z
-			case test.TwoSided:
-				z = math.Abs(z)
+	// cuts returns, for row x1, the last x2 with z >= c (-1 if none) and
+	// the first x2 with z <= -c (n2+1 if none); with the key, the row's
+	// tables with key >= c are [0, p] for test.Higher, [q, n2] for test.Lower, both
+	// for two-sided (c > 0 there, so the two do not meet).
+	cuts := func(x1 int64, c float64) (p, q int64) {
+		p, q = -1, n2+1
+		if alt != test.Lower {
+			p = root.SmallestInt(func(x2 int64) bool { return pooledZ(x1, n1, x2, n2) < c }, 0, n2) - 1
+		}
+		if alt != test.Higher {
+			q = root.SmallestInt(func(x2 int64) bool { return pooledZ(x1, n1, x2, n2) <= -c }, 0, n2)
+		}
+		return p, q
+	}
+	tie := func(k float64) float64 { return 1e-12 * math.Abs(k) }
+	// nearest returns the table with the smallest key >= c and below hi
+	// (above), or with the largest key < c and above lo (below).
+	nearest := func(c, lo, hi float64) (t [2]int64, kt float64, ok bool, above bool) {
+		best, bestB := math.Inf(1), math.Inf(-1)
+		var tb [2]int64
+		okB := false
+		for x1 := int64(0); x1 <= n1; x1++ {
+			p, q := cuts(x1, c)
+			for _, x2 := range []int64{p, q} { // at or above c
+				if x2 >= 0 && x2 <= n2 {
+					if k := key(x1, x2); k >= c && k < hi && k < best {
+						best, t, ok = k, [2]int64{x1, x2}, true
+					}
+				}
 			}
-			tabs = append(tabs, tab{x1, x2, z})
+			for _, x2 := range []int64{p + 1, q - 1} { // below c
+				if x2 >= 0 && x2 <= n2 {
+					if k := key(x1, x2); k < c && k > lo && k > bestB {
+						bestB, tb, okB = k, [2]int64{x1, x2}, true
+					}
+				}
+			}
 		}
-	}
-	slices.SortFunc(tabs, func(a, b tab) int {
-		switch {
-		case a.key > b.key:
-			return -1
-		case a.key < b.key:
-			return 1
+		if ok {
+			return t, best, true, true
 		}
-		return 0
-	})
-	// Group starts: rank boundaries where the key changes beyond the tolerance.
-	var starts []int
-	for i := range tabs {
-		if i == 0 || tabs[i-1].key-tabs[i].key > 1e-12*math.Abs(tabs[i-1].key) {
-			starts = append(starts, i)
-		}
+		return tb, bestB, okB, false
 	}
 	la := xmath.Log(alpha)
 	opt := test.UnconditionalOptions{Alternative: alt}
-	var probeErr error
-	rejected := func(g int) bool { // group g and all more extreme groups are rejected
-		if probeErr != nil {
-			return false
+	zc := -zq(alpha) // the normal critical value: the first probe
+	if alt == test.TwoSided {
+		zc = -zq(alpha / 2)
+	}
+	ka, kr := math.Inf(-1), math.Inf(1) // keys <= ka accepted, keys >= kr rejected
+	c := zc
+	for iter := 0; ; iter++ {
+		if err := argerr.Canceled(fn, ctx); err != nil {
+			return nil, err
 		}
-		t := tabs[starts[g]]
-		res, err := test.Barnard(ctx, t.x1, n1, t.x2, n2, opt)
+		t, kt, ok, _ := nearest(c, ka, kr)
+		if !ok || iter > 400 {
+			break
+		}
+		res, err := test.Barnard(ctx, t[0], n1, t[1], n2, opt)
 		if err != nil {
-			probeErr = err
-			return false
+			return nil, &argerr.Error{Func: fn, Reason: "Barnard's test failed: " + err.Error(), Err: err}
 		}
-		return res.LogPValue < la
-	}
-	// rejected is true for g = 0..G-1 and false after: find G.
-	lo, hi := -1, len(starts) // rejected(lo) true (or lo = -1), rejected(hi) false (or hi = len)
-	for hi-lo > 1 {
-		mid := lo + (hi-lo)/2
-		if rejected(mid) {
-			lo = mid
+		if res.LogPValue < la {
+			kr = kt - tie(kt)
 		} else {
-			hi = mid
+			ka = kt + tie(kt)
 		}
-		if probeErr != nil {
-			return nil, &argerr.Error{Func: fn, Reason: "Barnard's test failed: " + probeErr.Error(), Err: probeErr}
+		switch {
+		case math.IsInf(kr, 1):
+			c = ka + math.Max(1, math.Abs(ka))
+		case math.IsInf(ka, -1):
+			c = kr - math.Max(1, math.Abs(kr))
+		default:
+			c = ka + (kr-ka)/2
 		}
-	}
-	nrej := 0
-	if hi < len(starts) {
-		nrej = starts[hi]
-	} else {
-		nrej = len(tabs)
 	}
 	r := &twoRegion{n1: n1, n2: n2, a: make([]int64, n1+1), b: make([]int64, n1+1)}
-	rej := make([]bool, (n1+1)*(n2+1))
-	for _, t := range tabs[:nrej] {
-		rej[t.x1*(n2+1)+t.x2] = true
-	}
-	// Barnard's convexity: in each row the accepted x2 form an interval.
 	for x1 := int64(0); x1 <= n1; x1++ {
-		a, b := int64(0), int64(-1)
-		row := rej[x1*(n2+1) : (x1+1)*(n2+1)]
-		for x2 := int64(0); x2 <= n2; x2++ {
-			if !row[x2] {
-				if b < a {
-					a = x2
-				}
-				b = x2
-			}
+		if math.IsInf(kr, 1) {
+			r.a[x1], r.b[x1] = 0, n2 // nothing rejected
+			continue
 		}
-		for x2 := a; x2 <= b; x2++ {
-			if row[x2] {
-				return nil, argerr.NoSolution(fn, "the Barnard rejection region is not convex in a row; cannot enumerate")
-			}
-		}
-		r.a[x1], r.b[x1] = a, b
+		p, q := cuts(x1, kr)
+		r.a[x1], r.b[x1] = p+1, q-1
 	}
 	return r, nil
 }

@@ -127,3 +127,18 @@ func BenchmarkOneSampleCurve2000Blaker(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkTwoSamplePower2000 runs the exact two-sample power of each
+// exact test at an A/B-test size, 2000 per group, 45% against 50%.
+func BenchmarkTwoSamplePower2000(b *testing.B) {
+	for _, t := range []ExactTest{FisherExactTest, ZPooledTest, BarnardExactTest} {
+		b.Run(t.String(), func(b *testing.B) {
+			o := TwoSampleOptions{Test: t}
+			for b.Loop() {
+				if _, err := TwoSamplePower(context.Background(), 2000, 2000, 0.45, 0.50, o); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

@@ -139,7 +139,7 @@
 //
 // Every search and enumeration takes a context.Context, checks it in its
 // loop, and has a documented size limit (DefaultMaxN, MaxSearchN,
-// MaxTables, DefaultMaxPlanN, ...) beyond which it returns ErrTooLarge.
+// MaxTwoSampleTotal, DefaultMaxPlanN, ...) beyond which it returns ErrTooLarge.
 // Impossible requests (a target power that no n up to the limit reaches,
 // an alternative on the null side, a plan that cannot meet both risks)
 // return ErrNoSolution with the reason. Bad arguments return

@@ -15,20 +15,11 @@ import (
 // examine when MaxN is 0.
 const DefaultMaxN2 int64 = 1000
 
-// MaxTables bounds the exact two-sample enumeration: (n1+1)(n2+1) may not
-// exceed it (the test package's limit for its unconditional tests).
-const MaxTables = test.MaxUnconditionalTables
-
-// pmfAll returns P(X = k), k = 0..n, for X ~ Binomial(n, p), from binom's
-// log PMF (exact zeros at p = 0 or 1).
-func pmfAll(n int64, p float64) []float64 {
-	d := binom.Dist{N: n, P: p}
-	w := make([]float64, n+1)
-	for k := range w {
-		w[k] = d.Prob(int64(k))
-	}
-	return w
-}
+// MaxTwoSampleTotal bounds the exact two-sample calculations: n1 + n2 may
+// not exceed it (the test package's limit for its unconditional tests).
+// Memory is O(n1 + n2) for the rejection region and the enumeration
+// window; time grows faster (see TwoSamplePower), and ctx cancels.
+const MaxTwoSampleTotal = test.MaxUnconditionalTotal
 
 // twoRegion is the rejection region of a two-sample test with groups n1,
 // n2, stored per margin s = x1 + x2 as the accepted x1 interval [a[s],
@@ -132,45 +123,56 @@ func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt te
 }
 
 // prob returns the probability of the rejection region when X1 ~
-// Binomial(n1, p1) and X2 ~ Binomial(n2, p2), independent.
+// Binomial(n1, p1) and X2 ~ Binomial(n2, p2), independent, summed over the
+// tables inside both PMF windows (see pmfWindow; the mass left out is
+// below 1e-14): O(sqrt(n1) + sqrt(n2)) for a region held by row, O(w1 w2)
+// for one held by margin, w the window widths (about 18 standard
+// deviations each).
 func (r *twoRegion) prob(p1, p2 float64) float64 {
-	b1, b2 := pmfAll(r.n1, p1), pmfAll(r.n2, p2)
-	// Prefix sums of b2 for row sums.
-	c2 := make([]float64, r.n2+2)
+	l1, b1 := pmfWindow(r.n1, p1, nil)
+	l2, b2 := pmfWindow(r.n2, p2, nil)
+	h1, h2 := l1+int64(len(b1))-1, l2+int64(len(b2))-1
+	sum := 0.0
+	if r.bySum {
+		for x1 := l1; x1 <= h1; x1++ {
+			row := 0.0
+			for x2 := l2; x2 <= h2; x2++ {
+				s := x1 + x2
+				if x1 < r.a[s] || x1 > r.b[s] {
+					row += b2[x2-l2]
+				}
+			}
+			sum += b1[x1-l1] * row
+		}
+		return min(max(sum, 0), 1)
+	}
+	// c2[k] = P(l2 <= X2 < l2 + k) over the window.
+	c2 := make([]float64, len(b2)+1)
 	for k, v := range b2 {
 		c2[k+1] = c2[k] + v
 	}
-	sum := 0.0
-	if r.bySum {
-		for s := int64(0); s <= r.n1+r.n2; s++ {
-			lo, hi := max(0, s-r.n2), min(r.n1, s)
-			a, b := r.a[s], r.b[s]
-			if a > b { // everything rejected
-				a, b = hi+1, hi
-			}
-			for x := lo; x < a; x++ {
-				sum += b1[x] * b2[s-x]
-			}
-			for x := b + 1; x <= hi; x++ {
-				sum += b1[x] * b2[s-x]
-			}
+	// mass returns the window mass of X2 in [a, b].
+	mass := func(a, b int64) float64 {
+		a, b = max(a, l2), min(b, h2)
+		if a > b {
+			return 0
 		}
-	} else {
-		for x1 := int64(0); x1 <= r.n1; x1++ {
-			a, b := r.a[x1], r.b[x1]
-			var rej float64
-			switch {
-			case r.inner && a <= b:
-				rej = c2[b+1] - c2[a]
-			case r.inner:
-				rej = 0
-			case a > b:
-				rej = c2[r.n2+1]
-			default:
-				rej = c2[a] + (c2[r.n2+1] - c2[b+1])
-			}
-			sum += b1[x1] * rej
+		return c2[b-l2+1] - c2[a-l2]
+	}
+	for x1 := l1; x1 <= h1; x1++ {
+		a, b := r.a[x1], r.b[x1]
+		var rej float64
+		switch {
+		case r.inner && a <= b:
+			rej = mass(a, b)
+		case r.inner:
+			rej = 0
+		case a > b:
+			rej = mass(0, r.n2)
+		default:
+			rej = mass(0, a-1) + mass(b+1, r.n2)
 		}
+		sum += b1[x1-l1] * rej
 	}
 	return min(max(sum, 0), 1)
 }
@@ -212,8 +214,8 @@ func checkGroups(fn string, n1, n2 int64) error {
 	if n2 < 1 {
 		return argerr.Invalid(fn, "n2", n2, "must be at least 1")
 	}
-	if n1 >= MaxTables || n2 >= MaxTables || (n1+1)*(n2+1) > MaxTables {
-		return argerr.TooLarge(fn, "n1", n1, "with n2 = "+argerr.Format(n2)+" gives more than MaxTables = "+argerr.Format(int64(MaxTables))+" tables")
+	if n1 > MaxTwoSampleTotal-n2 {
+		return argerr.TooLarge(fn, "n1", n1, "plus n2 = "+argerr.Format(n2)+" exceeds MaxTwoSampleTotal = "+argerr.Format(int64(MaxTwoSampleTotal)))
 	}
 	return nil
 }
@@ -229,8 +231,9 @@ func checkGroups(fn string, n1, n2 int64) error {
 // (reject when the p-value is below alpha): Fisher's per margin, by the
 // conditional p-value of onesample.LogPValueOf on binom.Hyper as
 // test.Fisher computes it; the z test per row by test.TwoSample; Barnard's
-// by bisection over the tables ordered by the pooled z, each probe a call
-// of test.Barnard. Size is the rejection probability at p1 = p2 = the
+// by bisection on the value of the pooled z, each probe a call of
+// test.Barnard on the table nearest the midpoint (found by binary searches
+// per row, see barnardRegion). Size is the rejection probability at p1 = p2 = the
 // pooled proportion (n1 p1 + n2 p2)/(n1 + n2) (the size of an exact
 // unconditional test is at most alpha at every common proportion).
 //
@@ -242,10 +245,13 @@ func checkGroups(fn string, n1, n2 int64) error {
 // (and p2 + m for equivalence) with p2 as planned, or at the boundary's
 // nearest point inside [0, 1]^2 when that one leaves it (p2 < m: p1 = 0,
 // p2 = m).
-// Limits: (n1+1)(n2+1) <= MaxTables. Cost:
-// Fisher and z about 2 ms at 200 x 200; Barnard about 20 p-values of
-// test.Barnard (tens of ms at 200 x 200). ctx is checked while the region
-// is built. Accuracy: absolute 1e-14 on the power.
+// Limits: n1 + n2 <= MaxTwoSampleTotal. Cost: memory O(n1 + n2); time
+// O(n1 + n2) p-values for Fisher's and the z test's regions, 20 to 40
+// p-values of test.Barnard for Barnard's, then the enumeration over the
+// tables inside both binomial windows (O(sqrt(n1 n2)) rows, each O(1) for
+// the tests held by row and O(sqrt(n2)) for Fisher's). Measured times are
+// in the README. ctx is checked while the region is built (and inside
+// each test.Barnard call). Accuracy: absolute 1e-14 on the power.
 func TwoSamplePower(ctx context.Context, n1, n2 int64, p1, p2 float64, o TwoSampleOptions) (ExactPower, error) {
 	const fn = "power.TwoSamplePower"
 	if err := checkGroups(fn, n1, n2); err != nil {
@@ -275,18 +281,17 @@ func TwoSamplePower(ctx context.Context, n1, n2 int64, p1, p2 float64, o TwoSamp
 // enumeration, the scan starts at n1 = max(1, floor(N/2)), N the
 // normal-approximation size with the CPS correction (exact sizes below
 // half of it are not examined), and Horizon = First + max(10, First/4).
-// Limits: n1 <= o.MaxN (default DefaultMaxN2) and MaxTables tables;
-// ErrNoSolution when the target is not reached. ctx is checked throughout.
-// Cost: one enumeration per n1 scanned (milliseconds for Fisher and z at a
-// few hundred per group; Barnard's tens of milliseconds each, so a
-// Barnard search over hundreds of n1 takes seconds to minutes).
+// Limits: n1 <= o.MaxN (default DefaultMaxN2) and n1 + n2 <=
+// MaxTwoSampleTotal; ErrNoSolution when the target is not reached. ctx is
+// checked throughout (inside every enumeration). Cost: one TwoSamplePower
+// per n1 scanned; measured times are in the README.
 func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactSize, error) {
 	const fn = "power.TwoSampleN"
 	s, err := o.setup(fn, p1, p2, true)
 	if err != nil {
 		return ExactSize{}, err
 	}
-	limit, err := maxN(fn, o.MaxN, DefaultMaxN2, MaxTables)
+	limit, err := maxN(fn, o.MaxN, DefaultMaxN2, MaxTwoSampleTotal)
 	if err != nil {
 		return ExactSize{}, err
 	}

@@ -117,8 +117,8 @@ func TestTwoSampleErrors(t *testing.T) {
 	if _, err := TwoSamplePower(ctx, 0, 10, 0.2, 0.3, TwoSampleOptions{}); !errors.Is(err, ErrInvalidArgument) {
 		t.Errorf("n1 = 0: %v", err)
 	}
-	if _, err := TwoSamplePower(ctx, 3000, 3000, 0.2, 0.3, TwoSampleOptions{}); !errors.Is(err, ErrTooLarge) {
-		t.Errorf("too many tables: %v", err)
+	if _, err := TwoSamplePower(ctx, MaxTwoSampleTotal/2+1, MaxTwoSampleTotal/2, 0.2, 0.3, TwoSampleOptions{}); !errors.Is(err, ErrTooLarge) {
+		t.Errorf("n1 + n2 = MaxTwoSampleTotal + 1: %v", err)
 	}
 	if _, err := TwoSampleN(ctx, 0.2, 0.2, TwoSampleOptions{}); !errors.Is(err, ErrInvalidArgument) {
 		t.Errorf("equal proportions: %v", err)

@@ -94,7 +94,7 @@
 // unconditional tests of Barnard (1947) and Boschloo (1970) keep both
 // margins free and take the supremum of the p-value over the nuisance
 // parameter; they are exact and usually more powerful, and cost more to
-// compute (see MaxUnconditionalTables). Mehta and Senchaudhuri (2003),
+// compute (see MaxUnconditionalTotal). Mehta and Senchaudhuri (2003),
 // Conditional versus unconditional exact tests for comparing two
 // binomials, compare the two approaches.
 //

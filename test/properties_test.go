@@ -140,28 +140,30 @@ func TestUnconditionalTinyP(t *testing.T) {
 	}
 }
 
-// TestRegionSumsAgree: the linear-space and log-space sums of a region's
-// probability agree where both apply.
+// TestRegionSumsAgree: the windowed linear-space sum and the full
+// log-space sum of a region's probability agree where the window's bound
+// says it is exact, and the window's value bounds the full sum from above
+// elsewhere.
 func TestRegionSumsAgree(t *testing.T) {
 	t.Parallel()
-	n1, n2 := 40, 33
-	obs := newZKey(12, 20, n1, n2)
-	reg, _ := newRegion(context.Background(), "t", n1, n2, func(x1, x2 int) bool { return cmpAbs(newZKey(x1, x2, n1, n2), obs) >= 0 })
-	w := newScratch(n1, n2)
-	for _, pi := range []float64{1e-6, 0.01, 0.2, 0.5, 0.77, 0.999} {
-		a := reg.logProbFull(w, pi)
-		b := reg.logProbLog(w) // w.l1, w.l2 filled by logProbFull at pi
-		if math.Abs(a-b) > 1e-12*math.Max(1, math.Abs(a)) {
-			t.Errorf("pi = %v: linear %v, log %v", pi, a, b)
+	for _, c := range [][4]int{{12, 40, 20, 33}, {400, 1000, 470, 1000}, {3, 5000, 1, 20}} {
+		n1, n2 := c[1], c[3]
+		reg, _ := newRegion(context.Background(), "t", n1, n2, barnardCut(n1, n2, newZKey(c[0], c[2], n1, n2), TwoSided))
+		for _, pi := range []float64{1e-6, 0.01, 0.2, 0.47, 0.5, 0.77, 0.999} {
+			a := reg.logProbFull(pi)
+			b, exact := reg.logProbBound(pi)
+			if exact && math.Abs(a-b) > 1e-12*math.Max(1, math.Abs(a)) || !exact && b < a {
+				t.Errorf("%v, pi = %v: full %v, window %v (exact %v)", c, pi, a, b, exact)
+			}
 		}
 	}
 }
 
 func TestUnconditionalLimits(t *testing.T) {
 	t.Parallel()
-	_, err := Barnard(context.Background(), 1, 3000, 1, 3000, UnconditionalOptions{})
+	_, err := Barnard(context.Background(), 1, MaxUnconditionalTotal/2+1, 1, MaxUnconditionalTotal/2, UnconditionalOptions{})
 	if !errors.Is(err, ErrTooLarge) {
-		t.Errorf("3000 x 3000: %v", err)
+		t.Errorf("n1 + n2 = MaxUnconditionalTotal + 1: %v", err)
 	}
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()

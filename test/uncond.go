@@ -5,17 +5,17 @@ import (
 	"math"
 	"sort"
 
+	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
-	"github.com/kofnlab/kofn/internal/onesample"
 	"github.com/kofnlab/kofn/internal/xmath"
 )
 
-// MaxUnconditionalTables is the size limit of Barnard and Boschloo: the
-// number of possible tables (n1+1)(n2+1) may not exceed it (about
-// 2000 x 2000, or 2e6 x 1), which keeps a test to about a second on one
-// core whatever the shape: the cost is O(n1 n2) for the ordering and
-// O(n1 + n2) for the supremum over the nuisance.
-const MaxUnconditionalTables = 4_100_000
+// MaxUnconditionalTotal is the size limit of Barnard and Boschloo: the
+// total n1 + n2 may not exceed it. Time and memory grow with the total
+// alone, not with the number of tables (n1+1)(n2+1): memory O(n1 + n2),
+// time about O((n1 + n2)^1.5) (see the tests' Cost paragraphs), so a test
+// at the limit takes seconds; the context cancels it sooner.
+const MaxUnconditionalTotal = 2_000_000
 
 // UnconditionalOptions are the options of Barnard and Boschloo. The zero
 // value is the two-sided test with the supremum over the whole range
@@ -36,105 +36,126 @@ type UnconditionalOptions struct {
 	Rule TwoSidedRule
 }
 
-// region is a rejection region of 2x2 tables (x1 of n1, x2 of n2): for
-// each x1 a prefix [0, pre[x1]] and a suffix [suf[x1], n2] of x2 values,
-// and, only where the ordering breaks Barnard's convexity condition,
-// interior runs. Under an ordering that satisfies the condition every row
-// is a prefix, a suffix or both, so the probability of the region at a
-// nuisance value costs O(n1 + n2) tail sums.
+// region is a rejection region of 2x2 tables (x1 of n1, x2 of n2) held by
+// margin. Given the total S = X1 + X2 = s, X1 is hypergeometric under H0
+// whatever the common proportion pi, and
+//
+//	P(region; pi) = sum over s of b(s; N, pi) W_s,  N = n1 + n2,
+//
+// where b is the Binomial(N, pi) PMF and W_s the hypergeometric
+// probability of the region's tables with total s (the pi-free factor
+// C(n1, x1) C(n2, x2) / C(N, s) of each table's probability). Both tests
+// order the tables of one margin monotonically in x1 (Barnard's z is
+// linear in x1 there; Fisher's p-values are tails, or unimodal in x1 for
+// the two-sided definitions), so the region's tables of margin s are two
+// tails of x1, [lo, a] and [b, hi], and W_s costs two hypergeometric tail
+// sums. This holds whether or not the region is Barnard-convex across
+// margins; Boschloo's two-sided point-probability ordering is not (its
+// rows have interior runs), and needs no special case here.
 type region struct {
-	n1, n2   int
-	pre, suf []int
-	inner    [][3]int // {x1, a, b}: x2 in [a, b] strictly inside the row, in order of x1
-	runAt    []int    // inner[runAt[x1]:runAt[x1+1]] are the runs of row x1 (nil without runs)
-	in00     bool     // the table (0, 0) belongs to the region
-	inNN     bool     // the table (n1, n2) belongs to the region
-	lc1, lc2 []float64
+	n1, n2 int
+	lw     []float64 // ln W_s, s = 0..N (-Inf where margin s holds no region table)
+	w      []float64 // W_s / max W: linear weights, 0 where they underflow
+	lmax   float64   // ln max W
+	e      []float64 // scratch: the scaled binomial PMF of a window
+	lb     []float64 // scratch: ln b(s; N, pi) of a full sum
+	// ctx, when set (by supremum), is checked every 16384 margins of a full
+	// sum; stop holds its error once it is done, and full sums then return
+	// -Inf at once.
+	ctx  context.Context
+	fn   string
+	stop error
 }
 
-// newRegion builds the region {(x1, x2) : in(x1, x2)}, checking ctx once
-// per row.
-func newRegion(ctx context.Context, fn string, n1, n2 int, in func(x1, x2 int) bool) (*region, error) {
-	r := &region{n1: n1, n2: n2, pre: make([]int, n1+1), suf: make([]int, n1+1)}
-	for x1 := 0; x1 <= n1; x1++ {
-		if x1%64 == 0 {
+// cutFunc returns the region's tables of margin s, whose x1 support is
+// lo..hi: x1 in [lo, a] or [b, hi], with a = lo-1 or b = hi+1 for an
+// empty tail (a >= b-1 when the whole margin belongs to the region).
+type cutFunc func(s, lo, hi int) (a, b int)
+
+// newRegion builds the region margin by margin, checking ctx every 16
+// margins: O(N) memory, and per margin the cut plus two hypergeometric
+// tails (binom.Hyper.LogCDF and LogSurvival, accurate to about 1e-13).
+func newRegion(ctx context.Context, fn string, n1, n2 int, cut cutFunc) (*region, error) {
+	N := n1 + n2
+	r := &region{n1: n1, n2: n2, lw: make([]float64, N+1), w: make([]float64, N+1),
+		e: make([]float64, N+1), lmax: math.Inf(-1)}
+	for s := 0; s <= N; s++ {
+		if s%16 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return nil, err
 			}
 		}
-		a := 0
-		for a <= n2 && in(x1, a) {
-			a++
-		}
-		r.pre[x1] = a - 1
-		b := n2
-		for b >= a && in(x1, b) {
-			b--
-		}
-		r.suf[x1] = b + 1
-		for x2 := a; x2 <= b; x2++ {
-			if !in(x1, x2) {
-				continue
+		lo, hi := max(0, s-n2), min(n1, s)
+		a, b := cut(s, lo, hi)
+		h := binom.Hyper{Total: int64(N), Successes: int64(n1), Draws: int64(s)}
+		var v float64
+		switch {
+		case a >= b-1:
+			v = 0
+		default:
+			v = math.Inf(-1)
+			if a >= lo {
+				v = h.LogCDF(int64(a))
 			}
-			e := x2
-			for e+1 <= b && in(x1, e+1) {
-				e++
+			if b <= hi {
+				v = xmath.LogAddExp(v, h.LogSurvival(int64(b-1)))
 			}
-			r.inner = append(r.inner, [3]int{x1, x2, e})
-			x2 = e
+			v = math.Min(0, v)
 		}
+		r.lw[s] = v
+		r.lmax = math.Max(r.lmax, v)
 	}
-	r.in00 = in(0, 0)
-	r.inNN = in(n1, n2)
-	if len(r.inner) > 0 {
-		r.runAt = make([]int, n1+2)
-		for _, run := range r.inner {
-			r.runAt[run[0]+1]++
+	for s, v := range r.lw {
+		if s%16384 == 0 {
+			if err := argerr.Canceled(fn, ctx); err != nil {
+				return nil, err
+			}
 		}
-		for x1 := 1; x1 <= n1+1; x1++ {
-			r.runAt[x1] += r.runAt[x1-1]
-		}
+		r.w[s] = math.Exp(v - r.lmax)
 	}
-	lg := logFactorials(max(n1, n2))
-	r.lc1 = logChooseFrom(lg, n1)
-	r.lc2 = logChooseFrom(lg, n2)
 	return r, nil
 }
 
-// logFactorials returns ln x! for x = 0..n (one lgamma per entry).
-func logFactorials(n int) []float64 {
-	lg := make([]float64, n+1)
-	for x := range lg {
-		lg[x], _ = math.Lgamma(float64(x + 1))
+// lastTrue returns the largest x in [lo, hi] with in(x) for a predicate
+// true on a prefix of [lo, hi] (lo-1 when it is nowhere true), galloping
+// from the guess g and then bisecting: O(log |answer - g|) calls.
+func lastTrue(in func(int) bool, lo, hi, g int) int {
+	t, f := lo-1, hi+1 // in(t) or t = lo-1; !in(f) or f = hi+1
+	g = min(max(g, lo), hi)
+	if in(g) {
+		t = g
+		for d := 1; t+d < f; d *= 2 {
+			if !in(t + d) {
+				f = t + d
+				break
+			}
+			t += d
+		}
+	} else {
+		f = g
+		for d := 1; f-d > t; d *= 2 {
+			if in(f - d) {
+				t = f - d
+				break
+			}
+			f -= d
+		}
 	}
-	return lg
+	for f-t > 1 {
+		m := t + (f-t)/2
+		if in(m) {
+			t = m
+		} else {
+			f = m
+		}
+	}
+	return t
 }
 
-// logChooseFrom returns ln C(n, x) for x = 0..n from a table of ln x! that
-// reaches at least n (absolute error about 1e-13 at n = 2000 from lgamma,
-// far below what the p-value needs).
-func logChooseFrom(lg []float64, n int) []float64 {
-	c := make([]float64, n+1)
-	for x := range c {
-		c[x] = lg[n] - lg[x] - lg[n-x]
-	}
-	return c
-}
-
-// scratch holds the buffers of one evaluation of a region's probability.
-type scratch struct {
-	l1, l2           []float64
-	preM, preS       []float64
-	sufM, sufS, term []float64
-}
-
-func newScratch(n1, n2 int) *scratch {
-	return &scratch{
-		l1: make([]float64, n1+1), l2: make([]float64, n2+1),
-		preM: make([]float64, n2+1), preS: make([]float64, n2+1),
-		sufM: make([]float64, n2+1), sufS: make([]float64, n2+1),
-		term: make([]float64, n1+1),
-	}
+// firstTrue returns the smallest x in [lo, hi] with in(x) for a predicate
+// true on a suffix (hi+1 when it is nowhere true), from the guess g.
+func firstTrue(in func(int) bool, lo, hi, g int) int {
+	return lastTrue(func(x int) bool { return !in(x) }, lo, hi, g-1) + 1
 }
 
 // windowCut is the depth, in natural-log units below the largest term, at
@@ -143,20 +164,21 @@ func newScratch(n1, n2 int) *scratch {
 // out, and the error bound of the sum accounts for them.
 const windowCut = 60
 
-// window fills e[x] = P(X = x) / P(X = mode) for X ~ Bin(n, pi),
-// 0 < pi < 1, on the range [lo, hi] around the mode floor((n+1) pi)
-// outside of which every term is below e^-windowCut, and returns the range
-// and m = ln P(X = mode). The terms come from the ratio of neighbours,
+// window fills e[s] = b(s; n, pi) / b(mode; n, pi), 0 < pi < 1, on the
+// range [lo, hi] around the mode floor((n+1) pi) outside of which every
+// term is below e^-windowCut, and returns the range and m = ln b(mode)
+// (binom.Dist.LogProb, accurate at any n). The terms come from the ratio
+// of neighbours,
 //
-//	P(X = x+1) / P(X = x) = (n - x) pi / ((x + 1) (1 - pi)),
+//	b(s+1) / b(s) = (n - s) pi / ((s + 1) (1 - pi)),
 //
-// one product per term (relative error about 2e-16 per step, so below 1e-11
+// one product per term (relative error about 2e-16 per step, so below 1e-12
 // across the at most about 22 sqrt(n pi (1-pi)) + 2 terms of the range);
 // the PMF is log-concave, so the range ends where the terms first fall
 // below the cut.
-func window(e, lc []float64, n int, pi, lp, lq float64) (lo, hi int, m float64) {
+func window(e []float64, n int, pi float64) (lo, hi int, m float64) {
 	mode := min(n, int(float64(n+1)*pi))
-	m = lc[mode] + float64(mode)*lp + float64(n-mode)*lq
+	m = binom.Dist{N: int64(n), P: pi}.LogProb(int64(mode))
 	cut := math.Exp(-windowCut)
 	r := pi / (1 - pi)
 	e[mode] = 1
@@ -180,214 +202,118 @@ func window(e, lc []float64, n int, pi, lp, lq float64) (lo, hi int, m float64) 
 	return lo, hi, m
 }
 
-// logProb returns ln P(region) when X1 ~ Bin(n1, pi) and X2 ~ Bin(n2, pi)
-// independently: the windowed sum of logProbBound where its error bound is
-// below 1e-10 of the value, otherwise the sum over all tables of
-// logProbFull.
-func (r *region) logProb(w *scratch, pi float64) float64 {
-	if v, exact := r.logProbBound(w, pi); exact {
+// logProb returns ln P(region) at the common proportion pi: the windowed
+// sum of logProbBound where its error bound is below 1e-10 of the value,
+// otherwise the full sum of logProbFull.
+func (r *region) logProb(pi float64) float64 {
+	if v, exact := r.logProbBound(pi); exact {
 		return v
 	}
-	return r.logProbFull(w, pi)
+	return r.logProbFull(pi)
 }
 
-// logProbBound returns ln P(region) from the tables inside the windows of
-// both PMFs (see window), in linear space scaled by the two modes, at a
-// cost of O(sqrt(n1) + sqrt(n2)) plus the interior runs of the rows in the
-// window. The terms left out add at most
+// logProbBound returns ln P(region) from the margins inside the window of
+// the Binomial(N, pi) PMF (see window), in linear space scaled by the
+// mode and by max W: O(sqrt(N)). The margins left out add at most
 //
-//	D1 (S2 + D2) + S1 D2,  Di = (ni + 1) e^-windowCut,
+//	D = (N + 1) e^-windowCut
 //
-// to the scaled sum, where Si is the scaled sum of PMF i over its window.
-// When that bound is at most 1e-10 of the sum, the value is returned with
-// exact = true (relative error below 1e-10 from the window); otherwise
-// exact = false and the value is an upper bound, ln(sum + bound).
-func (r *region) logProbBound(w *scratch, pi float64) (v float64, exact bool) {
+// to the scaled sum (each W_s / max W <= 1), and weights that underflowed
+// less than 1e-300 each. When D is at most 1e-10 of the sum (and the sum
+// is at least 1e-250), the value is returned with exact = true (relative
+// error below 1e-10 from the window); otherwise exact = false and the
+// value is an upper bound, ln(sum + D).
+func (r *region) logProbBound(pi float64) (v float64, exact bool) {
+	N := r.n1 + r.n2
 	switch {
 	case pi <= 0:
-		return logIf(r.in00), true
+		return r.lw[0], true
 	case pi >= 1:
-		return logIf(r.inNN), true
+		return r.lw[N], true
 	}
-	lp, lq := xmath.Log(pi), math.Log1p(-pi)
-	lo1, hi1, m1 := window(w.term, r.lc1, r.n1, pi, lp, lq)
-	lo2, hi2, m2 := window(w.sufM, r.lc2, r.n2, pi, lp, lq)
-	// term and sufM hold the scaled PMFs of X1 and X2, preS[c] the sum of
-	// the scaled PMF of X2 over [lo2, c] and sufS[c] over [c, hi2].
-	acc := 0.0
-	for x := lo2; x <= hi2; x++ {
-		acc += w.sufM[x]
-		w.preS[x] = acc
+	lo, hi, m := window(r.e, N, pi)
+	total := 0.0
+	for s := lo; s <= hi; s++ {
+		total += r.e[s] * r.w[s]
 	}
-	s2 := acc
-	acc = 0
-	for x := hi2; x >= lo2; x-- {
-		acc += w.sufM[x]
-		w.sufS[x] = acc
+	d := 0.0
+	if lo > 0 || hi < N {
+		d = float64(N+1) * math.Exp(-windowCut)
 	}
-	total, s1 := 0.0, 0.0
-	for x1 := lo1; x1 <= hi1; x1++ {
-		t := 0.0
-		if c := min(r.pre[x1], hi2); c >= lo2 {
-			t = w.preS[c]
-		}
-		if c := max(r.suf[x1], lo2); c <= hi2 {
-			t += w.sufS[c]
-		}
-		if r.runAt != nil {
-			for _, run := range r.inner[r.runAt[x1]:r.runAt[x1+1]] {
-				for x2 := max(run[1], lo2); x2 <= min(run[2], hi2); x2++ {
-					t += w.sufM[x2]
-				}
-			}
-		}
-		e := w.term[x1]
-		s1 += e
-		total += e * t
+	if d <= 1e-10*total && total >= 1e-250 {
+		return math.Min(0, m+r.lmax+math.Log(total)), true
 	}
-	d1 := float64(r.n1+1) * math.Exp(-windowCut)
-	d2 := float64(r.n2+1) * math.Exp(-windowCut)
-	if lo1 == 0 && hi1 == r.n1 {
-		d1 = 0
-	}
-	if lo2 == 0 && hi2 == r.n2 {
-		d2 = 0
-	}
-	bound := d1*(s2+d2) + (s1+d1)*d2
-	if bound <= 1e-10*total && total >= 1e-250 {
-		return math.Min(0, m1+m2+math.Log(total)), true
-	}
-	if total+bound == 0 {
+	if total+d == 0 {
 		return math.Inf(-1), false
 	}
-	return math.Min(0, m1+m2+math.Log(total+bound)), false
+	return math.Min(0, m+r.lmax+math.Log(total+d)), false
 }
 
-// logProbFull is ln P(region) summed over all tables. It first sums in
-// linear space, each PMF scaled by its largest term (n1 + n2 exponentials
-// and one logarithm); when the scaled sum falls below 1e-250, where terms
-// that underflowed could matter, it repeats the sum in log space
-// (logProbLog), where nothing underflows. Cost O(n1 + n2) plus the
-// interior runs.
-func (r *region) logProbFull(w *scratch, pi float64) float64 {
+// logProbFull is ln P(region) summed over all margins in log space, where
+// nothing underflows: ln b(s; N, pi) by the log of the neighbour ratio
+// outward from the mode, re-anchored on binom.Dist.LogProb every 64
+// margins (so its error stays a few units in the last place of the
+// largest terms), then a scaled sum. Cost O(N): one logarithm and one
+// exponential per margin.
+func (r *region) logProbFull(pi float64) float64 {
+	N := r.n1 + r.n2
 	switch {
 	case pi <= 0:
-		return logIf(r.in00)
+		return r.lw[0]
 	case pi >= 1:
-		return logIf(r.inNN)
+		return r.lw[N]
 	}
-	lp, lq := xmath.Log(pi), math.Log1p(-pi)
-	m1, m2 := math.Inf(-1), math.Inf(-1)
-	for x := 0; x <= r.n1; x++ {
-		w.l1[x] = r.lc1[x] + float64(x)*lp + float64(r.n1-x)*lq
-		m1 = math.Max(m1, w.l1[x])
+	if r.stop != nil {
+		return math.Inf(-1)
 	}
-	for x := 0; x <= r.n2; x++ {
-		w.l2[x] = r.lc2[x] + float64(x)*lp + float64(r.n2-x)*lq
-		m2 = math.Max(m2, w.l2[x])
+	if r.lb == nil {
+		r.lb = make([]float64, N+1)
 	}
-	// preS[c] = sum of the scaled PMF of X2 over [0, c], sufS[c] over [c, n2].
-	acc := 0.0
-	for x := 0; x <= r.n2; x++ {
-		w.sufM[x] = math.Exp(w.l2[x] - m2) // scaled PMF, kept for the interior runs
-		acc += w.sufM[x]
-		w.preS[x] = acc
-	}
-	acc = 0
-	for x := r.n2; x >= 0; x-- {
-		acc += w.sufM[x]
-		w.sufS[x] = acc
-	}
-	for x1 := 0; x1 <= r.n1; x1++ {
-		t := 0.0
-		if c := r.pre[x1]; c >= 0 {
-			t = w.preS[c]
+	d := binom.Dist{N: int64(N), P: pi}
+	lr := xmath.Log(pi) - math.Log1p(-pi)
+	mode := min(N, int(float64(N+1)*pi))
+	r.lb[mode] = d.LogProb(int64(mode))
+	for s := mode + 1; s <= N; s++ {
+		if (s-mode)%16384 == 0 && r.canceled() {
+			return math.Inf(-1)
 		}
-		if c := r.suf[x1]; c <= r.n2 {
-			t += w.sufS[c]
-		}
-		w.term[x1] = t
-	}
-	for _, run := range r.inner {
-		for x2 := run[1]; x2 <= run[2]; x2++ {
-			w.term[run[0]] += w.sufM[x2]
+		if (s-mode)%64 == 0 {
+			r.lb[s] = d.LogProb(int64(s))
+		} else {
+			r.lb[s] = r.lb[s-1] + math.Log(float64(N-s+1)/float64(s)) + lr
 		}
 	}
-	total := 0.0
-	for x1 := 0; x1 <= r.n1; x1++ {
-		if t := w.term[x1]; t > 0 {
-			total += math.Exp(w.l1[x1]-m1) * t
+	for s := mode - 1; s >= 0; s-- {
+		if (mode-s)%16384 == 0 && r.canceled() {
+			return math.Inf(-1)
 		}
-	}
-	if total >= 1e-250 {
-		return math.Min(0, m1+m2+math.Log(total))
-	}
-	return r.logProbLog(w)
-}
-
-// logProbLog is logProbFull in log space, for w.l1 and w.l2 already filled:
-// for each row the prefix and suffix tails of X2 come from cumulative sums
-// held as (max, scaled sum) pairs, so nothing underflows.
-func (r *region) logProbLog(w *scratch) float64 {
-	// Running sums S = e^m s, one exponential per step.
-	m, s := math.Inf(-1), 0.0
-	for x := 0; x <= r.n2; x++ {
-		m, s = addScaled(m, s, w.l2[x])
-		w.preM[x], w.preS[x] = m, s
-	}
-	m, s = math.Inf(-1), 0.0
-	for x := r.n2; x >= 0; x-- {
-		m, s = addScaled(m, s, w.l2[x])
-		w.sufM[x], w.sufS[x] = m, s
-	}
-	for x1 := 0; x1 <= r.n1; x1++ {
-		t := math.Inf(-1)
-		if c := r.pre[x1]; c >= 0 {
-			t = w.preM[c] + math.Log(w.preS[c])
+		if (mode-s)%64 == 0 {
+			r.lb[s] = d.LogProb(int64(s))
+		} else {
+			r.lb[s] = r.lb[s+1] + math.Log(float64(s+1)/float64(N-s)) - lr
 		}
-		if c := r.suf[x1]; c <= r.n2 {
-			t = onesample.LogAddExp(t, w.sufM[c]+math.Log(w.sufS[c]))
-		}
-		w.term[x1] = t
-	}
-	for _, run := range r.inner {
-		t := w.term[run[0]]
-		for x2 := run[1]; x2 <= run[2]; x2++ {
-			t = onesample.LogAddExp(t, w.l2[x2])
-		}
-		w.term[run[0]] = t
 	}
 	mx := math.Inf(-1)
-	for x1 := range w.term {
-		w.term[x1] += w.l1[x1]
-		mx = math.Max(mx, w.term[x1])
+	for s, v := range r.lw {
+		r.lb[s] += v
+		mx = math.Max(mx, r.lb[s])
 	}
 	if math.IsInf(mx, -1) {
 		return mx
 	}
 	sum := 0.0
-	for _, t := range w.term {
+	for _, t := range r.lb {
 		sum += math.Exp(t - mx)
 	}
 	return math.Min(0, mx+math.Log(sum))
 }
 
-// addScaled adds e^l to the sum e^m s.
-func addScaled(m, s, l float64) (float64, float64) {
-	switch {
-	case math.IsInf(l, -1):
-		return m, s
-	case l <= m:
-		return m, s + math.Exp(l-m)
+// canceled reports whether r.ctx is done, recording its error in r.stop.
+func (r *region) canceled() bool {
+	if r.stop == nil && r.ctx != nil {
+		r.stop = argerr.Canceled(r.fn, r.ctx)
 	}
-	return l, s*math.Exp(m-l) + 1
-}
-
-func logIf(b bool) float64 {
-	if b {
-		return 0
-	}
-	return math.Inf(-1)
+	return r.stop != nil
 }
 
 // supremum returns the largest ln P(region; pi) over pi in [lo, hi] and
@@ -395,8 +321,8 @@ func logIf(b bool) float64 {
 // widths of order sqrt(pi (1-pi) / (n1+n2)), so it is first evaluated on a
 // grid equally spaced in arcsin(sqrt(pi)) with about 8 sqrt(n1+n2) points
 // (at least 64), fine enough that no peak falls between grid points. Grid
-// values come from the windowed sums of logProbBound (O(sqrt(n1) +
-// sqrt(n2)) each); a point whose windowed sum is only an upper bound is
+// values come from the windowed sums of logProbBound (O(sqrt(n1 + n2))
+// each); a point whose windowed sum is only an upper bound is
 // summed in full only if that bound comes within 2% of the best value
 // found, so the grid costs O(n1 + n2) in all. Every grid point that is a
 // local maximum within 2% of the best (the first point of a flat run
@@ -405,14 +331,14 @@ func logIf(b bool) float64 {
 // than 1e-6), best candidates first and at most maxRefine of them. A grid
 // value of ln 1 = 0 is the supremum itself and ends the search.
 func (r *region) supremum(ctx context.Context, fn string, lo, hi float64) (logP, at float64, err error) {
-	w := newScratch(r.n1, r.n2)
+	r.ctx, r.fn = ctx, fn
 	g := int(math.Max(64, 8*math.Sqrt(float64(r.n1+r.n2))))
 	t0, t1 := math.Asin(math.Sqrt(lo)), math.Asin(math.Sqrt(hi))
 	xs := make([]float64, g+1)
 	vs := make([]float64, g+1)
 	exact := make([]bool, g+1)
 	for _, x := range []float64{lo, hi} {
-		if v, _ := r.logProbBound(w, x); v >= 0 && (x == 0 || x == 1) {
+		if v, _ := r.logProbBound(x); v >= 0 && (x == 0 || x == 1) {
 			return 0, x, nil // the end point where the region is certain
 		}
 	}
@@ -432,7 +358,7 @@ func (r *region) supremum(ctx context.Context, fn string, lo, hi float64) (logP,
 			x = hi
 		}
 		xs[i] = x
-		vs[i], exact[i] = r.logProbBound(w, x)
+		vs[i], exact[i] = r.logProbBound(x)
 		if exact[i] && vs[i] > best {
 			best, bestAt = vs[i], x
 			if best >= 0 {
@@ -449,12 +375,10 @@ func (r *region) supremum(ctx context.Context, fn string, lo, hi float64) (logP,
 		if exact[i] || vs[i] < best-0.02 {
 			continue
 		}
-		if i%16 == 0 {
-			if err := argerr.Canceled(fn, ctx); err != nil {
-				return 0, 0, err
-			}
+		vs[i], exact[i] = r.logProbFull(xs[i]), true
+		if r.canceled() {
+			return 0, 0, r.stop
 		}
-		vs[i], exact[i] = r.logProbFull(w, xs[i]), true
 		if vs[i] > best {
 			best, bestAt = vs[i], xs[i]
 		}
@@ -479,7 +403,10 @@ func (r *region) supremum(ctx context.Context, fn string, lo, hi float64) (logP,
 			return 0, 0, err
 		}
 		a, b := xs[max(i-1, 0)], xs[min(i+1, g)]
-		x, v := goldenMax(func(p float64) float64 { return r.logProb(w, p) }, a, b, 1e-7)
+		x, v := goldenMax(func(p float64) float64 { return r.logProb(p) }, a, b, 1e-7)
+		if r.canceled() {
+			return 0, 0, r.stop
+		}
 		if v > best {
 			best, bestAt = v, x
 		}
@@ -548,8 +475,8 @@ func unconditional(ctx context.Context, fn, method string, k1, n1, k2, n2 int64,
 	if opt.Rule != PointProbability && opt.Rule != Central {
 		return Result{}, argerr.Invalid(fn, "Rule", int(opt.Rule), "is not a two-sided rule of Fisher's test; use PointProbability or Central")
 	}
-	if float64(n1+1)*float64(n2+1) > MaxUnconditionalTables {
-		return Result{}, argerr.TooLarge(fn, "n1", n1, "with n2 = "+argerr.Format(n2)+" gives more than 4.1e6 possible tables, the size limit of the unconditional tests; use Fisher or an asymptotic test")
+	if n1 > MaxUnconditionalTotal-n2 {
+		return Result{}, argerr.TooLarge(fn, "n1", n1, "plus n2 = "+argerr.Format(n2)+" exceeds MaxUnconditionalTotal = "+argerr.Format(int64(MaxUnconditionalTotal))+", the size limit of the unconditional tests; use Fisher or an asymptotic test")
 	}
 	if ctx == nil {
 		ctx = context.Background()
