@@ -71,8 +71,8 @@ const planSources = "Exact binomial power by enumeration of the rejection region
 const planMethodsHelp = "One sample: exact (default), two-sided by rule=point-probability (default), central " +
 	"or blaker, with midp=on for the mid-p test; or normal. Two groups: normal (default), Fleiss' formula with " +
 	"pooled or unpooled null variance and the Casagrande-Pike-Smith correction; or the exact power of " +
-	"fisher, barnard or z (pooled z test) by enumerating both binomials, limited to (n1+1)(n2+1) <= " +
-	"4100000 tables. Paired: McNemar exact (default; midp=on for mid-p), or asymptotic (Connor's formula)."
+	"fisher, barnard or z (pooled z test) by enumerating both binomials, limited to n1 + n2 <= " +
+	"2000000. Paired: McNemar exact (default; midp=on for mid-p), or asymptotic (Connor's formula)."
 
 func detectCommand() *command {
 	return &command{

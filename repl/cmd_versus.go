@@ -33,7 +33,7 @@ func versusCommand() *command {
 				"the tables as likely as the one observed. boschloo: the unconditional exact test ordered by Fisher's p-value, uniformly more " +
 				"powerful than Fisher's; barnard: the unconditional exact test ordered by the pooled z statistic. " +
 				"The unconditional tests take the supremum over the common proportion and are limited to " +
-				"(N1+1)(N2+1) <= 4100000 tables. Two-sided Boschloo orders tables by Fisher's two-sided p-value; " +
+				"N1 + N2 <= 2000000 (large balanced groups take seconds; Ctrl-C stops them). Two-sided Boschloo orders tables by Fisher's two-sided p-value; " +
 				"some other software instead doubles the one-sided Boschloo p-value (1/1 against 0/1: 1 here, 0.5 " +
 				"there), so compare one-sided values. An empty group, or no successes (no failures) in both groups, " +
 				"gives p = 1 exactly." + asymptoticVersusHelp,

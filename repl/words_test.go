@@ -24,7 +24,7 @@ func TestErrorsInShellWords(t *testing.T) {
 		{"size p=0.3 truth=0.31 upto=500", "upto=500"},
 		{"bounds 0/0", "n = 0: a proportion needs at least one trial"},
 		{"margin d=0.001 by=chance upto=100", "upto=100"},
-		{"size p1=0.3 p2=0.31 method=fisher upto=20000", "limit of tables"},
+		{"size p1=0.3 p2=0.31 method=fisher upto=3000000", "upto=3000000 exceeds the limit"},
 	}
 	for _, tc := range tests {
 		stderr, err := runErr(tc.line)
