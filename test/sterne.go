@@ -28,7 +28,17 @@ import (
 // the pieces are visited from the outside in, and the first with an
 // accepted end holds the answer: that end, or the crossing found by
 // bisection. Only pieces inside the bound P(X <= k) + (n-k) f(k) >= alpha
-// are visited (the p-value cannot reach alpha beyond it). The PMF ties at
+// are considered (the p-value cannot reach alpha beyond it), and runs of
+// pieces are skipped, galloping inward, while a second bound keeps the
+// p-value below alpha on all of them: on a run from p_in to p_out, the
+// outcomes j > k that count as extreme at p0 are beyond edge(p0), which
+// does not decrease as p0 moves out (f(j)/f(k) rises with p0), so
+//
+//	p-value(p0) <= P_{p_in}(X <= k) + P_{p_out}(X > edge(p_in) - 1)
+//
+// (one outcome more than the edge, against rounding at the tie). So the
+// cost is O(log) bounds and p-values plus the pieces next to the answer,
+// not one pair of p-values per piece. The PMF ties at
 // the thresholds are decided by the p-value itself, evaluated just inside
 // each piece (1e-9 of its width), clear of the rounding of t_j.
 func sterneEnd(k, n int64, la float64, up bool) float64 {
@@ -63,21 +73,75 @@ func sterneEnd(k, n int64, la float64, up bool) float64 {
 		j0, j1 = max(edge(far)-1, 0), min(edge(phat), k-1)
 	}
 	lo, hi := min(phat, far), max(phat, far)
-	lck := lchoose(n, k)
+	// The thresholds need ln C(n, k) - ln C(n, j), far better than the
+	// tolerance 1e-7 that decides the ties: summed from j = k outward by
+	// ln C(n, j+1) - ln C(n, j) = ln((n - j) / (j + 1)), one logarithm per
+	// outcome (rounding below 1e-12 over the range), and compared with the
+	// range in logit space, so only the kept thresholds cost an exponential.
 	ts := []float64{lo, hi}
-	for j := j0; j <= j1; j++ {
-		x := (lck - lchoose(n, j) + logRelTol) / float64(j-k)
-		if t := 1 / (1 + math.Exp(-x)); t > lo && t < hi {
-			ts = append(ts, t)
+	xlo, xhi := math.Log(lo)-math.Log1p(-lo), math.Log(hi)-math.Log1p(-hi)
+	keep := func(j int64, dl float64) { // dl = ln C(n, k) - ln C(n, j)
+		if x := (dl + logRelTol) / float64(j-k); x > xlo && x < xhi {
+			if t := 1 / (1 + math.Exp(-x)); t > lo && t < hi {
+				ts = append(ts, t)
+			}
+		}
+	}
+	if j0 <= j1 {
+		dl := 0.0
+		if up {
+			for j := k; j < j1; j++ {
+				dl -= math.Log(float64(n-j) / float64(j+1)) // now for j+1
+				if j+1 >= j0 {
+					keep(j+1, dl)
+				}
+			}
+		} else {
+			for j := k; j > j0; j-- {
+				dl -= math.Log(float64(j) / float64(n-j+1)) // now for j-1
+				if j-1 <= j1 {
+					keep(j-1, dl)
+				}
+			}
 		}
 	}
 	sort.Float64s(ts)
 	rej := func(p float64) bool { return !acc(p) }
-	for i := range len(ts) - 1 {
-		a, b := ts[i], ts[i+1] // piece from a to b, visited from the outside in
+	// piece returns the p0 range of piece i, counted from the outside in.
+	piece := func(i int) (a, b float64) {
 		if up {
-			a, b = ts[len(ts)-1-i], ts[len(ts)-2-i]
+			return ts[len(ts)-1-i], ts[len(ts)-2-i]
 		}
+		return ts[i], ts[i+1]
+	}
+	// blockRejected reports whether the bound on pieces i..j (from the
+	// outside in) keeps the p-value below alpha on all of them; see the
+	// doc comment.
+	blockRejected := func(i, j int) bool {
+		outer, _ := piece(i)
+		_, inner := piece(j)
+		var v float64
+		if up { // p0 from inner to outer, above k/n
+			m := edge(inner) - 1 // outcomes beyond m may count as extreme
+			v = onesample.LogAddExp(binom.Dist{N: n, P: inner}.LogCDF(k), binom.Dist{N: n, P: outer}.LogSurvival(m))
+		} else {
+			m := edge(inner) + 1 // outcomes below m may count as extreme
+			v = onesample.LogAddExp(binom.Dist{N: n, P: inner}.LogSurvival(k-1), binom.Dist{N: n, P: outer}.LogCDF(m-1))
+		}
+		return v < la
+	}
+	for i, w := 0, 2; i < len(ts)-1; {
+		if sz := min(w, len(ts)-1-i); sz >= 2 {
+			if blockRejected(i, i+sz-1) {
+				i, w = i+sz, 2*sz
+				continue
+			}
+			if sz > 2 {
+				w = sz / 2
+				continue
+			}
+		}
+		a, b := piece(i) // a outer, b inner
 		outer, inner := a+1e-9*(b-a), b-1e-9*(b-a)
 		if acc(outer) {
 			return a
@@ -88,6 +152,7 @@ func sterneEnd(k, n int64, la float64, up bool) float64 {
 			}
 			return root.Bisect(acc, outer, inner, 1e-12, 1e-300)
 		}
+		i, w = i+1, 2
 	}
 	return phat
 }
@@ -110,13 +175,4 @@ func sterne(k, n int64, la float64) (lo, hi float64, gaps, ok bool) {
 		}
 	}
 	return lo, hi, false, true
-}
-
-// lchoose returns ln C(n, k) from lgamma (the thresholds need it only to
-// far better than the tolerance 1e-7 that decides the ties).
-func lchoose(n, k int64) float64 {
-	a, _ := math.Lgamma(float64(n + 1))
-	b, _ := math.Lgamma(float64(k + 1))
-	c, _ := math.Lgamma(float64(n - k + 1))
-	return a - b - c
 }
