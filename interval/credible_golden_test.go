@@ -40,7 +40,6 @@ func TestCredibleGolden(t *testing.T) {
 	}
 }
 
-
 // TestPosteriorTailGolden compares ProbAbove and ProbBelow with
 // testdata/interval_posterior_tail.tsv (mpmath 1.2.1 at 40 digits, each
 // tail integrated directly; testdata/gen/interval_posterior_tail.py), to

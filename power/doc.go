@@ -135,6 +135,18 @@
 // 74:149-154; Jennison C, Turnbull BW (2000), Group Sequential Methods with
 // Applications to Clinical Trials, Chapman & Hall/CRC.
 //
+// # Predictive probability
+//
+// PredictiveAtLeast gives the posterior predictive probability that a
+// single-arm study reaches a number of successes at its final size, from
+// the beta-binomial distribution of the remaining trials under a stated
+// prior. PredictiveDesign is the monitoring design of Lee JJ, Liu DD
+// (2008), Clinical Trials 5:93-106, which stops for futility when that
+// probability of a convincing final result is low; its OC method gives the
+// exact frequentist operating characteristics (rejection probability,
+// early stopping, expected size) at any true rate by forward recursion,
+// which is what a protocol must report for a Bayesian design.
+//
 // # Limits and errors
 //
 // Every search and enumeration takes a context.Context, checks it in its

@@ -7,6 +7,7 @@ import (
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/test"
 )
@@ -124,6 +125,39 @@ func TestCompareLossesDirect(t *testing.T) {
 		want := m2*s2.ProbSecondBetter - m1*s1.ProbSecondBetter
 		if diff := cmp.Diff(want, r.LossFirst, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
 			t.Errorf("%v: LossFirst (-want +got):\n%s", c, diff)
+		}
+	}
+}
+
+// TestCompareGolden compares Compare (closed-form sums for integer shapes,
+// quadrature otherwise) with testdata/test_bayes.tsv: mpmath 1.2.1 at 40
+// digits, each probability and loss integrated directly by tanh-sinh
+// quadrature (testdata/gen/test_bayes.py). Log probabilities to 1e-12
+// relative to max(1, |ln P|) for the sums and 1e-10 for quadrature (its
+// error estimate is checked to cover the difference), losses to 1e-10.
+func TestCompareGolden(t *testing.T) {
+	t.Parallel()
+	for _, r := range golden.Read(t, "../testdata/test_bayes.tsv") {
+		a1, b1, a2, b2 := r.Float(0), r.Float(1), r.Float(2), r.Float(3)
+		// Posterior shapes as informative priors on empty arms.
+		c, err := test.Compare(0, 0, 0, 0, test.CompareOptions{Prior1: interval.BetaPrior(a1, b1), Prior2: interval.BetaPrior(a2, b2)})
+		if err != nil {
+			t.Fatalf("%s: %v", r.Pos(), err)
+		}
+		tol := 1e-12
+		if c.Method == "quadrature" {
+			tol = 1e-10
+		}
+		for i, pair := range [][2]float64{{r.Float(4), c.LogProbFirstBetter}, {r.Float(5), c.LogProbSecondBetter}} {
+			if e := math.Abs(pair[1]-pair[0]) / math.Max(1, math.Abs(pair[0])); !(e <= tol) {
+				t.Errorf("%s: %s probability %d: got %v, want %v (error %.2g)", r.Pos(), c.Method, i, pair[1], pair[0], e)
+			}
+			if d := math.Abs(math.Exp(pair[1]) - math.Exp(pair[0])); d > c.ErrorBound+1e-15 {
+				t.Errorf("%s: error %.3g exceeds the bound %.3g", r.Pos(), d, c.ErrorBound)
+			}
+		}
+		if diff := cmp.Diff([]float64{r.Float(6), r.Float(7)}, []float64{c.LossFirst, c.LossSecond}, cmpopts.EquateApprox(1e-10, 0)); diff != "" {
+			t.Errorf("%s: losses (-want +got):\n%s", r.Pos(), diff)
 		}
 	}
 }
