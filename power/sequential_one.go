@@ -166,7 +166,7 @@ const spendTol = 1e-12
 //
 // Errors: p0, p1 in (0, 1) with p0 < p1; alpha, beta in (0, 1) with alpha
 // + beta < 1; looks strictly increasing from at least 1, at most 50 looks
-// and a final N at most MaxStageWiseN (ErrTooLarge). Cost O(N_K^2) at worst
+// and a final N at most interval.MaxStageWiseN (ErrTooLarge). Cost O(N_K^2) at worst
 // (about 1 ms at N = 200), ctx checked inside.
 func SequentialOne(ctx context.Context, p0, p1, alpha, beta float64, looks []int64, opt SequentialOptions) (SequentialOneDesign, error) {
 	const fn = "power.SequentialOne"
@@ -428,7 +428,7 @@ func EqualLooks(n int64, k int) []int64 {
 // SequentialOneN returns the smallest final size N (looks equally spaced:
 // EqualLooks(N, looks)) whose SequentialOne design has power at least 1 -
 // beta at p1, searching N from looks up to maxN (0 means
-// 5000, at most MaxStageWiseN). Power is a sawtooth in N (see the package
+// 5000, at most interval.MaxStageWiseN). Power is a sawtooth in N (see the package
 // doc): the first N found is returned, and larger N can fall short. The
 // search starts at the smallest N whose most powerful single-stage test
 // reaches the power (no multi-stage design of that size does better) and

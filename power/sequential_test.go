@@ -167,6 +167,22 @@ func TestSequentialOneExact(t *testing.T) {
 		}
 		nb[len(nb)-1].Futility = nb[len(nb)-1].Efficacy - 1
 		cumNB, _ := bruteOne(nb, c.p0)
+		// EvaluateStages on the same looks: the enumeration's rejection
+		// chance and expected size, and the stop chances summing to 1.
+		for _, p := range []float64{c.p0, c.p1} {
+			ev, err := EvaluateStages(ctx, st, p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			cum, en := bruteOne(st, p)
+			var stops float64
+			for _, l := range ev.Looks {
+				stops += l.Futile + l.Reject
+			}
+			if diff := cmp.Diff([]float64{cum[len(cum)-1], en, 1, 1}, []float64{ev.Reject, ev.ExpectedN, stops, ev.Looks[0].Reach}, cmpopts.EquateApprox(1e-11, 0)); diff != "" {
+				t.Errorf("%+v EvaluateStages at %v: reject, expected n, total stop, first reach (-enumeration +got):\n%s", c, p, diff)
+			}
+		}
 		var gotCum []float64
 		for _, l := range d.Looks {
 			gotCum = append(gotCum, l.AlphaCumulative)

@@ -1,9 +1,13 @@
 package repl
 
 import (
+	"errors"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
+
+	"github.com/kofnlab/kofn/internal/argerr"
 
 	"github.com/kofnlab/kofn/power"
 )
@@ -25,6 +29,8 @@ func interimCommand() *command {
 			{Name: "binding", Doc: "yes: the efficacy bounds count on the futility stops (default no: non-binding)", Values: []string{"yes", "no"}},
 			{Name: "alpha", Doc: "one-sided size (default 0.05 for one proportion, 0.025 for two)"}, optBeta,
 			{Name: "upto", Doc: "largest final size searched when looks=K (one proportion; default 5000)"},
+			{Name: "reject", Doc: "evaluate a given one-proportion design: the counts that reject H0 at each look (- for none), like reject=-,12,15"},
+			{Name: "futile", Doc: "with reject=: the counts at or below which the study stops for futility at each look (- for none; the last look's is reject - 1)"},
 			optObserved, optLevel},
 		Help: helpText{
 			Computes: "A group-sequential design: planned looks at which the study stops when the data cross an efficacy " +
@@ -32,7 +38,8 @@ func interimCommand() *command {
 				"stopping counts at each look, the smallest count whose cumulative chance under p0 stays within the " +
 				"alpha spent, found on the exact binomial by dynamic programming over the count; futility counts from " +
 				"beta spending under p1. With looks=K the smallest equally spaced design reaching the power. " +
-				"With observed=K/N the stage-wise ordering p-value, interval and median estimate at the end of the study. Two " +
+				"With observed=K/N the stage-wise ordering p-value, interval and median estimate at the end of the study. " +
+				"With reject= (and futile=) the exact operating characteristic of a design of one's own at p0 (and p1). Two " +
 				"proportions (p1, p2, equal groups): bounds on the pooled z statistic by the normal approximation, the " +
 				"maximum size from the inflation factor, and the attained size and power checked exactly by enumerating " +
 				"both groups' counts (up to 300 per group). Shows, per look, the bounds and the alpha spent and attained, " +
@@ -43,7 +50,8 @@ func interimCommand() *command {
 				"(the exact counts apply only at those sizes). Two proportions: the normal approximation fixes the " +
 				"bounds; the exact check reports how far the attained size strays.",
 			Examples: []string{"interim p0=0.2 p1=0.4 looks=15,30,45", "interim p0=0.2 p1=0.4 looks=3 futility=obf",
-				"interim p0=0.2 p1=0.4 looks=15,30,45 observed=12/30", "interim p1=0.5 p2=0.3 looks=3 spend=pocock"},
+				"interim p0=0.2 p1=0.4 looks=15,30,45 observed=12/30", "interim p1=0.5 p2=0.3 looks=3 spend=pocock",
+				"interim looks=15,30,45 reject=-,12,15 futile=2,8 p0=0.2 p1=0.4"},
 			Sources: "Lan KKG, DeMets DL (1983), Discrete sequential boundaries for clinical trials, Biometrika 70:659-663; " +
 				"Kim K, DeMets DL (1987), Biometrika 74:149-154; Jennison C, Turnbull BW (2000), Group Sequential Methods " +
 				"with Applications to Clinical Trials, Chapman & Hall/CRC (chapters 7, 8, 12 and 19).",
@@ -109,6 +117,9 @@ func runInterim(c *call) error {
 	a := c.Args
 	if err := a.Want(0, 0); err != nil {
 		return err
+	}
+	if a.Has("reject") {
+		return interimEvaluate(c)
 	}
 	if err := a.Need("p1", "looks"); err != nil {
 		return err
@@ -347,4 +358,190 @@ func boundsPlot(s *Session, ns []int64, up, down []float64) string {
 	ch := chart{xs: xs, series: ser, yLo: yLo, yHi: yHi, ref: 0, height: 10, ascii: s.Set.ASCII,
 		width: s.Set.Width, digits: 2, xLabel: "n"}
 	return "bounds on the z scale at each look (line at 0)\n" + ch.render()
+}
+
+// countList reads a list of counts, one per look, where "-" means none
+// (none=none is returned for it).
+func countList(o *option, k int, none func(i int) int64) ([]int64, error) {
+	words := strings.Split(o.value, ",")
+	if len(words) > k {
+		return nil, inputErr(o.word, "lists "+count(int64(len(words)))+" counts for "+count(int64(k))+" looks")
+	}
+	out := make([]int64, k)
+	for i := range out {
+		if i >= len(words) || words[i] == "-" {
+			out[i] = none(i)
+			continue
+		}
+		v, err := parseCount(words[i])
+		if err != nil {
+			return nil, inputErr(o.word, "has "+strconv.Quote(words[i])+", not a count or -")
+		}
+		out[i] = v
+	}
+	return out, nil
+}
+
+// interimEvaluate runs interim with reject=: the operating characteristic
+// of a given one-proportion design.
+func interimEvaluate(c *call) error {
+	a := c.Args
+	if err := a.Need("looks", "p0"); err != nil {
+		return err
+	}
+	lo := a.lookup("looks")
+	vals, err := lookList(lo)
+	if err != nil {
+		return err
+	}
+	sizes := make([]int64, len(vals))
+	for i, v := range vals {
+		if v != math.Trunc(v) || v < 1 {
+			return inputErr(lo.word, "needs whole cumulative sizes like 15,30,45")
+		}
+		sizes[i] = int64(v)
+	}
+	K := len(sizes)
+	eff, err := countList(a.lookup("reject"), K, func(i int) int64 { return sizes[i] + 1 })
+	if err != nil {
+		return err
+	}
+	fut := make([]int64, K)
+	for i := range fut {
+		fut[i] = -1
+	}
+	if o := a.lookup("futile"); o != nil {
+		if fut, err = countList(o, K, func(int) int64 { return -1 }); err != nil {
+			return err
+		}
+	}
+	if len(strings.Split(a.Str("futile", ""), ",")) < K || fut[K-1] == -1 {
+		fut[K-1] = eff[K-1] - 1
+	}
+	st := make([]power.Look, K)
+	for i := range st {
+		st[i] = power.Look{N: sizes[i], Futility: fut[i], Efficacy: eff[i]}
+	}
+	p0, err := a.OpenProb("p0", 0)
+	if err != nil {
+		return err
+	}
+	e0, err := power.EvaluateStages(c.Ctx, st, p0)
+	if err != nil {
+		return lookError(a, err)
+	}
+	out := interimEval{Null: e0}
+	var e1 *power.StagesEval
+	if a.Has("p1") {
+		p1, err := a.OpenProb("p1", 0)
+		if err != nil {
+			return err
+		}
+		v, err := power.EvaluateStages(c.Ctx, st, p1)
+		if err != nil {
+			return err
+		}
+		e1, out.Alternative = &v, &v
+	}
+	b := c.Block("group-sequential design of one's own, one proportion, evaluated exactly at p = " + in(p0) +
+		map[bool]string{true: " and " + a.Str("p1", ""), false: ""}[e1 != nil])
+	for k, l := range st {
+		rule := "reject if k >= " + count(l.Efficacy)
+		if l.Efficacy > l.N {
+			rule = "no efficacy stop"
+		}
+		if k == K-1 {
+			rule += ", else accept H0"
+		} else if l.Futility >= 0 {
+			rule += ", futility if k <= " + count(l.Futility)
+		}
+		note := rule + "; at p0 reach " + c.S.num(e0.Looks[k].Reach) + ", reject " + c.S.num(e0.Looks[k].Reject)
+		if e1 != nil {
+			note += "; at p1 reject " + c.S.num(e1.Looks[k].Reject)
+		}
+		b.Row("look "+count(int64(k+1)), "n "+count(l.N), note)
+	}
+	b.Row("size", c.S.num(e0.Reject), "chance of rejecting H0 at p0 = "+in(p0))
+	if e1 != nil {
+		b.Row("power", c.S.num(e1.Reject), "at p1 = "+in(e1.P))
+		b.Row("expected n", c.S.num(e0.ExpectedN)+" / "+c.S.num(e1.ExpectedN), "under p0 / p1; at most "+count(sizes[K-1]))
+	} else {
+		b.Row("expected n", c.S.num(e0.ExpectedN), "under p0; at most "+count(sizes[K-1]))
+	}
+	if o := a.lookup("observed"); o != nil {
+		k, n, err := parseKN(o.value)
+		if err != nil {
+			return wrap(o, err)
+		}
+		look := 0
+		for i, l := range st {
+			if l.N == n {
+				look = i + 1
+			}
+		}
+		if look == 0 {
+			return inputErr(o.word, "has N = "+count(n)+", which is not one of the looks")
+		}
+		if out.Observed, err = stagedAnalysis(c, st, look, k, p0, "look "+count(int64(look))); err != nil {
+			return err
+		}
+	}
+	if err := a.Check(); err != nil {
+		return err
+	}
+	c.Data(out)
+	sd := math.Sqrt(p0 * (1 - p0))
+	z := func(k, n int64) float64 {
+		if k > n || k < 0 {
+			return math.Inf(1)
+		}
+		return (float64(k) - float64(n)*p0) / (math.Sqrt(float64(n)) * sd)
+	}
+	var up, down []float64
+	hasFut := false
+	for k, l := range st {
+		up = append(up, z(l.Efficacy, l.N))
+		f := math.Inf(-1)
+		if l.Futility >= 0 && k < K-1 {
+			f, hasFut = z(l.Futility, l.N), true
+		}
+		down = append(down, f)
+	}
+	if !hasFut {
+		down = nil
+	}
+	c.Plot(boundsPlot(c.S, sizes, up, down))
+	return nil
+}
+
+type interimEval struct {
+	Null        power.StagesEval  `json:"null"`
+	Alternative *power.StagesEval `json:"alternative,omitempty"`
+	Observed    *stagedInference  `json:"observed,omitempty"`
+}
+
+// lookErrRE matches the argument of a package error about one look.
+var lookErrRE = regexp.MustCompile(`^looks\[(\d+)\]\.(N|Futility|Efficacy)$`)
+
+// lookError rewrites a package error about looks[i].Field in the words of
+// interim's options: look i+1's size, futile or reject count.
+func lookError(a *argSet, err error) error {
+	var ae *argerr.Error
+	if !errors.As(err, &ae) {
+		return err
+	}
+	m := lookErrRE.FindStringSubmatch(ae.Arg)
+	if m == nil {
+		return err
+	}
+	i, _ := strconv.Atoi(m[1])
+	word := map[string]string{"N": "looks", "Futility": "futile", "Efficacy": "reject"}[m[2]]
+	tok := word
+	if o := a.lookup(word); o != nil {
+		tok = o.word
+	}
+	reason := strings.NewReplacer("Futility + 1", "the futile count + 1", "Futility", "the futile count",
+		"Efficacy", "the reject count", "(Futility, N+1]", "(futile, n+1]", "N+1", "n+1", "[-1, N]", "[-1, n]",
+		"previous look's N", "previous look's size").Replace(ae.Reason)
+	return inputErr(tok, "gives "+ae.Value+" at look "+strconv.Itoa(i+1)+", which "+reason)
 }

@@ -33,6 +33,41 @@ func TestStagedDesignValues(t *testing.T) {
 	})
 }
 
+func TestInterimEvaluate(t *testing.T) {
+	t.Parallel()
+	// One look is the single-stage binomial test: the size of "reject at 5 or more of 10" at 0.2 is
+	// P(X >= 5), summed here term by term.
+	var tail float64
+	for k := 5; k <= 10; k++ {
+		c := 1.0
+		for j := 0; j < k; j++ {
+			c = c * float64(10-j) / float64(j+1)
+		}
+		tail += c * math.Pow(0.2, float64(k)) * math.Pow(0.8, float64(10-k))
+	}
+	checkValues(t, []valueCase{
+		{"interim looks=10 reject=5 p0=0.2", "null.reject", tail, 1e-12, "binomial tail"},
+		{"interim looks=10 reject=5 p0=0.2", "null.expected_n", 10, 1e-15, "one look"},
+	})
+	// The counts interim designs, evaluated, give the same size and power as the design reports.
+	design := runJSON(t, "interim p0=0.2 p1=0.4 looks=15,30,45 futility=obf")
+	eval := runJSON(t, "interim looks=15,30,45 reject=10,12,15 futile=1,8 p0=0.2 p1=0.4")
+	want := []float64{num(t, design, "design.attained_alpha"), num(t, design, "design.power"), num(t, design, "design.expected_n0")}
+	got := []float64{num(t, eval, "null.reject"), num(t, eval, "alternative.reject"), num(t, eval, "null.expected_n")}
+	for i := range want {
+		if math.Abs(want[i]-got[i]) > 1e-12*want[i] {
+			t.Errorf("design %v, evaluation %v", want, got)
+			break
+		}
+	}
+	for _, line := range []string{"interim looks=15,30 reject=10,12 futile=3,5 p0=0.2", "interim looks=15,30 reject=10 futile=x p0=0.2",
+		"interim looks=15,30 reject=10,12,13 p0=0.2", "interim looks=15,30 reject=10,12", "interim looks=15,30 reject=10,12 p0=0.2 spend=pocock"} {
+		if _, err := runErr(line); err == nil {
+			t.Errorf("%s: no error", line)
+		}
+	}
+}
+
 func TestStagedDesignErrors(t *testing.T) {
 	t.Parallel()
 	for _, line := range []string{

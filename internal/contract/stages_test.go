@@ -53,6 +53,19 @@ func stagesEntries() []entry {
 		{name: "EvaluateTwoStage", call: func(_ context.Context, a args) (any, error) {
 			return power.EvaluateTwoStage(power.TwoStage{R1: a.Small(), N1: a.Small(), R: a.Small(), N: a.C()}, a.F())
 		}},
+		{name: "EvaluateStages", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
+			return power.EvaluateStages(ctx, looks(a), a.F())
+		}, check: func(v any) string {
+			e := v.(power.StagesEval)
+			var s float64
+			for _, l := range e.Looks {
+				s += l.Futile + l.Reject
+			}
+			if math.Abs(s-1) > 1e-9 || !(e.Reject >= 0 && e.Reject <= 1) {
+				return fmt.Sprintf("stop chances sum to %v, reject %v", s, e.Reject)
+			}
+			return ""
+		}},
 		{name: "TwoStage.Looks", call: func(_ context.Context, a args) (any, error) {
 			stage = power.TwoStage{R1: a.C(), N1: a.C(), R: a.C(), N: a.C()}
 			return stage.Looks(), nil
@@ -112,6 +125,8 @@ func stagesEntries() []entry {
 	}
 	e = append(e, enumEntries("Spending", "ParseSpending", power.SpendingValues, power.ParseSpending)...)
 	e = append(e, jsonEntries[power.TwoStageEval]("TwoStageEval")...)
+	e = append(e, jsonEntries[power.StageEval]("StageEval")...)
+	e = append(e, jsonEntries[power.StagesEval]("StagesEval")...)
 	e = append(e, jsonEntries[power.SimonDesign]("SimonDesign")...)
 	e = append(e, jsonEntries[power.SimonResult]("SimonResult")...)
 	e = append(e, jsonEntries[power.SpendingFunction]("SpendingFunction")...)

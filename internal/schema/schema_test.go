@@ -76,6 +76,7 @@ func examples() []example {
 		{"power.Point", must(power.OCCurve(plan, 0.1, 3))[1]},
 		{"power.SimonResult", must(power.Simon(ctx, 0.05, 0.25, 0.05, 0.2, power.SimonOptions{}))},
 		{"power.TwoStageEval", must(power.EvaluateTwoStage(power.TwoStage{R1: 0, N1: 9, R: 2, N: 17}, 0.05))},
+		{"power.StagesEval", must(power.EvaluateStages(ctx, power.TwoStage{R1: 0, N1: 9, R: 2, N: 17}.Looks(), 0.05))},
 		{"power.SequentialOneDesign", must(power.SequentialOne(ctx, 0.2, 0.4, 0.05, 0.2, []int64{15, 30, 45}, power.SequentialOptions{Futility: true}))},
 		{"power.SequentialTwoDesign", must(power.SequentialTwo(ctx, 0.6, 0.3, 0.025, 0.2, []float64{0.5, 1}, power.SequentialOptions{}))},
 	}
