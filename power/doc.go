@@ -118,7 +118,9 @@
 // single-arm study, and the admissible designs between them (Jung, Lee,
 // Kim and George 2004), by an exact search with pruning that never drops a
 // candidate; EvaluateTwoStage gives the early-stopping probability,
-// expected size and rejection probability of any design. SequentialOne
+// expected size and rejection probability of any design, and
+// EvaluateStages the same look by look for any multi-stage design given by
+// its looks. SequentialOne
 // designs a group-sequential test of one proportion with Lan-DeMets error
 // spending (OBrienFleming, Pocock, PowerFamily) and optional futility
 // bounds from beta spending (binding or non-binding), with exact stopping
