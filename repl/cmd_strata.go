@@ -72,11 +72,11 @@ func parseStratum(tok string) (interval.Stratum, error) {
 	}
 	k1, n1, err := parseKN(a)
 	if err != nil {
-		return interval.Stratum{}, err
+		return interval.Stratum{}, inputErr(tok, "has group 1 "+strconv.Quote(a)+", which "+reasonOf(err))
 	}
 	k2, n2, err := parseKN(b)
 	if err != nil {
-		return interval.Stratum{}, err
+		return interval.Stratum{}, inputErr(tok, "has group 2 "+strconv.Quote(b)+", which "+reasonOf(err))
 	}
 	return interval.Stratum{K1: k1, N1: n1, K2: k2, N2: n2}, nil
 }
