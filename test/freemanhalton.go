@@ -216,8 +216,62 @@ func (f *fh) run() {
 	}
 	f.addOutside(halfDist(f.rest[0]+na+nb).LogProb(f.S), tail, lo, hi, a, b)
 	for s := a; s <= b && f.err == nil; s++ {
+		if m == 1 {
+			// One leaf per s: its two tails from the hypergeometric
+			// distribution directly, without tabulating the pair.
+			if f.step() {
+				f.leafTails(f.w[0][s], f.S-s)
+			}
+			continue
+		}
 		f.setPair(f.S - s)
 		f.node(0, s, 0)
+	}
+}
+
+// leafTails adds the final pair's tables of weight v + g(y) <= c for
+// remainder r, where g(y) = w_a[y] + w_b[r-y] rises to the hypergeometric
+// mode and falls after it: the two ends where g <= c - v are found by
+// bisection and their probabilities are hypergeometric tails. Cost
+// O(log n) plus two tail evaluations.
+func (f *fh) leafTails(v float64, r int64) {
+	na, nb := f.n[f.m], f.n[f.m+1]
+	wa, wb := f.w[f.m], f.w[f.m+1]
+	g := func(y int64) float64 { return wa[y] + wb[r-y] }
+	yLo, yHi := max(0, r-nb), min(na, r)
+	mode := min(max((r+1)*(na+1)/(na+nb+2), yLo), yHi)
+	cv := f.c - v
+	total := v + halfDist(na+nb).LogProb(r)
+	h := binom.Hyper{Total: na + nb, Successes: na, Draws: r}
+	if g(mode) <= cv {
+		f.addLog(total) // every table of the pair counts
+		return
+	}
+	// Left: the last y in [yLo, mode) with g(y) <= cv (g rises there).
+	if g(yLo) <= cv {
+		l, hh := yLo, mode-1 // g(l) <= cv; find the last such
+		for l < hh {
+			mid := l + (hh-l+1)/2
+			if g(mid) <= cv {
+				l = mid
+			} else {
+				hh = mid - 1
+			}
+		}
+		f.addLog(total + h.LogCDF(l))
+	}
+	// Right: the first y in (mode, yHi] with g(y) <= cv (g falls there).
+	if mode < yHi && g(yHi) <= cv {
+		l, hh := mode+1, yHi // g(hh) <= cv; find the first such
+		for l < hh {
+			mid := l + (hh-l)/2
+			if g(mid) <= cv {
+				hh = mid
+			} else {
+				l = mid + 1
+			}
+		}
+		f.addLog(total + h.LogSurvival(l-1))
 	}
 }
 
@@ -373,6 +427,10 @@ func (f *fh) pairMax(r int64) float64 {
 // setPair tabulates the final pair's weights g(y) = w_a[y] + w_b[r-y] and
 // the tail sums of its two monotone sides for remainder r.
 func (f *fh) setPair(r int64) {
+	f.work += min(f.n[f.m], r) / 8 // the tabulation below, in steps
+	if err := argerr.Canceled(f.fn, f.ctx); err != nil && f.err == nil {
+		f.err = err
+	}
 	f.r = r
 	na, nb := f.n[f.m], f.n[f.m+1]
 	wa, wb := f.w[f.m], f.w[f.m+1]

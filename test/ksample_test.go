@@ -7,6 +7,7 @@ import (
 	"math/big"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/kofnlab/kofn/internal/golden"
 )
@@ -306,5 +307,26 @@ func BenchmarkFreemanHalton(b *testing.B) {
 			}
 			b.ReportMetric(float64(cpuTime()-c0)/float64(n), "cpu-ns/op")
 		})
+	}
+}
+
+// TestFreemanHaltonCancel: a large exact table stops soon after its
+// context is cancelled, also in the three-arm path that tabulates no pair.
+func TestFreemanHaltonCancel(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct{ x, n []int64 }{
+		{[]int64{1010, 1050, 980, 1075, 1020}, []int64{2000, 2000, 2000, 2000, 2000}},
+		{[]int64{20000, 20500, 19800, 20100}, []int64{100000, 100000, 100000, 100000}},
+	} {
+		ctx, cancel := context.WithTimeout(context.Background(), 5*time.Millisecond)
+		start := time.Now()
+		_, err := EqualProportions(ctx, c.x, c.n, KSampleOptions{})
+		cancel()
+		if err != nil && !errors.Is(err, context.DeadlineExceeded) && !errors.Is(err, ErrTooLarge) {
+			t.Errorf("%v: %v", c.n, err)
+		}
+		if d := time.Since(start); d > 2*time.Second {
+			t.Errorf("%v: returned after %v", c.n, d)
+		}
 	}
 }
