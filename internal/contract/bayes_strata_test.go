@@ -104,6 +104,15 @@ func bayesStrataEntries() []entry {
 			return test.CochranArmitage(ctx, a.Counts(), a.Counts(), test.TrendOptions{Scores: a.Reals(), Alternative: a.alt(), Exact: a.B(), MidP: a.B()})
 		}, check: testResult},
 	}
+	e = append(e, entry{name: "ProbBest", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
+		k, n := a.Counts(), a.Counts()
+		priors := make([]interval.Prior, a.r.IntN(len(n)+2))
+		for i := range priors {
+			priors[i] = a.prior()
+		}
+		return test.ProbBest(ctx, k, n, priors)
+	}})
+	e = append(e, jsonEntries[test.BestArm]("BestArm")...)
 	e = append(e, enumEntries("CommonMethod", "ParseCommonMethod", interval.CommonMethodValues, interval.ParseCommonMethod)...)
 	e = append(e, enumEntries("CredibleKind", "ParseCredibleKind", interval.CredibleKindValues, interval.ParseCredibleKind)...)
 	e = append(e, enumEntries("PriorKind", "ParsePriorKind", interval.PriorKindValues, interval.ParsePriorKind)...)

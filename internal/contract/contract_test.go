@@ -296,7 +296,7 @@ func TestContract(t *testing.T) {
 			h := fnv.New64a()
 			h.Write([]byte(e.name))
 			n := samples
-			if e.hasCtx && !full {
+			if e.hasCtx {
 				n = samples / 4 // each may run to its deadline
 			}
 			for i := range n {
