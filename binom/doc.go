@@ -33,7 +33,12 @@
 // hypergeometric distribution (NoncentralHyper) adds an odds ratio psi: it
 // is the conditional distribution of that cell when the table's odds ratio
 // is psi, behind the exact conditional interval for an odds ratio and its
-// conditional maximum-likelihood estimate (NoncentralHyper.Mean).
+// conditional maximum-likelihood estimate (NoncentralHyper.Mean). Their
+// tails, quantiles, entropy and noncentral moments sum O(standard
+// deviation) terms, so both constructors refuse a standard deviation above
+// MaxHyperStdDev (2^15, about 10 ms per call) with ErrTooLarge; such
+// spreads need populations of billions with both margins in the millions,
+// where the normal approximation or the binomial answers.
 //
 // A beta-binomial X (BetaBinom, built by NewBetaBinom) counts the successes
 // in N trials whose success probability is drawn from a Beta(A, B): the
