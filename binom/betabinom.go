@@ -20,6 +20,14 @@ const MaxBetaBinomN int64 = 1 << 21
 // exactly, and the distribution is a binomial to working precision.
 const MaxShape = 1e15
 
+// MinShape is the smallest Beta shape parameter accepted (1e-300): at the
+// edge of the floating-point range (the smallest normal double, 2.2e-308,
+// and the subnormals below it) the ratios of shapes inside the PMF and the
+// tail sums underflow, which gave log-probabilities above 0, NaN and a
+// quantile search that did not end. A shape that small is a point mass at
+// 0 or N to any precision.
+const MinShape = 1e-300
+
 // BetaBinom is the beta-binomial distribution: the number of successes X in
 // N trials whose success probability is itself drawn from a Beta(A, B)
 // distribution,
@@ -32,17 +40,17 @@ const MaxShape = 1e15
 // BetaBinom{m, a + x, b + n - x}.
 //
 // Build it with NewBetaBinom, which validates. A BetaBinom built by hand
-// with N outside [0, MaxBetaBinomN] or A, B outside (0, MaxShape] makes
-// every method return NaN (or -1 for the integer-valued ones).
+// with N outside [0, MaxBetaBinomN] or A, B outside [MinShape, MaxShape]
+// makes every method return NaN (or -1 for the integer-valued ones).
 type BetaBinom struct {
 	N int64   // number of trials, 0 <= N <= MaxBetaBinomN
-	A float64 // first shape of the mixing Beta, in (0, MaxShape]
-	B float64 // second shape of the mixing Beta, in (0, MaxShape]
+	A float64 // first shape of the mixing Beta, in [MinShape, MaxShape]
+	B float64 // second shape of the mixing Beta, in [MinShape, MaxShape]
 }
 
 // NewBetaBinom returns the beta-binomial distribution with n trials and
 // mixing Beta(a, b). It fails with ErrInvalidArgument when n < 0 or a or b
-// is not in (0, MaxShape] (NaN included), and with ErrTooLarge when
+// is not in [MinShape, MaxShape] (NaN included), and with ErrTooLarge when
 // n > MaxBetaBinomN.
 func NewBetaBinom(n int64, a, b float64) (BetaBinom, error) {
 	const fn = "binom.NewBetaBinom"
@@ -52,17 +60,17 @@ func NewBetaBinom(n int64, a, b float64) (BetaBinom, error) {
 	if n > MaxBetaBinomN {
 		return BetaBinom{}, argerr.TooLarge(fn, "n", n, "exceeds 2^21, the limit that keeps the tail sums under 10 ms")
 	}
-	if !(a > 0 && a <= MaxShape) {
-		return BetaBinom{}, argerr.Invalid(fn, "a", a, "must be positive and at most 1e15")
+	if !(a >= MinShape && a <= MaxShape) {
+		return BetaBinom{}, argerr.Invalid(fn, "a", a, "must lie in [1e-300, 1e15]")
 	}
-	if !(b > 0 && b <= MaxShape) {
-		return BetaBinom{}, argerr.Invalid(fn, "b", b, "must be positive and at most 1e15")
+	if !(b >= MinShape && b <= MaxShape) {
+		return BetaBinom{}, argerr.Invalid(fn, "b", b, "must lie in [1e-300, 1e15]")
 	}
 	return BetaBinom{N: n, A: a, B: b}, nil
 }
 
 func (d BetaBinom) valid() bool {
-	return d.N >= 0 && d.N <= MaxBetaBinomN && d.A > 0 && d.A <= MaxShape && d.B > 0 && d.B <= MaxShape
+	return d.N >= 0 && d.N <= MaxBetaBinomN && d.A >= MinShape && d.A <= MaxShape && d.B >= MinShape && d.B <= MaxShape
 }
 
 // Mean returns N A / (A + B); NaN only for an invalid BetaBinom.

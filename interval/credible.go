@@ -238,16 +238,17 @@ func equalTailed(a, b float64, lv level) (lo, hi float64) {
 // distribution with probability level in (0, 1), as Credible describes;
 // flat reports a = b = 1 (the central interval is returned). It fails with
 // ErrNoSolution for a, b < 1 (U-shaped density: the region is two pieces).
-// a and b must be positive and finite and level in (0, 1): ErrInvalidArgument
-// otherwise (an infinite shape once made the solver run without end).
+// a and b must lie in [1e-300, MaxShape] and level in (0, 1):
+// ErrInvalidArgument otherwise (a shape of 1e300 or +Inf made the solver run
+// without end, a subnormal one gave NaN limits).
 func HPDBeta(a, b, level float64) (lo, hi float64, flat bool, err error) {
 	const fn = "interval.HPDBeta"
 	for _, s := range [2]struct {
 		name string
 		v    float64
 	}{{"a", a}, {"b", b}} {
-		if !(s.v > 0) || math.IsInf(s.v, 1) {
-			return 0, 0, false, argerr.Invalid(fn, s.name, s.v, "must be a positive, finite shape")
+		if !(s.v >= 1e-300 && s.v <= MaxShape) {
+			return 0, 0, false, argerr.Invalid(fn, s.name, s.v, "must be a shape in [1e-300, MaxShape = 1e15]")
 		}
 	}
 	if !(level > 0 && level < 1) {
