@@ -90,6 +90,39 @@ func (p Posterior) ProbAbove(c float64) (prob, logProb float64, err error) {
 	return math.Exp(l), l, nil
 }
 
+// Density returns the posterior density at x in [0, 1] (its limit, possibly
+// +Inf, at an end), from the log-space Beta density (Loader's saddle-point
+// prefactor); 0 outside [0, 1] and NaN for NaN.
+func (p Posterior) Density(x float64) float64 {
+	if math.IsNaN(x) {
+		return math.NaN()
+	}
+	if x < 0 || x > 1 {
+		return 0
+	}
+	return math.Exp(beta.LogPDF(p.A, p.B, x, 1-x))
+}
+
+// Quantile returns the posterior quantile at probability q in (0, 1): the
+// x with P(p <= x | data) = q, solved as Credible's limits are (lower tail
+// for q <= 1/2, upper tail beyond, so both ends keep full precision); 0
+// for q <= 0, 1 for q >= 1, NaN for NaN.
+func (p Posterior) Quantile(q float64) float64 {
+	switch {
+	case math.IsNaN(q):
+		return math.NaN()
+	case q <= 0:
+		return 0
+	case q >= 1:
+		return 1
+	case q <= 0.5:
+		x, _ := beta.XY(beta.Quantile(p.A, p.B, math.Log(q), false))
+		return x
+	}
+	x, _ := beta.XY(beta.Quantile(p.A, p.B, math.Log1p(-q), true))
+	return x
+}
+
 // ProbBelow returns P(p <= c | data) and its logarithm, the lower tail,
 // computed directly; see ProbAbove.
 func (p Posterior) ProbBelow(c float64) (prob, logProb float64, err error) {

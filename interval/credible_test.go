@@ -85,8 +85,8 @@ func TestCredibleMatchesJeffreysInterval(t *testing.T) {
 
 // TestPosteriorClosedForms: under the uniform prior, 0 successes in n give
 // the Beta(1, n+1) posterior with P(p > c) = (1-c)^(n+1) and median
-// 1 - 2^(-1/(n+1)) (closed forms of the Beta(1, m) distribution function
-// 1 - (1-x)^m).
+// 1 - 2^(-1/(n+1)), density (n+1)(1-x)^n and quantile 1 - (1-q)^(1/(n+1))
+// (closed forms of the Beta(1, m) distribution function 1 - (1-x)^m).
 func TestPosteriorClosedForms(t *testing.T) {
 	t.Parallel()
 	p, err := interval.NewPosterior(0, 9, interval.UniformPrior())
@@ -94,8 +94,8 @@ func TestPosteriorClosedForms(t *testing.T) {
 		t.Fatal(err)
 	}
 	pa, _, _ := p.ProbAbove(0.2)
-	want := []float64{math.Pow(0.8, 10), -math.Expm1(-math.Ln2 / 10), 1.0 / 11, 0}
-	got := []float64{pa, p.Median, p.Mean, p.Mode}
+	want := []float64{math.Pow(0.8, 10), -math.Expm1(-math.Ln2 / 10), 1.0 / 11, 0, 10 * math.Pow(0.8, 9), -math.Expm1(math.Log(0.1) / 10), p.Median}
+	got := []float64{pa, p.Median, p.Mean, p.Mode, p.Density(0.2), p.Quantile(0.9), p.Quantile(0.5)}
 	if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-14, 0)); diff != "" {
 		t.Errorf("(-want +got):\n%s", diff)
 	}

@@ -22,6 +22,7 @@ var commandTable = []func() *command{
 	pairsCommand,
 	coverCommand,
 	sharesCommand,
+	posteriorCommand,
 	// tests
 	checkCommand,
 	flipsCommand,
@@ -34,6 +35,7 @@ var commandTable = []func() *command{
 	strataCommand,
 	trendCommand,
 	watchCommand,
+	beatsCommand,
 	// planning
 	detectCommand,
 	sizeCommand,
