@@ -141,6 +141,7 @@ var knownOpen = map[string]string{
 	"BetaBinom.LogUpperQuantile": "as BetaBinom.Quantile",
 	"Posterior.ProbAbove":        "NaN probability for a posterior with a subnormal prior shape (interval.Prior accepts any positive shape)",
 	"Posterior.ProbBelow":        "as Posterior.ProbAbove",
+	"latency power.Simon":        "checks ctx once per total size n, which near MaxSimonN costs over 100 ms",
 }
 
 // Budgets. A call without a context must finish within slowLimit (the
