@@ -198,7 +198,7 @@ func Multinomial(counts []int64, opt MultinomialOptions) (Family, error) {
 		cmax := min(N, int64(10*math.Sqrt(float64(top)))+20)
 		evals := 2*math.Log2(float64(cmax)+1) + 4
 		if evals*float64(nz)*float64(2*cmax+1) > maxSisonGlazWork {
-			return Family{}, argerr.TooLarge(fn, "counts", N, "too large for Sison-Glaz (the search would take more than about a second); use Goodman")
+			return Family{}, &argerr.Error{Func: fn, Reason: "the counts are too many or too large for Sison-Glaz (its search would take more than about a second); use Goodman", Err: argerr.ErrTooLarge}
 		}
 		c, gamma, ok := sisonGlaz(counts, N, lev, cmax, sgCoverage)
 		if !ok {

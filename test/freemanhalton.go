@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"slices"
+	"strconv"
 
 	"github.com/kofnlab/kofn/binom"
 	"github.com/kofnlab/kofn/internal/argerr"
@@ -53,7 +54,7 @@ func freemanHalton(ctx context.Context, fn string, x, n []int64, S, N int64, mid
 		return 0, 0, nil
 	}
 	if N > 1<<24 {
-		return 0, 0, argerr.TooLarge(fn, "sizes", N, "total above 2^24 for the exact test; use Pearson chi-square or G")
+		return 0, 0, &argerr.Error{Func: fn, Reason: "the sizes sum to " + strconv.FormatInt(N, 10) + " trials, above the exact test's limit of 2^24; use the Pearson chi-square or G test", Err: argerr.ErrTooLarge}
 	}
 	k := len(x)
 	order := make([]int, k)
@@ -128,7 +129,7 @@ func (f *fh) prepare() error {
 		f.rest[j] = f.rest[j+1] + f.n[j]
 	}
 	if int64(m)*f.rest[0] > 1<<26 {
-		return argerr.TooLarge(f.fn, "sizes", f.rest[0], "too many trials outside the two largest arms for the exact test; use Pearson chi-square or G")
+		return &argerr.Error{Func: f.fn, Reason: "too many trials outside the two largest arms for the exact test; use the Pearson chi-square or G test", Err: argerr.ErrTooLarge}
 	}
 	f.maxRem = make([][]float64, m)
 	f.remTot = make([][]float64, m)
@@ -177,7 +178,7 @@ func (f *fh) step() bool {
 			return false
 		}
 		if f.work > MaxFreemanHaltonWork {
-			f.err = argerr.TooLarge(f.fn, "sizes", f.rest0(), "the exact test needs more than MaxFreemanHaltonWork steps for this table; use Pearson chi-square or G")
+			f.err = &argerr.Error{Func: f.fn, Reason: "the exact test needs more than 1e8 steps (MaxFreemanHaltonWork) for this table; use the Pearson chi-square or G test", Err: argerr.ErrTooLarge}
 			return false
 		}
 	}

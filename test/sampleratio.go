@@ -237,7 +237,7 @@ func exactMultinomial(ctx context.Context, fn string, c []int64, pi []float64, N
 	l1, _ := math.Lgamma(float64(k))
 	l2, _ := math.Lgamma(float64(N + 1))
 	if lo-l1-l2 > math.Log(MaxExactFitOutcomes) {
-		return 0, 0, argerr.TooLarge(fn, "counts", N, "total too large for the exact multinomial test with "+strconv.Itoa(k)+" arms (more than MaxExactFitOutcomes outcomes); use Pearson chi-square or G")
+		return 0, 0, &argerr.Error{Func: fn, Reason: "a total of " + strconv.FormatInt(N, 10) + " in " + strconv.Itoa(k) + " arms has more than 20,000,000 outcomes (MaxExactFitOutcomes) for the exact multinomial test; use the Pearson chi-square or G test", Err: argerr.ErrTooLarge}
 	}
 	// w[j][y] = y ln pi_j - ln y!, so ln P(y) = ln N! + sum_j w[j][y_j].
 	w := make([][]float64, k)

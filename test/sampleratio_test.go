@@ -129,3 +129,52 @@ func TestSampleRatioErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestExactMultinomialSize: the exact size of the exact multinomial test
+// over every outcome of small totals: the probability (exact rationals) of
+// the outcomes whose p-value is at most alpha never exceeds alpha.
+func TestExactMultinomialSize(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		w []int64
+		N int64
+	}{{[]int64{1, 1, 1}, 9}, {[]int64{2, 3, 5}, 8}, {[]int64{1, 1, 2, 4}, 6}} {
+		var ws int64
+		wf := make([]float64, len(c.w))
+		for j, v := range c.w {
+			ws += v
+			wf[j] = float64(v)
+		}
+		rej := map[float64]*big.Rat{0.01: new(big.Rat), 0.05: new(big.Rat), 0.1: new(big.Rat)}
+		var rec func(j int, left int64, y []int64)
+		rec = func(j int, left int64, y []int64) {
+			if j == len(c.w)-1 {
+				y = append(y, left)
+				p := new(big.Rat).SetInt(new(big.Int).MulRange(1, c.N))
+				for i, v := range y {
+					p.Mul(p, new(big.Rat).SetFrac(new(big.Int).Exp(big.NewInt(c.w[i]), big.NewInt(v), nil),
+						new(big.Int).Mul(new(big.Int).MulRange(1, v), new(big.Int).Exp(big.NewInt(ws), big.NewInt(v), nil))))
+				}
+				r, err := SampleRatio(context.Background(), y, wf, SampleRatioOptions{Method: FitExact})
+				if err != nil {
+					t.Fatal(err)
+				}
+				for a, acc := range rej {
+					if r.PValue <= a {
+						acc.Add(acc, p)
+					}
+				}
+				return
+			}
+			for v := int64(0); v <= left; v++ {
+				rec(j+1, left-v, append(append([]int64(nil), y...), v))
+			}
+		}
+		rec(0, c.N, nil)
+		for a, acc := range rej {
+			if size, _ := acc.Float64(); size > a*(1+1e-12) {
+				t.Errorf("weights %v N=%d alpha %v: size %v", c.w, c.N, a, size)
+			}
+		}
+	}
+}
