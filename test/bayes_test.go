@@ -161,3 +161,30 @@ func TestCompareGolden(t *testing.T) {
 		}
 	}
 }
+
+// TestCredibleTwoArmAtZero checks interval's quadrature for p1 - p2 and
+// p1 / p2 against Compare's exact sums: P(p1 - p2 <= 0) = P(p1/p2 <= 1) =
+// P(p2 > p1), so the one-sided lower bound at level 1 - P(p2 > p1) must be
+// 0 for the difference and 1 for the ratio.
+func TestCredibleTwoArmAtZero(t *testing.T) {
+	t.Parallel()
+	u := interval.UniformPrior()
+	for _, c := range [][4]int64{{25, 90, 12, 80}, {60, 100, 50, 100}, {7, 12, 3, 10}} {
+		r, err := test.Compare(c[0], c[1], c[2], c[3], test.CompareOptions{Prior1: u, Prior2: u})
+		if err != nil {
+			t.Fatal(err)
+		}
+		o := interval.CredibleOptions{Prior: u, Side: interval.LowerBound, Level: 1 - r.ProbSecondBetter}
+		d, err := interval.CredibleDifference(c[0], c[1], c[2], c[3], o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		q, err := interval.CredibleRatio(c[0], c[1], c[2], c[3], o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(d.Lower) > 1e-10 || math.Abs(q.Lower-1) > 1e-10 {
+			t.Errorf("%v: lower bounds %v (want 0) and %v (want 1)", c, d.Lower, q.Lower)
+		}
+	}
+}
