@@ -138,10 +138,10 @@ func runAlarm(c *call) error {
 		for i, v := range looks {
 			k, n := v[0], v[1]
 			if k > n {
-				return inputErr(kn(k, n), "at look "+labels[i]+" has more successes than trials")
+				return lookInputErr(c, labels[i], kn(k, n)+" has more successes than trials")
 			}
 			if n < pn || k < pk || n-k < pn-pk {
-				return inputErr(kn(k, n), "at look "+labels[i]+" is below the previous look; the counts are cumulative")
+				return lookInputErr(c, labels[i], kn(k, n)+" is below the previous look; the counts are cumulative")
 			}
 			groups = append(groups, group{label: labels[i], m: n - pn, k: k - pk, item: n-pn == 1})
 			pk, pn = k, n

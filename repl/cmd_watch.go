@@ -213,10 +213,10 @@ func watchSPRT(c *call, paired bool) error {
 		if paired {
 			k, n = v[0], v[0]+v[1]
 		} else if k > n {
-			return inputErr(kn(k, n), "at look "+labels[i]+" has more successes than trials")
+			return lookInputErr(c, labels[i], kn(k, n)+" has more successes than trials")
 		}
 		if n < prevN || k < prevK || n-k < prevN-prevK {
-			return inputErr(kn(k, n), "at look "+labels[i]+" is below the previous look; the counts are cumulative")
+			return lookInputErr(c, labels[i], kn(k, n)+" is below the previous look; the counts are cumulative")
 		}
 		prevN, prevK = n, k
 		l, err := s.Decide(k, n)
@@ -321,7 +321,7 @@ func watchAlways(c *call) error {
 	for i, v := range looks {
 		l, err := s.Look(prev, v[0], v[1])
 		if err != nil {
-			return inputErr(kn(v[0], v[1]), "at look "+labels[i]+": "+reasonOf(err))
+			return lookInputErr(c, labels[i], kn(v[0], v[1])+": "+shellError(c.S.cmds, "watch", err))
 		}
 		note := l.Decision.String()
 		if decided {
@@ -403,7 +403,7 @@ func watchAB(c *call) error {
 	for i, v := range looks {
 		l, err := s.Look(prev, v[0], v[1], v[2], v[3])
 		if err != nil {
-			return inputErr(kn(v[0], v[1])+":"+kn(v[2], v[3]), "at look "+labels[i]+": "+reasonOf(err))
+			return lookInputErr(c, labels[i], kn(v[0], v[1])+":"+kn(v[2], v[3])+": "+shellError(c.S.cmds, "watch", err))
 		}
 		note := l.Decision.String()
 		if decided {
@@ -500,4 +500,17 @@ func pathPlot(s *Session, title string, ns []int64, ser []series, lines []line, 
 	ch := chart{xs: xs, series: out, yLo: yLo, yHi: hi + pad, ref: ref, height: 12, ascii: s.Set.ASCII,
 		width: s.Set.Width, digits: 3, xLabel: "n"}
 	return title + "\n" + ch.render()
+}
+
+// lookInputErr reports a problem at one look, naming the option word that
+// gave the looks (looks= or from=), which is what the user typed.
+func lookInputErr(c *call, label, reason string) error {
+	tok := c.Args.cmd.Name
+	for _, name := range []string{"looks", "from"} {
+		if o := c.Args.lookup(name); o != nil {
+			tok = o.word
+			break
+		}
+	}
+	return inputErr(tok, "at look "+label+": "+reason)
 }
