@@ -263,3 +263,42 @@ func BenchmarkCUSUMRunLength(b *testing.B) {
 		}
 	})
 }
+
+func FuzzCUSUM(f *testing.F) {
+	f.Add(0.01, 0.02, 3.0, int64(0), false, int64(2), int64(9))
+	f.Add(0.2, 0.1, 1.5, int64(33), true, int64(0), int64(0))
+	f.Fuzz(func(t *testing.T, p0, p1, h float64, unit int64, decrease bool, k, m int64) {
+		opt := CUSUMOptions{Unit: unit}
+		if decrease {
+			opt.Shift = Decrease
+		}
+		c, err := NewCUSUM(p0, p1, h, opt)
+		if err != nil {
+			var e *Error
+			if !errors.As(err, &e) {
+				t.Fatalf("untyped error %v", err)
+			}
+			return
+		}
+		if c.Ref < 1 || c.Ref >= c.Unit || c.Threshold < 1 || math.IsNaN(c.Gamma) {
+			t.Fatalf("bad chart %+v", c)
+		}
+		if s, _, err := c.Batch(0, k, m); err == nil && s < 0 {
+			t.Fatalf("negative statistic %d", s)
+		}
+		if float64(c.Threshold)*float64(c.Unit) > 2e5 {
+			return // keep the solve small
+		}
+		r, err := CUSUMRunLength(context.Background(), c, p0)
+		if err != nil {
+			var e *Error
+			if !errors.As(err, &e) {
+				t.Fatalf("untyped error %v", err)
+			}
+			return
+		}
+		if !(r.ARL >= 1) || math.IsNaN(r.SDRL) {
+			t.Fatalf("bad run length %+v for %+v", r, c)
+		}
+	})
+}

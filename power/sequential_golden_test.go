@@ -48,6 +48,29 @@ func TestCUSUMRunLengthGolden(t *testing.T) {
 				t.Errorf("%s: ARL, SDRL (-want +got)\n%s", r.Pos(), diff)
 			}
 			n++
+		case "cusummp":
+			// 60-digit mpmath solves: the subtraction-free elimination keeps
+			// its relative accuracy at large run lengths
+			shift, err := ParseShift(r.Str(1))
+			if err != nil {
+				t.Fatal(err)
+			}
+			c, err := newChart("test", 0.1, 0.2, CUSUMOptions{Unit: 20})
+			if shift == Decrease {
+				c, err = newChart("test", 0.05, 0.01, CUSUMOptions{Shift: Decrease, Unit: 40})
+			}
+			if err != nil || c.Unit != r.Int(2) || c.Ref != r.Int(3) {
+				t.Fatalf("%s: chart %+v, %v", r.Pos(), c, err)
+			}
+			c.Threshold = r.Int(4)
+			got, err := CUSUMRunLength(context.Background(), c, r.Float(5))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if diff := cmp.Diff(r.Float(6), got.ARL, cmpopts.EquateApprox(1e-13, 0)); diff != "" {
+				t.Errorf("%s: ARL (-want +got)\n%s", r.Pos(), diff)
+			}
+			n++
 		case "cusumh":
 			shift, _ := ParseShift(r.Str(3))
 			c, rl, err := CUSUMForARL(context.Background(), r.Float(1), r.Float(2), r.Float(6), CUSUMOptions{Shift: shift, Unit: r.Int(4)})

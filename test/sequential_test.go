@@ -365,3 +365,30 @@ func BenchmarkSequentialLook(b *testing.B) {
 		}
 	})
 }
+
+func FuzzDifferenceLook(f *testing.F) {
+	f.Add(int64(3), int64(10), int64(5), int64(12), 0.0, false)
+	f.Add(int64(0), int64(0), int64(7), int64(7), 0.3, true)
+	f.Fuzz(func(t *testing.T, k1, n1, k2, n2 int64, delta float64, normal bool) {
+		o := DifferenceSequenceOptions{}
+		if normal {
+			o.Method = NormalMixtureSequence
+		}
+		s, err := NewDifferenceSequence(delta, 0.05, o)
+		if err != nil {
+			return
+		}
+		l, err := s.Look(nil, k1, n1, k2, n2)
+		if err != nil {
+			var e *Error
+			if !errors.As(err, &e) {
+				t.Fatalf("untyped error %v", err)
+			}
+			return
+		}
+		if math.IsNaN(l.PValue) || l.PValue < 0 || l.PValue > 1 || math.IsNaN(l.Interval.Lower) || l.Interval.Lower > l.Interval.Upper ||
+			l.Interval.Lower < -1 || l.Interval.Upper > 1 {
+			t.Fatalf("bad look %+v", l)
+		}
+	})
+}

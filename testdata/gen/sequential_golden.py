@@ -10,6 +10,9 @@ Writes ../sequential_golden.tsv with four kinds of row:
   cusumh  p0 p1 shift unit ref arl0 threshold arl
           smallest threshold with in-control ARL >= arl0, by scanning every
           threshold upward with dense solves.
+  cusummp shift unit ref threshold p arl
+          the same chain solved by mpmath's LU at 60 digits, for in-control run
+          lengths large enough that rounding in plain elimination shows.
   sprt    p0 p1 alpha beta maxn p accept reject asn
           truncated SPRT by a recursion over the full range k = 0..n (no
           band) with numpy, boundaries Z >= ln((1-beta)/alpha) reject,
@@ -31,7 +34,7 @@ Writes ../sequential_golden.tsv with four kinds of row:
           (k1, k2) grid with numpy.
 
 Run: /usr/bin/python3 testdata/gen/sequential_golden.py   (from the repo root;
-about 20 s)
+about 4 minutes, most of it the 60-digit solves)
 """
 import datetime, math, os
 import numpy as np
@@ -99,6 +102,26 @@ for p0, p1, shift, unit, ref, target in CUSUMH:
         th += 1
     rows.append(["cusumh", p0, p1, shift, unit, ref, target, th, fmt(L)])
 
+
+
+def arl_mp(unit, ref, shift, threshold, p):
+    mpmath.mp.dps = 60
+    p = mpmath.mpf(p)
+    if shift == "increase":
+        up, down, pu = unit - ref, ref, p
+    else:
+        up, down, pu = ref, unit - ref, 1 - p
+    n = threshold
+    A = mpmath.eye(n)
+    for s in range(n):
+        A[s, max(0, s - down)] -= 1 - pu
+        if s + up < n:
+            A[s, s + up] -= pu
+    return mpmath.lu_solve(A, mpmath.matrix([1] * n))[0]
+
+
+for shift, unit, ref, th, p in [("increase", 20, 3, 220, "0.1"), ("increase", 20, 3, 300, "0.1"), ("decrease", 40, 1, 240, "0.05")]:
+    rows.append(["cusummp", shift, unit, ref, th, p, mpmath.nstr(arl_mp(unit, ref, shift, th, p), 25)])
 
 # ---------------------------------------------------------------- SPRT
 def sprt(p0, p1, alpha, beta, maxn, p):
