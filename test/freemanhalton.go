@@ -185,14 +185,6 @@ func (f *fh) step() bool {
 	return f.err == nil
 }
 
-func (f *fh) rest0() int64 {
-	var t int64
-	for _, v := range f.n {
-		t += v
-	}
-	return t
-}
-
 // addLog adds e^(l - T) to the log part of the count.
 func (f *fh) addLog(l float64) { f.log = xmath.LogAddExp(f.log, l-f.T) }
 
