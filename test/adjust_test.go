@@ -70,7 +70,8 @@ func TestAdjustWorked(t *testing.T) {
 	// the four smallest, Bonferroni (0.05/15 = 0.0033) only three (recalled;
 	// recomputed by hand: p(4) = 0.0095 <= 4 (0.05)/15 = 0.0133 while p(5) =
 	// 0.0201 > 0.0167 and no later p(i) <= 0.05 i/15; Holm stops at
-	// 12 p(4) = 0.114). R 4.2.2's adjusted values agree (rows above).
+	// 12 p(4) = 0.114). The same vector is among the R rows of
+	// TestAdjustGoldenR.
 	bh := []float64{0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.3240, 0.4262, 0.5719, 0.6528, 0.7590, 1.000}
 	for _, c := range []struct {
 		m    Adjustment

@@ -34,7 +34,9 @@ vecs <- list(
   round(runif(40), 2),
   c(runif(30) * 0.01, runif(30)),
   sort(runif(200)^4),
-  runif(1000)^2
+  runif(1000)^2,
+  c(0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.3240, 0.4262, 0.5719,
+    0.6528, 0.7590, 1.000)  # Benjamini and Hochberg (1995), section 4.2
 )
 for (p in vecs) for (m in c("holm", "hochberg", "hommel", "bonferroni", "BH", "BY"))
   add("adjust", m, num(p), num(p.adjust(p, m)))
