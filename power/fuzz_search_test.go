@@ -66,7 +66,7 @@ func FuzzSampleSize(f *testing.F) {
 	f.Add(0.5, 0.7, 0.01, 0.9, 0.05, 1, 1, true, 2.0)
 	f.Add(0.025, 0.005, 0.025, 0.8, 0.05, 0, 2, false, 1.0)
 	f.Add(1e-300, 1-1e-16, 0.5, 1-1e-16, 1e-17, 3, 7, true, 0.5)
-	f.Add(math.NaN(), math.Inf(1), -0.0, 5e-324, 0.5, -1, 99, false, math.Inf(1))
+	f.Add(math.NaN(), math.Inf(1), math.Copysign(0, -1), 5e-324, 0.5, -1, 99, false, math.Inf(1))
 	f.Fuzz(func(t *testing.T, p1, p2, alpha, pw, eps float64, alt, method int, mid bool, ratio float64) {
 		ctx, cancel := context.WithTimeout(context.Background(), 5*time.Second)
 		defer cancel()
