@@ -19,7 +19,7 @@ func watchCommand() *command {
 		Usage: "watch sprt p0=P0 p1=P1 [alpha=A] [beta=B] [max=N] [looks=K/N,..|from=FILE|-] | " +
 			"watch pairs theta=T [alpha=A] [beta=B] [max=N] [looks=N12:N21,..|from=..] | " +
 			"watch always p0=P0 [alpha=A] [planned=N] [guess=P] [looks=K/N,..|from=..] | " +
-			"watch ab [delta=D] [alpha=A] [method=product|normal] [planned=N] [looks=K1/N1:K2/N2,..|from=..]",
+			"watch ab [delta=D] [alpha=A] [method=product|normal] [planned=N] [tau2=V] [looks=K1/N1:K2/N2,..|from=..]",
 		Options: []opt{
 			{Name: "p0", Doc: "sprt, always: the success probability under H0"},
 			{Name: "p1", Doc: "sprt: the success probability under H1"},
@@ -32,6 +32,7 @@ func watchCommand() *command {
 			{Name: "planned", Doc: "always, ab: the size (per group) the mixture is tuned for (default 1000)"},
 			{Name: "guess", Doc: "always: the proportion the mixture is tuned around (default 0.5)"},
 			{Name: "delta", Doc: "ab: the null difference p1 - p2 (default 0)"},
+			{Name: "tau2", Doc: "ab, method=normal: the variance of the normal mixing distribution on p1 - p2 (default: tuned for planned=)"},
 			optMethod("ab: product (exact, default) or normal (asymptotic mixture SPRT)", []string{"product", "normal"}),
 			{Name: "looks", Doc: "the looks, cumulative: K/N,K/N,.. (pairs N12:N21,..; ab K1/N1:K2/N2,..)"},
 			{Name: "from", Doc: "read the looks from a CSV file, or - for standard input (columns k,n; n12,n21; k1,n1,k2,n2)"},
@@ -368,6 +369,9 @@ func watchAB(c *call) error {
 	o := test.DifferenceSequenceOptions{Prior: interval.SequenceOptions{PlannedN: n}}
 	if m == "normal" {
 		o.Method = test.NormalMixtureSequence
+		if o.Tau2, err = a.Float("tau2", 0); err != nil {
+			return err
+		}
 	}
 	s, err := test.NewDifferenceSequence(delta, alpha, o)
 	if err != nil {

@@ -77,7 +77,7 @@ func TestSequentialErrors(t *testing.T) {
 		"watch sprt p0=0.1 p1=0.2 max=5 looks=1/6", "watch sprt p0=0.1 p1=0.2 looks=1/5 from=x.csv",
 		"watch sprt p0=0.1 p1=0.2 from=/nonexistent/looks.csv", "watch pairs theta=0.5", "watch pairs theta=0.7 looks=3/4", "watch pairs theta=0.7 yn=0.1", "watch pairs theta=0.7 yn=0.8 ny=0.5", "watch sprt p0=0.1 p1=0.2 yn=0.1 ny=0.1",
 		"watch always p0=0.1 guess=1", "watch always p0=0.1 looks=3/10,2/11", "watch ab looks=3/10", "watch ab delta=1",
-		"watch ab method=exactish", "watch sprt p0=0.1 p1=0.2 nonsense=3",
+		"watch ab method=exactish", "watch ab method=normal tau2=-1", "watch ab tau2=0.01", "watch sprt p0=0.1 p1=0.2 nonsense=3",
 		"alarm p0=0.1 p1=0.2", "alarm p0=0.1 p1=0.2 h=2 arl0=100", "alarm p0=0.2 p1=0.1 h=2", "alarm p0=0.1 p1=0.2 h=2 items=012",
 		"alarm p0=0.1 p1=0.2 h=2 items=01 looks=1/2", "alarm p0=0.00001 p1=0.00002 h=5", "alarm p0=0.1 p1=0.2 arl0=1",
 		"alarm p0=0.1 p1=0.2 h=2 looks=3/10,2/10",

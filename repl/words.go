@@ -43,7 +43,7 @@ var commandWords = map[string]map[string]string{
 	"simon":   {"p0": "p0", "p1": "p1", "MaxN": "upto"},
 	"interim": {"p0": "p0", "p1": "p1", "p2": "p2", "maxN": "upto", "looks": "looks"},
 	"watch": {"p0": "p0", "p1": "p1", "theta1": "theta", "MaxN": "max", "PlannedN": "planned", "PlannedP": "guess",
-		"delta0": "delta", "beta": "beta"},
+		"delta0": "delta", "beta": "beta", "Tau2": "tau2"},
 	"alarm": {"p0": "p0", "p1": "p1", "h": "h", "arl0": "arl0", "Unit": "unit", "Shift": "shift", "Threshold": "the limit"},
 }
 
