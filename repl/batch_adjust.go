@@ -15,7 +15,8 @@ import (
 // adjustSpill adds an adjusted p-value column over the whole file to each's
 // output (each ... adjust=METHOD). An adjusted p-value needs every p-value
 // of the family, so the output rows are spilled to a temporary file as they
-// are computed, keeping only the p-values in memory (8 bytes a row); when
+// are computed, keeping only the p-values in memory (8 bytes a row, and
+// during the adjustment a few arrays of that length); when
 // the input is done the p-values are adjusted and a second pass copies the
 // spilled rows to the output with the adjusted column added. The input is
 // read once (it may be standard input), and memory does not grow with the
