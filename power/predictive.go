@@ -74,6 +74,52 @@ func PredictiveAtLeast(x, n, final, need int64, prior interval.Prior) (Predictiv
 	return r, nil
 }
 
+// PredictiveSuccess returns the predictive probability of Lee and Liu
+// (2008) after x successes in n: the probability, under the beta-binomial
+// predictive distribution of the remaining final - n trials, that at the
+// final size the posterior probability P(p > p0 | data) exceeds thetaT.
+// NeedTotal is the smallest final number of successes that meets that
+// criterion (found by bisection: the posterior tail grows with the count),
+// and Prob = P(final successes >= NeedTotal | x of n). Errors: as
+// PredictiveAtLeast, p0 and thetaT outside (0, 1).
+func PredictiveSuccess(x, n, final int64, p0, thetaT float64, prior interval.Prior) (Predictive, error) {
+	const fn = "power.PredictiveSuccess"
+	if err := argerr.OpenProb(fn, "p0", p0); err != nil {
+		return Predictive{}, err
+	}
+	if err := argerr.OpenProb(fn, "thetaT", thetaT); err != nil {
+		return Predictive{}, err
+	}
+	pr, err := prior.Resolve(fn)
+	if err != nil {
+		return Predictive{}, err
+	}
+	if final < n || final > 1<<49 {
+		return Predictive{}, argerr.Invalid(fn, "final", final, "must lie between n = "+strconv.FormatInt(n, 10)+" and 2^49")
+	}
+	var bad error
+	need := root.SmallestInt(func(s int64) bool {
+		post, err := interval.NewPosterior(s, final, pr)
+		if err != nil {
+			bad = err
+			return true
+		}
+		pa, _, _ := post.ProbAbove(p0)
+		return pa > thetaT
+	}, 0, final)
+	if bad != nil {
+		return Predictive{}, bad
+	}
+	r, err := PredictiveAtLeast(x, n, final, need, pr)
+	if err != nil {
+		return Predictive{}, err
+	}
+	if need > final {
+		r.Warnings = append(r.Warnings, "no final count meets the criterion: the predictive probability is 0")
+	}
+	return r, nil
+}
+
 // predictiveLogTail returns ln P(Y >= j), Y ~ BetaBinomial(m, a, b).
 func predictiveLogTail(m int64, a, b float64, j int64) float64 {
 	if j <= 0 {

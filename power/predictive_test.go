@@ -78,6 +78,28 @@ func TestPredictiveIdentities(t *testing.T) {
 	}
 }
 
+// TestPredictiveSuccessMatchesDesign: the predictive probability at a look
+// is the one the design's boundaries use (same NeedTotal as FinalNeed, and
+// the futility boundary is the last count with PP below ThetaL).
+func TestPredictiveSuccessMatchesDesign(t *testing.T) {
+	t.Parallel()
+	prior := interval.BetaPrior(0.6, 0.4)
+	d := power.PredictiveDesign{Final: 40, Looks: []int64{20}, P0: 0.2, ThetaT: 0.9, ThetaL: 0.05, Prior: prior}
+	r, err := d.OC(context.Background(), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := r.Futility[0]
+	below, err := power.PredictiveSuccess(f, 20, 40, 0.2, 0.9, prior)
+	if err != nil {
+		t.Fatal(err)
+	}
+	above, _ := power.PredictiveSuccess(f+1, 20, 40, 0.2, 0.9, prior)
+	if below.NeedTotal != r.FinalNeed || !(below.Prob < 0.05) || !(above.Prob >= 0.05) {
+		t.Errorf("need %d vs %d; PP at %d = %v, at %d = %v", below.NeedTotal, r.FinalNeed, f, below.Prob, f+1, above.Prob)
+	}
+}
+
 func TestPredictiveErrors(t *testing.T) {
 	t.Parallel()
 	d := power.PredictiveDesign{Final: 40, P0: 0.2, ThetaT: 0.9, ThetaL: 0.05}

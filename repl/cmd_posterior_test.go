@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/kofnlab/kofn/interval"
+	"github.com/kofnlab/kofn/power"
 	"github.com/kofnlab/kofn/test"
 )
 
@@ -37,5 +38,28 @@ func TestPosteriorAndBeatsMatchPackages(t *testing.T) {
 	b, _ := test.ProbBest(context.Background(), []int64{12, 30, 25}, []int64{100, 100, 120}, nil)
 	if got := num(t, runJSON(t, "beats 12/100 30/100 25/120"), "prob_best.1"); got != b.ProbBest[1] {
 		t.Errorf("P(arm 2 best) %v, package %v", got, b.ProbBest[1])
+	}
+}
+
+// TestPredictAndMonitorMatchPower pins predict and monitor to power.
+func TestPredictAndMonitorMatchPower(t *testing.T) {
+	t.Parallel()
+	prior := interval.BetaPrior(0.6, 0.4)
+	p, _ := power.PredictiveSuccess(7, 20, 40, 0.2, 0.9, prior)
+	if got := num(t, runJSON(t, "predict 7/20 final=40 p0=0.2 threshold=0.9 prior=0.6,0.4"), "prob"); got != p.Prob {
+		t.Errorf("predictive probability %v, package %v", got, p.Prob)
+	}
+	looks := make([]int64, 0, 30)
+	for n := int64(10); n < 40; n++ {
+		looks = append(looks, n)
+	}
+	d := power.PredictiveDesign{Final: 40, Looks: looks, P0: 0.2, ThetaT: 0.9, ThetaL: 0.05, ThetaU: 1, Prior: prior}
+	r, _ := d.OC(context.Background(), []float64{0.2, 0.4})
+	obj := runJSON(t, "monitor final=40 p0=0.2 p1=0.4 prior=0.6,0.4")
+	if got := num(t, obj, "oc.1.reject"); got != r.OC[1].Reject {
+		t.Errorf("power %v, package %v", got, r.OC[1].Reject)
+	}
+	if got := num(t, obj, "prior.a"); got != 0.6 {
+		t.Errorf("prior a %v", got)
 	}
 }

@@ -45,6 +45,8 @@ var commandTable = []func() *command{
 	simonCommand,
 	interimCommand,
 	alarmCommand,
+	predictCommand,
+	monitorCommand,
 	// data
 	eachCommand,
 	// session
