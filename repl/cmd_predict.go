@@ -115,7 +115,7 @@ func monitorCommand() *command {
 			Methods: "Boundaries from the beta-binomial predictive probability at each look; operating " +
 				"characteristics by exact forward recursion over the looks (no simulation).",
 			Assumptions: "Independent trials with one success probability; looks at the planned sizes only.",
-			Examples: []string{"monitor final=40 p0=0.2 p1=0.4 prior=0.6,0.4", "monitor final=60 p0=0.15 p1=0.3 from=5 every=5 futility=0.02"},
+			Examples:    []string{"monitor final=40 p0=0.2 p1=0.4 prior=0.6,0.4", "monitor final=60 p0=0.15 p1=0.3 from=5 every=5 futility=0.02"},
 			Sources: "Lee JJ, Liu DD (2008), A predictive probability design for phase II cancer clinical trials, " +
 				"Clinical Trials 5:93-106.",
 			Caution: true,
