@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"github.com/kofnlab/kofn/interval"
+	"github.com/kofnlab/kofn/power"
 	"github.com/kofnlab/kofn/test"
 )
 
@@ -113,6 +114,52 @@ func bayesStrataEntries() []entry {
 		return test.ProbBest(ctx, k, n, priors)
 	}})
 	e = append(e, jsonEntries[test.BestArm]("BestArm")...)
+	credOpt := func(a args) interval.CredibleOptions {
+		return interval.CredibleOptions{Level: a.F(), Side: interval.Side(a.E()), Kind: interval.CredibleKind(a.E()), Prior: a.prior()}
+	}
+	e = append(e,
+		entry{name: "CredibleDifference", call: func(_ context.Context, a args) (any, error) {
+			return interval.CredibleDifference(a.C(), a.C(), a.C(), a.C(), credOpt(a))
+		}, check: within(-1, 1)},
+		entry{name: "CredibleRatio", call: func(_ context.Context, a args) (any, error) {
+			return interval.CredibleRatio(a.C(), a.C(), a.C(), a.C(), credOpt(a))
+		}, check: within(0, math.Inf(1))},
+		entry{name: "Posterior.Quantile", call: func(_ context.Context, a args) (any, error) {
+			p, err := interval.NewPosterior(a.C(), a.C(), a.prior())
+			if err != nil {
+				return nil, err
+			}
+			q := a.F()
+			x := p.Quantile(q)
+			if q == q && !(x >= 0 && x <= 1) {
+				return fmt.Sprintf("quantile %v at %v", x, q), nil
+			}
+			return "", nil
+		}, check: problems},
+		entry{name: "Posterior.Density", call: func(_ context.Context, a args) (any, error) {
+			p, err := interval.NewPosterior(a.C(), a.C(), a.prior())
+			if err != nil {
+				return nil, err
+			}
+			x := a.F()
+			if d := p.Density(x); x == x && !(d >= 0) {
+				return fmt.Sprintf("density %v at %v", d, x), nil
+			}
+			return "", nil
+		}, check: problems},
+		entry{name: "PredictiveAtLeast", call: func(_ context.Context, a args) (any, error) {
+			return power.PredictiveAtLeast(a.C(), a.C(), a.C(), a.C(), a.prior())
+		}},
+		entry{name: "PredictiveDesign.OC", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
+			d := power.PredictiveDesign{Final: a.Small(), P0: a.F(), ThetaT: a.F(), ThetaL: a.F(), ThetaU: a.F(), Prior: a.prior()}
+			if a.B() {
+				d.Looks = a.Counts()
+			}
+			return d.OC(ctx, a.Reals())
+		}},
+	)
+	e = append(e, jsonEntries[power.Predictive]("Predictive")...)
+	e = append(e, jsonEntries[power.PredictiveOC]("PredictiveOC")...)
 	e = append(e, enumEntries("CommonMethod", "ParseCommonMethod", interval.CommonMethodValues, interval.ParseCommonMethod)...)
 	e = append(e, enumEntries("CredibleKind", "ParseCredibleKind", interval.CredibleKindValues, interval.ParseCredibleKind)...)
 	e = append(e, enumEntries("PriorKind", "ParsePriorKind", interval.PriorKindValues, interval.ParsePriorKind)...)
