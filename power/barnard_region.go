@@ -70,6 +70,9 @@ func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, 
 		var tb [2]int64
 		okB := false
 		for x1 := int64(0); x1 <= n1; x1++ {
+			if x1%4096 == 0 && ctx.Err() != nil {
+				return t, 0, false, false // the caller reports the error
+			}
 			p, q := cuts(x1, c)
 			for _, x2 := range []int64{p, q} { // at or above c
 				if x2 >= 0 && x2 <= n2 {
@@ -125,8 +128,16 @@ func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, 
 			c = ka + (kr-ka)/2
 		}
 	}
+	if err := argerr.Canceled(fn, ctx); err != nil {
+		return nil, err
+	}
 	r := &twoRegion{n1: n1, n2: n2, a: make([]int64, n1+1), b: make([]int64, n1+1)}
 	for x1 := int64(0); x1 <= n1; x1++ {
+		if x1%4096 == 0 {
+			if err := argerr.Canceled(fn, ctx); err != nil {
+				return nil, err
+			}
+		}
 		if math.IsInf(kr, 1) {
 			r.a[x1], r.b[x1] = 0, n2 // nothing rejected
 			continue

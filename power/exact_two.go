@@ -29,6 +29,19 @@ type twoRegion struct {
 	bySum  bool
 	inner  bool // rows store the rejected x2 interval instead of the accepted one
 	a, b   []int64
+	// ctx, set by buildRegion, is checked every 256 rows of prob; err
+	// holds its error once it is done (prob then returns 0 at once).
+	ctx context.Context
+	fn  string
+	err error
+}
+
+// canceled reports whether r.ctx is done, recording its error in r.err.
+func (r *twoRegion) canceled() bool {
+	if r.err == nil && r.ctx != nil {
+		r.err = argerr.Canceled(r.fn, r.ctx)
+	}
+	return r.err != nil
 }
 
 // fisherRegion builds Fisher's rejection region at alpha: for each margin
@@ -36,9 +49,12 @@ type twoRegion struct {
 // the test package's p-value (onesample.LogPValueOf on binom.Hyper, as
 // test.Fisher computes it; point-probability two-sided definition). The
 // interval of s seeds the walk for s + 1.
-func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative) (*twoRegion, error) {
+func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative, sp span) (*twoRegion, error) {
 	N := n1 + n2
 	r := &twoRegion{n1: n1, n2: n2, bySum: true, a: make([]int64, N+1), b: make([]int64, N+1)}
+	for s := int64(0); s <= N; s++ { // accept all outside the span
+		r.a[s], r.b[s] = 0, N
+	}
 	la := xmath.Log(alpha)
 	oalt := onesample.TwoSided
 	switch alt {
@@ -48,8 +64,8 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 		oalt = onesample.Lower
 	}
 	ga, gb := int64(0), int64(-1)
-	for s := int64(0); s <= N; s++ {
-		if s&63 == 0 {
+	for s := sp.s0; s <= sp.s1; s++ {
+		if s&15 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return nil, err
 			}
@@ -91,12 +107,15 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 // by row: for fixed x1 the pooled z decreases in x2, so the accepted x2
 // form an interval, decided by test.TwoSample (z pooled) and seeded by the
 // previous row.
-func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative) (*twoRegion, error) {
+func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative, sp span) (*twoRegion, error) {
 	r := &twoRegion{n1: n1, n2: n2, a: make([]int64, n1+1), b: make([]int64, n1+1)}
+	for x1 := range r.b { // accept all outside the span
+		r.b[x1] = n2
+	}
 	la := xmath.Log(alpha)
 	opt := test.TwoSampleOptions{Method: test.ZPooled, Alternative: alt}
 	ga, gb := int64(0), n2
-	for x1 := int64(0); x1 <= n1; x1++ {
+	for x1 := sp.r0; x1 <= sp.r1; x1++ {
 		if x1&63 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return nil, err
@@ -135,6 +154,9 @@ func (r *twoRegion) prob(p1, p2 float64) float64 {
 	sum := 0.0
 	if r.bySum {
 		for x1 := l1; x1 <= h1; x1++ {
+			if (x1-l1)%256 == 0 && r.canceled() {
+				return 0
+			}
 			row := 0.0
 			for x2 := l2; x2 <= h2; x2++ {
 				s := x1 + x2
@@ -177,18 +199,54 @@ func (r *twoRegion) prob(p1, p2 float64) float64 {
 	return min(max(sum, 0), 1)
 }
 
-// buildRegion builds the rejection region of o.Test.
-func buildRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, o TwoSampleOptions) (*twoRegion, error) {
-	if o.Hypothesis != Equality {
-		return marginRegion(ctx, fn, n1, n2, alpha, o.Hypothesis, o.Margin)
+// span is the part of a region that is built: rows x1 in [r0, r1], and
+// margins s = x1 + x2 in [s0, s1] for a region held by margin.
+type span struct{ r0, r1, s0, s1 int64 }
+
+// spanOf returns the span that prob needs at the proportion pairs pts:
+// the hull of the PMF windows (see pmfWindow) of each pair, rows from the
+// first group's window and margins from the sum of both windows; the whole
+// region when pts is nil. Outside its span a region built by buildRegion
+// rejects nothing (prob never looks there).
+func spanOf(n1, n2 int64, pts [][2]float64) span {
+	if pts == nil {
+		return span{0, n1, 0, n1 + n2}
 	}
-	switch o.Test {
-	case BarnardExactTest:
-		return barnardRegion(ctx, fn, n1, n2, alpha, o.Alternative)
-	case ZPooledTest:
-		return zRegion(ctx, fn, n1, n2, alpha, o.Alternative)
+	sp := span{n1, 0, n1 + n2, 0}
+	for _, p := range pts {
+		l1, w1 := pmfWindow(n1, p[0], nil)
+		l2, w2 := pmfWindow(n2, p[1], nil)
+		h1, h2 := l1+int64(len(w1))-1, l2+int64(len(w2))-1
+		sp.r0, sp.r1 = min(sp.r0, l1), max(sp.r1, h1)
+		sp.s0, sp.s1 = min(sp.s0, l1+l2), max(sp.s1, h1+h2)
 	}
-	return fisherRegion(ctx, fn, n1, n2, alpha, o.Alternative)
+	return sp
+}
+
+// buildRegion builds the rejection region of o.Test where prob will
+// evaluate it at the proportion pairs pts (everywhere when pts is nil):
+// O(sqrt(n1 + n2)) margins or rows instead of all of them, for Fisher's,
+// the z test's and the margin tests' regions (Barnard's critical value
+// depends on every table, and its region costs O(n1) once that is known).
+func buildRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, o TwoSampleOptions, pts [][2]float64) (*twoRegion, error) {
+	sp := spanOf(n1, n2, pts)
+	var r *twoRegion
+	var err error
+	switch {
+	case o.Hypothesis != Equality:
+		r, err = marginRegion(ctx, fn, n1, n2, alpha, o.Hypothesis, o.Margin, sp)
+	case o.Test == BarnardExactTest:
+		r, err = barnardRegion(ctx, fn, n1, n2, alpha, o.Alternative)
+	case o.Test == ZPooledTest:
+		r, err = zRegion(ctx, fn, n1, n2, alpha, o.Alternative, sp)
+	default:
+		r, err = fisherRegion(ctx, fn, n1, n2, alpha, o.Alternative, sp)
+	}
+	if err != nil {
+		return nil, err
+	}
+	r.ctx, r.fn = ctx, fn
+	return r, nil
 }
 
 func twoTestName(o TwoSampleOptions) string {
@@ -262,13 +320,18 @@ func TwoSamplePower(ctx context.Context, n1, n2 int64, p1, p2 float64, o TwoSamp
 	if err != nil {
 		return ExactPower{}, err
 	}
-	reg, err := buildRegion(ctx, fn, n1, n2, s.alpha, o)
+	sz := sizePoints(n1, n2, p1, p2, s)
+	reg, err := buildRegion(ctx, fn, n1, n2, s.alpha, o, append([][2]float64{{p1, p2}}, sz...))
 	if err != nil {
 		return ExactPower{}, err
 	}
+	pw, size := reg.prob(p1, p2), twoSize(reg, sz)
+	if reg.err != nil {
+		return ExactPower{}, reg.err
+	}
 	return ExactPower{
 		Test: twoTestName(o), N: n1, Alpha: s.alpha,
-		Power: reg.prob(p1, p2), Size: twoSize(reg, n1, n2, p1, p2, s),
+		Power: pw, Size: size,
 		AcceptLo: -1, AcceptHi: -1,
 	}, nil
 }
@@ -313,12 +376,14 @@ func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactS
 		if err := checkGroups(fn, n1, n2); err != nil {
 			return 0, err
 		}
-		reg, err := buildRegion(ctx, fn, n1, n2, s.alpha, o)
+		sz := sizePoints(n1, n2, p1, p2, s)
+		reg, err := buildRegion(ctx, fn, n1, n2, s.alpha, o, append([][2]float64{{p1, p2}}, sz...))
 		if err != nil {
 			return 0, err
 		}
-		sizes[n1] = twoSize(reg, n1, n2, p1, p2, s)
-		return reg.prob(p1, p2), nil
+		sizes[n1] = twoSize(reg, sz)
+		pw := reg.prob(p1, p2)
+		return pw, reg.err
 	}
 	res, err := scanStable(ctx, fn, scan{start: start, maxN: limit, target: s.pw,
 		horizon: func(first int64) int64 { return first + max(10, first/4) }}, power)
@@ -353,12 +418,19 @@ func (r *twoRegion) rejects(x1, x2 int64) bool {
 // test.DifferenceEquivalence on (-m, m): the rejected x2 (equivalence
 // shown) form an interval around x2 = x1 n2/n1. Each row is seeded by the
 // previous one; the structure is checked table by table in the tests.
-func marginRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, hyp Hypothesis, m float64) (*twoRegion, error) {
+func marginRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, hyp Hypothesis, m float64, sp span) (*twoRegion, error) {
 	r := &twoRegion{n1: n1, n2: n2, inner: hyp == Equivalence, a: make([]int64, n1+1), b: make([]int64, n1+1)}
+	for x1 := range r.a { // reject nothing outside the span
+		if r.inner {
+			r.a[x1], r.b[x1] = 1, 0
+		} else {
+			r.a[x1], r.b[x1] = 0, n2
+		}
+	}
 	la := xmath.Log(alpha)
 	opt := test.MarginOptions{Alternative: test.Higher}
 	ga, gb := int64(0), n2
-	for x1 := int64(0); x1 <= n1; x1++ {
+	for x1 := sp.r0; x1 <= sp.r1; x1++ {
 		if x1&63 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return nil, err
@@ -387,38 +459,39 @@ func marginRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, h
 	return r, nil
 }
 
-// marginSize returns the largest rejection probability of a margin
-// region on the boundary of H0 with p2 held at its planned value: p1 = p2
-// - m for non-inferiority, p1 = p2 - m and p2 + m for equivalence. A
-// boundary point that would leave [0, 1] (p2 - m < 0, p2 + m > 1) is
-// replaced by the boundary's nearest point inside the unit square, (0, m)
-// or (1, 1 - m), so the size is always defined.
-func marginSize(reg *twoRegion, p2 float64, hyp Hypothesis, m float64) float64 {
-	lower := func() (float64, float64) { // p1 = p2 - m
-		if p2-m < 0 {
-			return 0, m
-		}
-		return p2 - m, p2
+// sizePoints returns the proportion pairs (p1, p2) at which the attained
+// size reported with an exact two-sample power is evaluated: the pooled
+// proportion (n1 p1 + n2 p2)/(n1 + n2) for both groups for Equality; on
+// the null boundary for margins, p1 = p2 - m (and p2 + m for
+// equivalence) with p2 as planned, or the boundary's nearest point inside
+// [0, 1]^2 when that one leaves it.
+func sizePoints(n1, n2 int64, p1, p2 float64, s twoSetup) [][2]float64 {
+	if s.hyp == Equality {
+		pbar := (float64(n1)*p1 + float64(n2)*p2) / float64(n1+n2)
+		return [][2]float64{{pbar, pbar}}
 	}
-	a1, a2 := lower()
-	size := reg.prob(a1, a2)
-	if hyp == Equivalence {
-		b1, b2 := p2+m, p2 // p1 = p2 + m
+	m := s.margin
+	a1, a2 := p2-m, p2
+	if a1 < 0 {
+		a1, a2 = 0, m
+	}
+	pts := [][2]float64{{a1, a2}}
+	if s.hyp == Equivalence {
+		b1, b2 := p2+m, p2
 		if b1 > 1 {
 			b1, b2 = 1, 1-m
 		}
-		size = math.Max(size, reg.prob(b1, b2))
+		pts = append(pts, [2]float64{b1, b2})
 	}
-	return size
+	return pts
 }
 
-// twoSize returns the attained size reported with an exact two-sample
-// power: at the pooled proportion for Equality, on the null boundary for
-// margins (marginSize).
-func twoSize(reg *twoRegion, n1, n2 int64, p1, p2 float64, s twoSetup) float64 {
-	if s.hyp != Equality {
-		return marginSize(reg, p2, s.hyp, s.margin)
+// twoSize returns the attained size: the largest rejection probability of
+// the region at the points of sizePoints.
+func twoSize(reg *twoRegion, pts [][2]float64) float64 {
+	size := 0.0
+	for _, p := range pts {
+		size = math.Max(size, reg.prob(p[0], p[1]))
 	}
-	pbar := (float64(n1)*p1 + float64(n2)*p2) / float64(n1+n2)
-	return reg.prob(pbar, pbar)
+	return size
 }

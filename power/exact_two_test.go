@@ -152,7 +152,7 @@ func TestTwoRegionsMatchTests(t *testing.T) {
 						continue
 					}
 					o := TwoSampleOptions{Test: tst, Alternative: alt}
-					reg, err := buildRegion(ctx, "test", n1, n2, alpha, o)
+					reg, err := buildRegion(ctx, "test", n1, n2, alpha, o, nil)
 					if err != nil {
 						t.Fatal(err)
 					}
@@ -199,7 +199,7 @@ func TestMarginRegionsMatchTests(t *testing.T) {
 		n1, n2 := nn[0], nn[1]
 		for _, m := range []float64{0.05, 0.2} {
 			for _, hyp := range []Hypothesis{NonInferiority, Equivalence} {
-				reg, err := buildRegion(ctx, "test", n1, n2, 0.05, TwoSampleOptions{Hypothesis: hyp, Margin: m})
+				reg, err := buildRegion(ctx, "test", n1, n2, 0.05, TwoSampleOptions{Hypothesis: hyp, Margin: m}, nil)
 				if err != nil {
 					t.Fatal(err)
 				}
