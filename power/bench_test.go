@@ -54,29 +54,38 @@ func BenchmarkDesignPlanClose(b *testing.B) {
 
 // Goal (issue 5): exact two-sample power at n1 = n2 = 200 under 20 ms.
 func BenchmarkTwoSamplePowerFisher200(b *testing.B) {
+	c0, n := cpuTime(), 0
 	for b.Loop() {
 		if _, err := TwoSamplePower(context.Background(), 200, 200, 0.3, 0.45, TwoSampleOptions{}); err != nil {
 			b.Fatal(err)
 		}
+		n++
 	}
+	b.ReportMetric(float64(cpuTime()-c0)/float64(n), "cpu-ns/op")
 }
 
 func BenchmarkTwoSamplePowerZ200(b *testing.B) {
 	o := TwoSampleOptions{Test: ZPooledTest}
+	c0, n := cpuTime(), 0
 	for b.Loop() {
 		if _, err := TwoSamplePower(context.Background(), 200, 200, 0.3, 0.45, o); err != nil {
 			b.Fatal(err)
 		}
+		n++
 	}
+	b.ReportMetric(float64(cpuTime()-c0)/float64(n), "cpu-ns/op")
 }
 
 func BenchmarkTwoSamplePowerBarnard200(b *testing.B) {
 	o := TwoSampleOptions{Test: BarnardExactTest}
+	c0, n := cpuTime(), 0
 	for b.Loop() {
 		if _, err := TwoSamplePower(context.Background(), 200, 200, 0.3, 0.45, o); err != nil {
 			b.Fatal(err)
 		}
+		n++
 	}
+	b.ReportMetric(float64(cpuTime()-c0)/float64(n), "cpu-ns/op")
 }
 
 func BenchmarkOneSampleNTwoSided(b *testing.B) {

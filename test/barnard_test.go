@@ -60,15 +60,21 @@ func TestBarnardConvexity(t *testing.T) {
 }
 
 func BenchmarkBarnard100(b *testing.B) {
+	c0, n := cpuTime(), 0
 	for b.Loop() {
 		_, _ = Barnard(context.Background(), 40, 100, 55, 100, UnconditionalOptions{})
+		n++
 	}
+	b.ReportMetric(float64(cpuTime()-c0)/float64(n), "cpu-ns/op")
 }
 
 func BenchmarkBarnard500(b *testing.B) {
+	c0, n := cpuTime(), 0
 	for b.Loop() {
 		_, _ = Barnard(context.Background(), 200, 500, 235, 500, UnconditionalOptions{})
+		n++
 	}
+	b.ReportMetric(float64(cpuTime()-c0)/float64(n), "cpu-ns/op")
 }
 
 // TestSupremumDense: the supremum over the nuisance parameter is at least

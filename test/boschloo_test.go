@@ -32,13 +32,19 @@ func TestBoschlooStatistic(t *testing.T) {
 }
 
 func BenchmarkBoschloo100(b *testing.B) {
+	c0, n := cpuTime(), 0
 	for b.Loop() {
 		_, _ = Boschloo(context.Background(), 40, 100, 55, 100, UnconditionalOptions{})
+		n++
 	}
+	b.ReportMetric(float64(cpuTime()-c0)/float64(n), "cpu-ns/op")
 }
 
 func BenchmarkBoschloo500(b *testing.B) {
+	c0, n := cpuTime(), 0
 	for b.Loop() {
 		_, _ = Boschloo(context.Background(), 200, 500, 235, 500, UnconditionalOptions{})
+		n++
 	}
+	b.ReportMetric(float64(cpuTime()-c0)/float64(n), "cpu-ns/op")
 }
