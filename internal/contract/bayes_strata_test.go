@@ -150,6 +150,9 @@ func bayesStrataEntries() []entry {
 		entry{name: "PredictiveAtLeast", call: func(_ context.Context, a args) (any, error) {
 			return power.PredictiveAtLeast(a.C(), a.C(), a.C(), a.C(), a.prior())
 		}},
+		entry{name: "PredictiveSuccess", call: func(_ context.Context, a args) (any, error) {
+			return power.PredictiveSuccess(a.C(), a.C(), a.C(), a.F(), a.F(), a.prior())
+		}},
 		entry{name: "PredictiveDesign.OC", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
 			d := power.PredictiveDesign{Final: a.Small(), P0: a.F(), ThetaT: a.F(), ThetaL: a.F(), ThetaU: a.F(), Prior: a.prior()}
 			if a.B() {
