@@ -26,8 +26,9 @@ type BestArm struct {
 	ProbBest []float64 `json:"prob_best"`
 	// ErrorBound estimates the largest absolute error of ProbBest: the
 	// panel-wise difference of the 40- and 20-point Gauss-Legendre rules
-	// plus the mass outside the integration window (at most 2e-18 per
-	// arm) plus |sum of ProbBest - 1|. It is an estimate, not a proof.
+	// plus the mass of every arm outside the integration window (about
+	// 2e-18 each, more for shapes far below 1) plus |sum of ProbBest - 1|.
+	// It is an estimate, not a proof.
 	ErrorBound float64  `json:"error_bound"`
 	Method     string   `json:"method"` // "quadrature"
 	Warnings   []string `json:"warnings,omitempty"`
@@ -63,7 +64,8 @@ func (r *BestArm) UnmarshalJSON(b []byte) error {
 // four arms of a thousand trials); ctx is checked between panels. Errors:
 // fewer than two or more than MaxArms arms, mismatched lengths, bad counts
 // (naming k[i] or n[i]), bad priors, total shapes over MaxQuadratureShapes
-// per arm times the arms (ErrTooLarge), or a cancelled ctx.
+// per arm times the arms (ErrTooLarge), a posterior shape below
+// MinQuadratureShape, or a cancelled ctx.
 func ProbBest(ctx context.Context, k, n []int64, priors []interval.Prior) (BestArm, error) {
 	const fn = "test.ProbBest"
 	m := len(k)
@@ -90,6 +92,11 @@ func ProbBest(ctx context.Context, k, n []int64, priors []interval.Prior) (BestA
 		pr, a, b, err := p.Update(fn, ki, ni, k[i], n[i])
 		if err != nil {
 			return BestArm{}, err
+		}
+		if err := quadShapes(fn, "priors["+strconv.Itoa(min(i, len(priors)-1))+"]", a, b); err != nil && len(priors) > 0 {
+			return BestArm{}, err
+		} else if err != nil {
+			return BestArm{}, argerr.Invalid(fn, ki, k[i], "gives a posterior shape below 0.1")
 		}
 		r.Priors[i], r.A[i], r.B[i] = pr, a, b
 		total += a + b
@@ -155,6 +162,14 @@ func ProbBest(ctx context.Context, k, n []int64, priors []interval.Prior) (BestA
 		r.ProbBest[i] = math.Min(1, math.Max(0, r.ProbBest[i]))
 		sum += r.ProbBest[i]
 	}
-	r.ErrorBound = float64(len(cuts))*errEst + 2e-18*float64(m) + math.Abs(sum-1)
+	// Mass outside the window [lo, hi] (more than 1e-18 where a quantile
+	// was clamped at the end of the doubles for a shape far below 1).
+	outside := 0.0
+	xl, yl := beta.XY(lo)
+	xh, yh := beta.XY(hi)
+	for i := range k {
+		outside += math.Exp(beta.LogCDF(r.A[i], r.B[i], xl, yl)) + math.Exp(beta.LogUpper(r.A[i], r.B[i], xh, yh))
+	}
+	r.ErrorBound = float64(len(cuts))*errEst + outside + math.Abs(sum-1)
 	return r, nil
 }
