@@ -6,6 +6,8 @@ import (
 
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/enum"
+	"github.com/kofnlab/kofn/internal/root"
+	"github.com/kofnlab/kofn/internal/score"
 	"github.com/kofnlab/kofn/internal/strata"
 )
 
@@ -43,11 +45,19 @@ const (
 	CommonExactConditional
 	// CommonExactConditionalMidP: its mid-p version.
 	CommonExactConditionalMidP
+	// CommonStratifiedScore: for the risk difference only, the
+	// stratified Miettinen-Nurminen score interval: the deltas whose
+	// stratified score statistic (Mantel-Haenszel weights, each stratum's
+	// variance restricted to delta with the factor N/(N-1)) lies within
+	// -+z (Miettinen O, Nurminen M (1985), Statistics in Medicine
+	// 4:213-226, section on stratified analysis; recalled). With one
+	// stratum it is the Miettinen-Nurminen interval of Difference.
+	CommonStratifiedScore
 )
 
 var commonNames = enum.New[CommonMethod]("interval.CommonMethod",
-	[]string{"Mantel-Haenszel", "Mantel-Haenszel Greenland-Robins", "exact conditional", "exact conditional mid-p"},
-	map[string]CommonMethod{"mh": CommonMantelHaenszel, "exact": CommonExactConditional, "mid-p": CommonExactConditionalMidP, "gr": CommonMantelHaenszelGR})
+	[]string{"Mantel-Haenszel", "Mantel-Haenszel Greenland-Robins", "exact conditional", "exact conditional mid-p", "stratified Miettinen-Nurminen"},
+	map[string]CommonMethod{"mh": CommonMantelHaenszel, "exact": CommonExactConditional, "mid-p": CommonExactConditionalMidP, "gr": CommonMantelHaenszelGR, "score": CommonStratifiedScore})
 
 // String returns the published name of the method.
 func (m CommonMethod) String() string { return commonNames.String(m) }
@@ -146,8 +156,8 @@ func CommonOddsRatio(ctx context.Context, ts []Stratum, opt CommonOptions) (Inte
 		iv.Warnings = append(iv.Warnings, argerr.Format(len(ts)-m.Used)+" strata with an empty group carry no information and were left out")
 	}
 	switch opt.Method {
-	case CommonMantelHaenszelGR:
-		return Interval{}, argerr.Invalid(fn, "Method", opt.Method.String(), "is a risk-difference variance; use CommonMantelHaenszel or an exact conditional method")
+	case CommonMantelHaenszelGR, CommonStratifiedScore:
+		return Interval{}, argerr.Invalid(fn, "Method", opt.Method.String(), "is a risk-difference method; use CommonMantelHaenszel or an exact conditional method")
 	case CommonExactConditional, CommonExactConditionalMidP:
 		if ctx == nil {
 			ctx = context.Background()
@@ -249,8 +259,8 @@ func CommonRiskDifference(ts []Stratum, opt CommonOptions) (Interval, error) {
 	if err != nil {
 		return Interval{}, err
 	}
-	if opt.Method != CommonMantelHaenszel && opt.Method != CommonMantelHaenszelGR {
-		return Interval{}, argerr.Invalid(fn, "Method", opt.Method.String(), "does not apply to the risk difference; use CommonMantelHaenszel (Sato) or CommonMantelHaenszelGR")
+	if opt.Method != CommonMantelHaenszel && opt.Method != CommonMantelHaenszelGR && opt.Method != CommonStratifiedScore {
+		return Interval{}, argerr.Invalid(fn, "Method", opt.Method.String(), "does not apply to the risk difference; use CommonMantelHaenszel (Sato), CommonMantelHaenszelGR or CommonStratifiedScore")
 	}
 	name := "Mantel-Haenszel Sato"
 	if opt.Method == CommonMantelHaenszelGR {
@@ -264,6 +274,11 @@ func CommonRiskDifference(ts []Stratum, opt CommonOptions) (Interval, error) {
 		return iv, nil
 	}
 	iv.Estimate = m.RDNum / m.W
+	if opt.Method == CommonStratifiedScore {
+		iv.Method = "stratified Miettinen-Nurminen score"
+		stratifiedScore(ts, lv, &iv)
+		return iv, nil
+	}
 	v := (iv.Estimate*m.SatoP + m.SatoQ) / (m.W * m.W)
 	if opt.Method == CommonMantelHaenszelGR {
 		v = m.GRRD / (m.W * m.W)
@@ -285,4 +300,38 @@ func CommonRiskDifference(ts []Stratum, opt CommonOptions) (Interval, error) {
 		iv.Warnings = append(iv.Warnings, "the estimated variance is 0 (every stratum at 0 or 1 in both groups): the interval has no width")
 	}
 	return iv, nil
+}
+
+// stratifiedScore fills the limits of the stratified Miettinen-Nurminen
+// interval: the roots of Z(delta) = +-z in (-1, 1), found by Brent's
+// method (Z decreases in delta), or the end of the range where Z never
+// reaches the bound.
+func stratifiedScore(ts []Stratum, lv level, iv *Interval) {
+	var x1, n1, x2, n2 []int64
+	for _, t := range ts {
+		x1, n1, x2, n2 = append(x1, t.K1), append(n1, t.N1), append(x2, t.K2), append(n2, t.N2)
+	}
+	z := func(d float64) float64 { return score.StratifiedDiffZ(x1, n1, x2, n2, d, score.MiettinenNurminen) }
+	iv.Lower, iv.Upper = -1, 1
+	est := iv.Estimate
+	if lv.wantLower() {
+		f := func(d float64) float64 { return z(d) - lv.z }
+		if f(-1+1e-15) > 0 && f(est) < 0 {
+			if r, err := root.Brent(f, -1+1e-15, est, 1e-15, 1e-20); err == nil {
+				iv.Lower = r
+			}
+		} else if f(est) >= 0 {
+			iv.Lower = est
+		}
+	}
+	if lv.wantUpper() {
+		f := func(d float64) float64 { return z(d) + lv.z }
+		if f(est) > 0 && f(1-1e-15) < 0 {
+			if r, err := root.Brent(f, est, 1-1e-15, 1e-15, 1e-20); err == nil {
+				iv.Upper = r
+			}
+		} else if f(est) <= 0 {
+			iv.Upper = est
+		}
+	}
 }
