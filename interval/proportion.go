@@ -61,10 +61,10 @@ const (
 // and, above the mean, a positive series, so that a small upper tail is
 // never taken from a continued fraction in the rounded 1 - p.
 //
-// Cost (go test -bench . ./interval/, 2 shared cores, k = 37 of n = 1000):
-// closed forms 100-130 ns; likelihood ratio 1.5 us; Jeffreys 5 us;
-// Clopper-Pearson 5.5 us (2.6 us at k = 5 of 1e9); mid-p 8 us; Blaker about
-// 2 ms at k = 370 (about 90 evaluations of the shared acceptability test).
+// Cost: O(1) for the closed forms; a bounded number of tail evaluations for
+// the root-found limits (Blaker's about 90 evaluations of the shared
+// acceptability test). Measured times are in the README's speed table
+// (go test -run '^$' -bench . ./interval).
 //
 // Errors: k < 0, k > n, n = 0, n > 2^53, Level outside (0, 1) or NaN (or
 // below 0.5 for a one-sided bound, which would lie on the far side of the

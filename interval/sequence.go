@@ -167,7 +167,7 @@ func (m Mixture) limits(k, n, level float64) (float64, float64) {
 // width is flat near its minimum, so r is approximate and the width at n
 // within 1e-9 of the least; at level 0.95 and m = 1/2 it comes out near
 // n / 8.2 (13.1 at n = 100, 122.6 at 1000, 1218.6 at 10000). Results are
-// cached per (level, n, m); the first call costs about 1.5 ms.
+// cached per (level, n, m); only the first call searches.
 //
 // Domain: level in (0, 1), n >= 1, m in (0, 1).
 func TunedConcentration(level float64, n int64, m float64) (float64, error) {
@@ -310,8 +310,8 @@ func sequenceMixture(fn string, level float64, opt SequenceOptions) (Mixture, er
 // so it carries an absolute error of about 1e-16 n ln n (1e-10 at n =
 // 1e5); the limits agree with a 40-digit evaluation to 1e-11 relative up
 // to n = 1e5 (tested), closer at smaller n. Cost O(1) in n: a short scan and
-// a bracketed root search per limit, about 4 us (10 us at n = 1e9); the tuned concentration
-// is computed once per (level, PlannedN, PlannedP), about 2 ms.
+// a bracketed root search per limit; the tuned concentration is computed
+// once per (level, PlannedN, PlannedP) and cached.
 //
 // Sources: Robbins H (1970), Statistical methods related to the law of
 // the iterated logarithm, Annals of Mathematical Statistics
@@ -396,7 +396,7 @@ const MaxSequenceHorizon = 1_000_000
 // set as the limits, up to rounding at exact ties).
 //
 // Accuracy: sums of nonnegative terms, about 1e-13 relative. Cost
-// O(horizon^1.5): horizon 10000 at p = 1/2 takes about 40 ms. horizon
+// O(horizon^1.5) (the README's speed table has the measured time). horizon
 // is limited to MaxSequenceHorizon; ctx is checked every 256 steps.
 //
 // Domain: p in (0, 1), horizon >= 1, level and opt as ConfidenceSequence.

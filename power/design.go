@@ -189,7 +189,7 @@ func DesignPlan(ctx context.Context, aql, rql float64, o DesignOptions) (PlanDes
 		// Decided on the reported probabilities themselves, so a plan never
 		// shows a risk above its limit by a rounding.
 		// ctx is checked at every evaluation too: near MaxPlanN one value of
-		// c costs some 80 tail evaluations of milliseconds' worth in total.
+		// c costs some 80 tail evaluations.
 		var cerr error
 		meetsRQL := func(n int64) bool {
 			if cerr = argerr.Canceled(fn, ctx); cerr != nil {

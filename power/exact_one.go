@@ -128,9 +128,8 @@ func OneSamplePower(n int64, p0, p1 float64, o OneSampleOptions) (ExactPower, er
 // region is carried from n to n + 1 (a one-sided boundary moves by 0 or 1,
 // decided by one p-value; two-sided boundaries by a short certified walk),
 // so the cost is one p-value per n one-sided and two two-sided (plus O(1)
-// tail recurrences): for nMax = 2000 about 1 ms one-sided, 4 ms central,
-// 10 ms point-probability and 200 ms Blaker (whose p-value is the
-// costliest) on an unloaded core. nMax is limited to MaxSearchN; ctx is
+// tail recurrences), Blaker's p-value the costliest. nMax is limited to
+// MaxSearchN; ctx is
 // checked every 256 n. Memory: the curve, 16 bytes per n (160 MB at
 // MaxSearchN).
 func OneSampleCurve(ctx context.Context, p0, p1 float64, nMax int64, o OneSampleOptions) ([]NPower, error) {

@@ -110,8 +110,8 @@ func (cp *condPower) at(ctx context.Context, fn string, n int64, psi float64, bu
 // alpha). For test.McNemarAsymptotic without Enumerate the power is Connor's
 // closed form (PairedNormalPower) and Size is Alpha.
 // AcceptLo/AcceptHi are not used (-1). Cost: a few p-values for each d in
-// the window of D's distribution above 1e-17 of its mode, O(sqrt(n)) (about
-// 0.1 s at n = MaxSearchN); memory O(sqrt(n)) (under 2 MB at MaxSearchN).
+// the window of D's distribution above 1e-17 of its mode, O(sqrt(n));
+// memory O(sqrt(n)) (under 2 MB at MaxSearchN).
 // ctx is checked every 256 values of d; a cancelled call returns the
 // context's error wrapped.
 func PairedPower(ctx context.Context, n int64, p12, p21 float64, o PairedOptions) (ExactPower, error) {

@@ -166,8 +166,8 @@ const spendTol = 1e-12
 //
 // Errors: p0, p1 in (0, 1) with p0 < p1; alpha, beta in (0, 1) with alpha
 // + beta < 1; looks strictly increasing from at least 1, at most 50 looks
-// and a final N at most interval.MaxStageWiseN (ErrTooLarge). Cost O(N_K^2) at worst
-// (about 1 ms at N = 200), ctx checked inside.
+// and a final N at most interval.MaxStageWiseN (ErrTooLarge). Cost O(N_K^2)
+// at worst, ctx checked inside.
 func SequentialOne(ctx context.Context, p0, p1, alpha, beta float64, looks []int64, opt SequentialOptions) (SequentialOneDesign, error) {
 	const fn = "power.SequentialOne"
 	if err := checkSequentialArgs(fn, p0, p1, alpha, beta, opt); err != nil {

@@ -130,8 +130,8 @@ const MaxExactTwoN int64 = 300
 // exceeds MaxExactTwoN the enumeration is skipped with a warning. Errors:
 // p1, p2 in (0, 1) with p1 > p2; alpha in (0, 0.5); beta in (0, 0.5);
 // invalid fractions; a size above stagewise limits (ErrTooLarge). Cost:
-// tens of milliseconds for the bounds plus four enumerations of O(N^3)
-// each (about 0.1 s each at N = 300); ctx checked inside.
+// the bounds (SpendingBounds) plus four enumerations of O(N^3) each; ctx
+// checked inside.
 func SequentialTwo(ctx context.Context, p1, p2, alpha, beta float64, t []float64, opt SequentialOptions) (SequentialTwoDesign, error) {
 	const fn = "power.SequentialTwo"
 	if err := argerr.OpenProb(fn, "p1", p1); err != nil {

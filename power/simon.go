@@ -219,10 +219,9 @@ const simonTol = 1e-12
 // Constraints are checked on tables of binomial probabilities built by
 // the Pascal recurrence with a relative tolerance of 1e-12; the reported
 // Alpha, Power, early-stopping probabilities and expected sizes are then
-// recomputed from binom's densities. Cost, measured on two cores: under
-// a millisecond for the common designs (p1 - p0 = 0.2, n below 50), about
-// 7 ms for p0 = 0.5, p1 = 0.6 (n near 200), 80 ms near n = 300 and 0.2 s
-// near n = 400, growing roughly as n^3; memory 32 MaxN^2 bytes; ctx is
+// recomputed from binom's densities. Cost: growing roughly as n^3 in the
+// final size n (BenchmarkSimon; the figures are in the README's speed
+// table); memory 32 MaxN^2 bytes; ctx is
 // checked for every n. Errors: p0, p1 not in (0, 1) with p0 < p1; alpha, beta not in (0,
 // 1) with alpha + beta < 1; MaxN above MaxSimonN (ErrTooLarge); no design
 // with n <= MaxN (ErrNoSolution). When the bound on n that proves

@@ -211,7 +211,7 @@ func boundsAt(ctx context.Context, t []float64, alpha, beta, eta float64, opt Se
 // sixteenth of an increment's standard deviation apart over 9 standard
 // deviations each side; boundaries within about 1e-6 of the exact values
 // (halving the spacing moves them by less than 1e-7). Cost O(K * 2001^2)
-// at worst (about 30 ms for five equally spaced looks). Errors: t invalid, more
+// at worst. Errors: t invalid, more
 // than MaxLooks looks, alpha outside (0, 0.5), an invalid f.
 func SpendingBounds(ctx context.Context, t []float64, alpha float64, f SpendingFunction) ([]float64, error) {
 	const fn = "power.SpendingBounds"

@@ -10,9 +10,9 @@ import (
 )
 
 // MaxSPRTWork bounds the exact SPRT calculation: the number of steps times
-// the width of the continuation band (the states the recursion keeps). At
-// about 1 ns per state it is a few seconds of work; beyond it
-// SPRTOperating returns ErrTooLarge.
+// the width of the continuation band (the states the recursion keeps),
+// which keeps a call to seconds; beyond it SPRTOperating returns
+// ErrTooLarge.
 const MaxSPRTWork = 4e9
 
 // maxSPRTSteps is the number of observations the recursion follows an
@@ -94,8 +94,8 @@ func (r *SPRTOperatingPoint) UnmarshalJSON(b []byte) error {
 // look by look; a look after every observation is assumed.
 //
 // Accuracy: sums of non-negative terms, relative error about 1e-13 per
-// 10^4 steps. Cost O(steps x band): MaxN = 10000 with p0 = 0.5, p1 = 0.55
-// (band 36) takes about 2.5 ms and p1 = 0.505 (band 364) 8 ms on one core. Work over MaxSPRTWork returns
+// 10^4 steps. Cost O(steps x band) (BenchmarkSPRTOperating: MaxN = 10000
+// at bands 36 and 364). Work over MaxSPRTWork returns
 // ErrTooLarge; ctx is checked every 1024 steps.
 //
 // Domain: s built by test.NewSPRT or test.NewPairedSPRT, p in [0, 1].

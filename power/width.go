@@ -65,8 +65,8 @@ func (r *WidthPlan) UnmarshalJSON(b []byte) error {
 
 // halfWidths evaluates, over the counts k that carry probability (the
 // pmfWindow of Binomial(n, p)), the sum of P(X = k) g(half-width(k)).
-// ctx is checked every 16 intervals (an exact interval at n = 2^40 takes
-// tens of microseconds). Memory: the window, 8 bytes per likely count
+// ctx is checked every 16 intervals (each a bounded number of tail
+// evaluations). Memory: the window, 8 bytes per likely count
 // (about 17 standard deviations' worth: 75 MB at n = MaxWidthN, p = 1/2).
 func halfWidthSum(ctx context.Context, fn string, n int64, p float64, opt interval.Options, g func(float64) float64) (float64, error) {
 	lo, w := pmfWindow(n, p, nil)

@@ -126,8 +126,8 @@ func (a zkey) value(n1, n2 int) float64 {
 // Errors: invalid counts, an unknown alternative, BergerBoos outside
 // {0} and (0, 0.5), n1 + n2 > MaxUnconditionalTotal (ErrTooLarge), a
 // cancelled ctx (wrapping ctx.Err(); checked every 16 margins, every 16
-// grid points and inside the full sums, so a call returns within
-// milliseconds of cancellation at any size up to the limit).
+// grid points and inside the full sums, so a call returns within 10 ms of
+// cancellation at any size up to the limit).
 //
 // Cost: memory O(n1 + n2). Time: for the region, O(n1 + n2) margins, each
 // a few exact comparisons and two hypergeometric tails of

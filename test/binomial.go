@@ -123,8 +123,7 @@ func (o BinomialOptions) spec() (test, ivl string) {
 //
 // Accuracy: exact p-values within 1e-12 relative to max(1, |ln p|) of the
 // log p-value, from the log-space binomial tails; interval ends to 1e-12
-// relative. Cost: O(log n) PMF and tail evaluations for the p-value, about
-// 3 microseconds at n = 1e6.
+// relative. Cost: O(log n) PMF and tail evaluations for the p-value.
 func Binomial(k, n int64, p0 float64, opt BinomialOptions) (Result, error) {
 	const fn = "test.Binomial"
 	if err := argerr.KN(fn, "k", "n", k, n); err != nil {

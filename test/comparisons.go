@@ -69,7 +69,7 @@ func (r *ComparisonsResult) UnmarshalJSON(b []byte) error {
 //
 // Errors: as EqualProportions for the counts; an unknown adjustment;
 // alpha outside (0, 1); MidP with Asymptotic; the context's error.
-// Cost: k (k-1)/2 two-arm tests (microseconds each) and one adjustment.
+// Cost: k (k-1)/2 two-arm tests and one adjustment.
 //
 // Source: Agresti A (2002), Categorical Data Analysis, 2nd ed., section
 // 3.3 (comparing several proportions); Holm S (1979), Scand J Statist

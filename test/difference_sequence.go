@@ -250,8 +250,8 @@ func NewDifferenceSequence(delta0, alpha float64, opt DifferenceSequenceOptions)
 // Look returns the state after a look at the cumulative counts k1 of n1
 // and k2 of n2; prev is the previous look (nil at the first). Counts and
 // failures must not decrease. Cost O(1) in the counts: the product method
-// does four root searches and a 100-step golden-section search, about
-// 20 us (BenchmarkSequentialLook; the normal mixture about 0.2 us).
+// does four root searches and a 100-step golden-section search; the
+// normal mixture a closed form (BenchmarkSequentialLook measures both).
 func (s DifferenceSequence) Look(prev *DifferenceLook, k1, n1, k2, n2 int64) (DifferenceLook, error) {
 	const fn = "test.DifferenceSequence.Look"
 	if !(s.Alpha > 0 && s.Alpha < 1) {

@@ -44,7 +44,7 @@ type FisherOptions struct {
 // Accuracy and cost: the log p-value to about 1e-12 relative to
 // max(1, |ln p|); the tables of equal probability on the other side are
 // located by bisection on the PMF, then two tail evaluations, so the cost
-// is O(log n) plus the tails (microseconds at totals of 1e6).
+// is O(log n) plus the tails.
 //
 // Source: Fisher RA (1935), The Design of Experiments; Agresti A (2002),
 // Categorical Data Analysis, 2nd ed., section 3.5.

@@ -164,7 +164,7 @@ func checkArms(fn string, x, n []int64) (S, N int64, err error) {
 // bisection and summed from precomputed ratio recursions. The cost grows
 // with the number of tables within the observed table's probability
 // contour of the first k - 2 columns: about 1e5-1e6 steps for k = 5 at a
-// total of 10,000 (tens of milliseconds), more for very small p-values.
+// total of 10,000, more for very small p-values (BenchmarkFreemanHalton).
 // Column log-probabilities come from the saddle-point binomial density,
 // so the log p-value is accurate to about 1e-12 relative to
 // max(1, |ln p|).

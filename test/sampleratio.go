@@ -123,7 +123,7 @@ func (r *SampleRatioResult) UnmarshalJSON(b []byte) error {
 //
 // Accuracy: chi-square tails about 1e-13 relative; the exact p-value about
 // 1e-12 relative. Cost: O(k); the exact test with k >= 3 lists every
-// outcome (10 ns each).
+// outcome.
 //
 // Sources: Pearson K (1900), Phil Mag 50:157-175; Read TRC, Cressie NAC
 // (1988), Goodness-of-Fit Statistics for Discrete Multivariate Data,

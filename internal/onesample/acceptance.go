@@ -22,7 +22,7 @@ import (
 // Errors: as LogPValue, and alpha outside (0, 1).
 //
 // Cost: O(log n) p-value evaluations, each O(log n) PMF or tail
-// evaluations: tens of microseconds at n = 2000.
+// evaluations.
 func Acceptance(n int64, alpha float64, t Test) (lo, hi int64, err error) {
 	const fn = "onesample.Acceptance"
 	if err := t.check(fn, n); err != nil {

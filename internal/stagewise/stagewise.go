@@ -43,7 +43,8 @@ import (
 )
 
 // MaxN is the largest final cumulative size accepted: the exact
-// recursion costs O(N_K^2) operations at worst (about 0.2 s at 20000).
+// recursion costs O(N_K^2) operations at worst, which keeps a call to
+// about a second at the limit.
 const MaxN int64 = 20000
 
 // Look is one planned analysis of a multi-stage one-proportion study.
