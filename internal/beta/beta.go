@@ -233,7 +233,9 @@ const tMax = 745.0
 // 1e-8 max(1, |t|), whose quadratic convergence leaves an error near 1e-16
 // (or when the bracket collapses; at most 200 iterations). Accuracy: that of the tail
 // evaluation, about 1e-14 relative in the tail probability, hence about
-// 1e-14 / (d ln F / dt) in t.
+// 1e-14 / (d ln F / dt) in t. A quantile beyond the doubles (x or 1-x below
+// e^-745, as for the e^-700 lower tail of Beta(1/2, 1/2)) comes back
+// clamped near t = -745 or 745.
 func Quantile(a, b, lp float64, upper bool) float64 {
 	f := func(t float64) (h, dh float64) {
 		x, y := XY(t)
