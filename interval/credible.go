@@ -48,7 +48,7 @@ func (p *Posterior) UnmarshalJSON(b []byte) error {
 // n trials under prior (the zero Prior is Jeffreys). n = 0 is allowed (the
 // posterior is the prior). Errors: k < 0, k > n, an invalid prior, or
 // shapes beyond MaxShape (ErrTooLarge). Cost: one quantile solve (the
-// median), about 1-3 us.
+// median), a few incomplete beta evaluations.
 func NewPosterior(k, n int64, prior Prior) (Posterior, error) {
 	const fn = "interval.NewPosterior"
 	r, a, b, err := prior.Update(fn, "k", "n", k, n)
@@ -212,9 +212,9 @@ type CredibleOptions struct {
 // the credible interval keeps its lower limit above 0 at k = 0: it is the
 // posterior's quantile, with no frequentist boundary modification.
 //
-// Cost (CPU time per call at 37 of 1000, BenchmarkCredible*, measured as
-// user time on a loaded two-core machine): equal-tailed 3.7 us, highest
-// density 4.8 us.
+// Cost: equal-tailed, two quantile solves of a few Newton steps each;
+// highest density, four or five Newton steps of two tail evaluations each
+// (BenchmarkCredible*; the README gives the measured figures).
 // Errors: k < 0, k > n, Level outside (0, 1), an unknown Side or Kind, a
 // one-sided HPD request, an invalid prior, and the HPD of a U-shaped
 // posterior (A, B < 1; ErrNoSolution: the region is two pieces).

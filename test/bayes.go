@@ -107,10 +107,10 @@ type CompareOptions struct {
 // (see losses): E[max(p2 - p1, 0)] = (m2 - m1) P(p2 > p1) + H (1/(a1+b1) +
 // 1/(a2+b2)) with H = B(a1+a2, b1+b2)/(B(a1, b1) B(a2, b2)).
 //
-// Cost (BenchmarkCompare*, CPU time per call measured as user time on a
-// loaded two-core machine; one sum, the losses in closed form): 6 us at
-// counts of 1e4, 0.3 ms at 1e7; quadrature a few ms at 1e4, refused beyond
-// MaxQuadratureShapes.
+// Cost: one sum of O(sqrt(n)) terms (the losses are in closed form), a few
+// hundred thousand at counts of 1e7; quadrature about 2000 incomplete beta
+// evaluations, refused beyond MaxQuadratureShapes (BenchmarkCompare*; the
+// README gives the measured figures).
 //
 // Errors: counts as for the other two-sample functions (k <= n, n >= 0),
 // invalid priors, posterior shapes above 1e15, quadrature beyond

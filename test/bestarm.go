@@ -60,8 +60,8 @@ func (r *BestArm) UnmarshalJSON(b []byte) error {
 // BestArm). priors gives one prior for every arm, or one for all, or none
 // (Jeffreys for all). With two arms the value agrees with Compare.
 //
-// Cost: about 8k panels x 60 nodes x 2k tail evaluations (a few ms for
-// four arms of a thousand trials); ctx is checked between panels. Errors:
+// Cost: about 8k panels x 60 nodes x 2k tail evaluations for k arms, so
+// O(k^2) incomplete beta evaluations; ctx is checked between panels. Errors:
 // fewer than two or more than MaxArms arms, mismatched lengths, bad counts
 // (naming k[i] or n[i]), bad priors, total shapes over MaxQuadratureShapes
 // per arm times the arms (ErrTooLarge), a posterior shape below
