@@ -44,7 +44,7 @@ func TestCMHAgainstR(t *testing.T) {
 	t.Parallel()
 	sets, rows := strataGolden(t)
 	ctx := context.Background()
-	alts := map[string]Alternative{"two.sided": TwoSided, "less": Lower, "greater": Higher}
+	alts := map[string]Alternative{"two-sided": TwoSided, "lower": Lower, "higher": Higher}
 	for _, r := range rows {
 		switch r.Str(0) {
 		case "cmh":

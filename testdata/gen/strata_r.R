@@ -5,7 +5,7 @@
 # Mantel-Haenszel estimate with the Robins-Breslow-Greenland interval) and
 # its chi-square test for trend in proportions. Every data set is invented.
 # Run: Rscript testdata/gen/strata_r.R > testdata/strata_r.tsv
-# Output columns: kind, data set, alternative or level, then values.
+# Output columns: kind, data set, alternative (in the project's words) or level, then values.
 sets <- list(
   moderate = rbind(c(12, 30, 6, 28), c(8, 25, 5, 27), c(15, 40, 9, 38)),
   sparse = rbind(c(1, 3, 0, 4), c(2, 4, 1, 3), c(0, 2, 1, 3), c(3, 5, 1, 4), c(1, 2, 0, 2), c(2, 3, 2, 5), c(1, 4, 0, 3), c(2, 2, 1, 4)),
@@ -24,13 +24,14 @@ for (nm in names(sets)) {
   m <- sets[[nm]]
   cat(sprintf("strata\t%s\t%s\n", nm, paste(t(m), collapse = ",")))
   x <- arr(m)
+  words <- c(two.sided = "two-sided", less = "lower", greater = "higher") # the project's words
   for (alt in c("two.sided", "less", "greater")) {
     for (cc in c(FALSE, TRUE)) {
       r <- mantelhaen.test(x, alternative = alt, correct = cc)
-      cat(sprintf("cmh\t%s\t%s\t%s\t%.17g\t%.17g\t%.17g\n", nm, alt, cc, r$statistic, r$p.value, r$estimate))
+      cat(sprintf("cmh\t%s\t%s\t%s\t%.17g\t%.17g\t%.17g\n", nm, words[[alt]], cc, r$statistic, r$p.value, r$estimate))
     }
     r <- mantelhaen.test(x, alternative = alt, exact = TRUE)
-    cat(sprintf("exact\t%s\t%s\t%.17g\t%.17g\t%.17g\t%.17g\n", nm, alt, r$p.value, r$estimate, r$conf.int[1], r$conf.int[2]))
+    cat(sprintf("exact\t%s\t%s\t%.17g\t%.17g\t%.17g\t%.17g\n", nm, words[[alt]], r$p.value, r$estimate, r$conf.int[1], r$conf.int[2]))
   }
   r <- mantelhaen.test(x, correct = FALSE)
   cat(sprintf("mhci\t%s\t0.95\t%.17g\t%.17g\t%.17g\n", nm, r$estimate, r$conf.int[1], r$conf.int[2]))
