@@ -218,8 +218,10 @@ func simonSearch(c *call, p0 float64) error {
 	}
 	row("optimal", res.Optimal, "")
 	row("minimax", res.Minimax, "")
-	for _, d := range res.Admissible[1 : len(res.Admissible)-1] {
-		row("admissible", d, "  q "+formatNum(d.WeightLow, 2)+" to "+formatNum(d.WeightHigh, 2))
+	if len(res.Admissible) > 2 { // the first and last admissible designs are the minimax and optimal ones
+		for _, d := range res.Admissible[1 : len(res.Admissible)-1] {
+			row("admissible", d, "  q "+formatNum(d.WeightLow, 2)+" to "+formatNum(d.WeightHigh, 2))
+		}
 	}
 	b.Row("reading", "R1/N1 R/N", "stop after N1 with at most R1 successes; reject H0 with more than R of N")
 	b.Row("searched", "n up to "+count(res.SearchedN))
