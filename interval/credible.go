@@ -1,6 +1,7 @@
 package interval
 
 import (
+	"errors"
 	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
@@ -246,7 +247,11 @@ func Credible(k, n int64, opt CredibleOptions) (Interval, error) {
 	}
 	lo, hi, flat, err := HPDBeta(a, b, lv.level)
 	if err != nil {
-		return Interval{}, &argerr.Error{Func: fn, Reason: err.(*argerr.Error).Reason, Err: argerr.ErrNoSolution}
+		var e *argerr.Error
+		if errors.As(err, &e) && errors.Is(err, argerr.ErrNoSolution) {
+			return Interval{}, &argerr.Error{Func: fn, Reason: e.Reason, Err: argerr.ErrNoSolution}
+		}
+		return Interval{}, err
 	}
 	if flat {
 		iv.warn("flat posterior Beta(1, 1): every interval of length Level has the highest density; the equal-tailed one is given")
