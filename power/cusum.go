@@ -90,8 +90,12 @@ type CUSUM struct {
 	Threshold int64   `json:"threshold"`
 	H         float64 `json:"h"`
 	// AdjustedP1 is the rate for which Ref/Unit is the exact reference
-	// value.
-	AdjustedP1 float64 `json:"adjusted_p1"`
+	// value; 0, omitted from JSON and explained in Warnings, when no rate
+	// in floating point has that reference value (rates within about
+	// 1e-15 of 0 or 1).
+	AdjustedP1 float64 `json:"adjusted_p1,omitempty"`
+	// Warnings lists things that do not stop the chart.
+	Warnings []string `json:"warnings,omitempty"`
 }
 
 // MarshalJSON encodes the chart with non-finite floats as strings.
@@ -167,6 +171,10 @@ func newChart(fn string, p0, p1 float64, opt CUSUMOptions) (CUSUM, error) {
 		return CUSUM{}, argerr.Invalid(fn, "Unit", c.Unit, "is too small for the reference value "+argerr.Format(c.Gamma)+"; Ref/Unit must lie strictly between 0 and 1")
 	}
 	c.AdjustedP1 = adjustedP1(p0, float64(c.Ref)/float64(c.Unit), opt.Shift)
+	if math.IsNaN(c.AdjustedP1) {
+		c.AdjustedP1 = 0
+		c.Warnings = append(c.Warnings, "no rate has the rounded reference value Ref/Unit exactly in floating point; the chart is the one for P1 as given")
+	}
 	return c, nil
 }
 
@@ -264,7 +272,8 @@ func (c CUSUM) Batch(s, k, m int64) (int64, bool, error) {
 type RunLength struct {
 	P float64 `json:"p"` // the rate
 	// ARL is the average run length, the expected number of items to the
-	// first signal; SDRL its standard deviation.
+	// first signal; SDRL its standard deviation. Both are +Inf when the
+	// chart can never signal at P (the statistic cannot rise).
 	ARL  float64 `json:"arl"`
 	SDRL float64 `json:"sdrl"`
 	// States is the number of transient states of the Markov chain solved.
@@ -331,7 +340,7 @@ func cusumRunLength(ctx context.Context, fn string, c CUSUM, p float64) (RunLeng
 		pu = 1 - p
 	}
 	if pu == 0 {
-		return RunLength{P: p, ARL: math.Inf(1), SDRL: math.NaN(), States: c.Threshold}, nil
+		return RunLength{P: p, ARL: math.Inf(1), SDRL: math.Inf(1), States: c.Threshold}, nil
 	}
 	l, s, err := c.solve(ctx, fn, pu)
 	if err != nil {

@@ -616,9 +616,12 @@ func EvaluateStages(ctx context.Context, looks []Look, p float64) (StagesEval, e
 	if err != nil {
 		return StagesEval{}, argerr.Canceled(fn, ctx)
 	}
-	out := StagesEval{P: p, Reject: d.Reject(), ExpectedN: d.ExpectedN()}
+	// Sums of probabilities can round a hair above 1; a probability is
+	// reported in [0, 1].
+	prob := func(x float64) float64 { return math.Min(1, math.Max(0, x)) }
+	out := StagesEval{P: p, Reject: prob(d.Reject()), ExpectedN: d.ExpectedN()}
 	for k, l := range looks {
-		out.Looks = append(out.Looks, StageEval{Look: l, Reach: d.Reach(k), Futile: d.Low[k], Reject: d.High[k]})
+		out.Looks = append(out.Looks, StageEval{Look: l, Reach: prob(d.Reach(k)), Futile: prob(d.Low[k]), Reject: prob(d.High[k])})
 	}
 	return out, nil
 }
