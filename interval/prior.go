@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/kofnlab/kofn/binom"
+
 	"github.com/kofnlab/kofn/internal/argerr"
 	"github.com/kofnlab/kofn/internal/enum"
 	"github.com/kofnlab/kofn/internal/jsonfloat"
@@ -101,7 +103,7 @@ func (p *Prior) UnmarshalJSON(b []byte) error {
 // Resolve returns the prior with its shapes filled in and checked, for
 // function fn's error messages: PriorJeffreys and PriorUniform take their
 // fixed shapes (A and B must be 0 or equal to them), PriorBeta needs A and B
-// in (0, MaxShape].
+// in [binom.MinShape, MaxShape].
 func (p Prior) Resolve(fn string) (Prior, error) {
 	var a, b float64
 	switch p.Kind {
@@ -110,11 +112,11 @@ func (p Prior) Resolve(fn string) (Prior, error) {
 	case PriorUniform:
 		a, b = 1, 1
 	case PriorBeta:
-		if !(p.A > 0 && p.A <= MaxShape) {
-			return Prior{}, argerr.Invalid(fn, "Prior.A", p.A, "must be positive and at most 1e15")
+		if !(p.A >= binom.MinShape && p.A <= MaxShape) {
+			return Prior{}, argerr.Invalid(fn, "Prior.A", p.A, "must lie in [1e-300, 1e15] (shapes below 1e-300 leave the float range in the posterior's tails)")
 		}
-		if !(p.B > 0 && p.B <= MaxShape) {
-			return Prior{}, argerr.Invalid(fn, "Prior.B", p.B, "must be positive and at most 1e15")
+		if !(p.B >= binom.MinShape && p.B <= MaxShape) {
+			return Prior{}, argerr.Invalid(fn, "Prior.B", p.B, "must lie in [1e-300, 1e15] (shapes below 1e-300 leave the float range in the posterior's tails)")
 		}
 		return p, nil
 	default:
