@@ -273,7 +273,10 @@ func Simon(ctx context.Context, p0, p1, alpha, beta float64, opt SimonOptions) (
 			return SimonResult{}, err
 		}
 		s.grow(n)
-		c, ok := s.bestAt(n, bestEN)
+		c, ok := s.bestAt(ctx, n, bestEN)
+		if err := argerr.Canceled(fn, ctx); err != nil {
+			return SimonResult{}, err
+		}
 		if ok {
 			if len(found) == 0 || c.en < bestEN {
 				found = append(found, c)
@@ -491,12 +494,15 @@ func stageTail(f []float64, sf []float64, r1, r int64) float64 {
 
 // bestAt returns the design of total size n with the smallest expected
 // size under p0 below bound, if any.
-func (s *simonSearch) bestAt(n int64, bound float64) (simonCand, bool) {
+func (s *simonSearch) bestAt(ctx context.Context, n int64, bound float64) (simonCand, bool) {
 	best := simonCand{en: bound}
 	found := false
 	for n1 := int64(1); n1 < n; n1++ {
 		if float64(n1) >= best.en {
 			break
+		}
+		if n1&15 == 0 && ctx != nil && ctx.Err() != nil {
+			return best, false // the caller reports the cancellation
 		}
 		n2 := n - n1
 		f0, f1 := s.pmf0[n1], s.pmf1[n1]
