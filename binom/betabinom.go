@@ -350,13 +350,49 @@ func (d BetaBinom) LogQuantile(lq float64) int64 {
 	}
 	// The walk's running sum and LogCDF round differently; settle the
 	// boundary on LogCDF itself so that LogQuantile(LogCDF(k)) == k.
-	for k > 0 && d.LogCDF(k-1) >= lq {
-		k--
+	return settle(k, d.N, func(j int64) bool { return d.LogCDF(j) >= lq })
+}
+
+// settle returns the smallest j in [0, n] with ok(j), for ok false then
+// true (monotone), starting from a guess k that is usually exact: it
+// gallops away from k in doubling steps until the answer is bracketed,
+// then bisects, so a guess off by m costs O(log m) calls of ok rather
+// than m (each call can be a tail sum over many terms).
+func settle(k, n int64, ok func(int64) bool) int64 {
+	lo, hi := int64(-1), n // ok(lo) false (lo = -1: none), ok(hi) true
+	if ok(k) {
+		hi = k
+		for step := int64(1); hi > 0; step *= 2 {
+			j := max(hi-step, 0)
+			if !ok(j) {
+				lo = j
+				break
+			}
+			hi = j
+			if j == 0 {
+				break
+			}
+		}
+	} else {
+		lo = k
+		for step := int64(1); lo < n; step *= 2 {
+			j := min(lo+step, n)
+			if ok(j) {
+				hi = j
+				break
+			}
+			lo = j
+		}
 	}
-	for k < d.N && d.LogCDF(k) < lq {
-		k++
+	for hi-lo > 1 {
+		mid := lo + (hi-lo)/2
+		if ok(mid) {
+			hi = mid
+		} else {
+			lo = mid
+		}
 	}
-	return k
+	return hi
 }
 
 // UpperQuantile returns the smallest k with P(X > k) <= q; q >= 1 gives 0,
@@ -395,13 +431,7 @@ func (d BetaBinom) LogUpperQuantile(lq float64) int64 {
 		k = d.walkUp(xmath.Log1mExp(lq))
 	}
 	// Settle the boundary on LogSurvival itself (see LogQuantile).
-	for k > 0 && d.LogSurvival(k-1) <= lq {
-		k--
-	}
-	for k < d.N && d.LogSurvival(k) > lq {
-		k++
-	}
-	return k
+	return settle(k, d.N, func(j int64) bool { return d.LogSurvival(j) <= lq })
 }
 
 // walkUp returns the smallest k with ln P(X <= k) >= lq, accumulating the
