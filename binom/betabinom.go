@@ -20,13 +20,13 @@ const MaxBetaBinomN int64 = 1 << 21
 // exactly, and the distribution is a binomial to working precision.
 const MaxShape = 1e15
 
-// MinShape is the smallest Beta shape parameter accepted (1e-300): at the
-// edge of the floating-point range (the smallest normal double, 2.2e-308,
-// and the subnormals below it) the ratios of shapes inside the PMF and the
-// tail sums underflow, which gave log-probabilities above 0, NaN and a
-// quantile search that did not end. A shape that small is a point mass at
-// 0 or N to any precision.
-const MinShape = 1e-300
+// MinShape is the smallest Beta shape parameter accepted (1e-150): below
+// it the product of two shapes inside the PMF falls under the smallest
+// normal double (2.2e-308), and the end terms were lost (P(X = 0) came out
+// 0 instead of about 1/2 for shapes of 1e-160, and the quantiles with it);
+// nearer the edge of the range the ratios underflow altogether. A shape
+// that small is a point mass at 0 or N to any precision.
+const MinShape = 1e-150
 
 // BetaBinom is the beta-binomial distribution: the number of successes X in
 // N trials whose success probability is itself drawn from a Beta(A, B)
@@ -61,10 +61,10 @@ func NewBetaBinom(n int64, a, b float64) (BetaBinom, error) {
 		return BetaBinom{}, argerr.TooLarge(fn, "n", n, "exceeds 2^21, the limit that keeps the tail sums under 10 ms")
 	}
 	if !(a >= MinShape && a <= MaxShape) {
-		return BetaBinom{}, argerr.Invalid(fn, "a", a, "must lie in [1e-300, 1e15]")
+		return BetaBinom{}, argerr.Invalid(fn, "a", a, "must lie in [1e-150, 1e15]")
 	}
 	if !(b >= MinShape && b <= MaxShape) {
-		return BetaBinom{}, argerr.Invalid(fn, "b", b, "must lie in [1e-300, 1e15]")
+		return BetaBinom{}, argerr.Invalid(fn, "b", b, "must lie in [1e-150, 1e15]")
 	}
 	return BetaBinom{N: n, A: a, B: b}, nil
 }

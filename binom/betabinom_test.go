@@ -253,3 +253,28 @@ func FuzzBetaBinom(f *testing.F) {
 		}
 	})
 }
+
+// TestBetaBinomTinyShapes: as both shapes tend to 0 the Beta mixing
+// distribution tends to point masses of 1/2 at 0 and at 1 (derivable by
+// hand: B(a, n+b)/B(a, b) -> b/(a+b)), so P(X = 0) -> 1/2 and the
+// quantiles sit at 0 and N; checked down to MinShape at N = 10 and 2^21.
+func TestBetaBinomTinyShapes(t *testing.T) {
+	t.Parallel()
+	for _, a := range []float64{1e-12, 1e-100, binom.MinShape} {
+		for _, n := range []int64{10, binom.MaxBetaBinomN} {
+			d, err := binom.NewBetaBinom(n, a, a)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if lp := d.LogProb(0); math.Abs(lp+math.Ln2) > 1e-9 {
+				t.Errorf("a = b = %g, n = %d: ln P(X = 0) = %v, want -ln 2", a, n, lp)
+			}
+			if q1, q6 := d.Quantile(0.01), d.Quantile(0.6); q1 != 0 || q6 != n {
+				t.Errorf("a = b = %g, n = %d: quantiles %d, %d, want 0 and %d", a, n, q1, q6, n)
+			}
+		}
+	}
+	if _, err := binom.NewBetaBinom(10, 1e-160, 1); err == nil {
+		t.Error("a shape below MinShape was accepted")
+	}
+}

@@ -113,10 +113,10 @@ func (p Prior) Resolve(fn string) (Prior, error) {
 		a, b = 1, 1
 	case PriorBeta:
 		if !(p.A >= binom.MinShape && p.A <= MaxShape) {
-			return Prior{}, argerr.Invalid(fn, "Prior.A", p.A, "must lie in [1e-300, 1e15] (shapes below 1e-300 leave the float range in the posterior's tails)")
+			return Prior{}, argerr.Invalid(fn, "Prior.A", p.A, "must lie in [1e-150, 1e15] (binom.MinShape: below it the predictive distribution loses its end terms)")
 		}
 		if !(p.B >= binom.MinShape && p.B <= MaxShape) {
-			return Prior{}, argerr.Invalid(fn, "Prior.B", p.B, "must lie in [1e-300, 1e15] (shapes below 1e-300 leave the float range in the posterior's tails)")
+			return Prior{}, argerr.Invalid(fn, "Prior.B", p.B, "must lie in [1e-150, 1e15] (binom.MinShape: below it the predictive distribution loses its end terms)")
 		}
 		return p, nil
 	default:
