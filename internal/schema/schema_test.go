@@ -50,6 +50,11 @@ func examples() []example {
 	}()
 	plan := power.Plan{SampleSize: 89, AcceptNumber: 2}
 	design := must(power.DesignPlan(ctx, 0.01, 0.06, power.DesignOptions{}))
+	sprt := must(test.NewSPRT(0.05, 0.10, 0.05, 0.2, test.SPRTOptions{MaxN: 2000}))
+	ms := must(test.NewMixtureSequence(0.1, 0.05, interval.SequenceOptions{}))
+	ds := must(test.NewDifferenceSequence(0, 0.05, test.DifferenceSequenceOptions{}))
+	chart := must(power.NewCUSUM(0.01, 0.02, 4, power.CUSUMOptions{}))
+	pd := power.PredictiveDesign{Final: 30, Looks: []int64{10, 20}, P0: 0.2, ThetaT: 0.9, ThetaL: 0.05}
 	return []example{
 		{"interval.Interval wilson", must(interval.Proportion(3, 14, interval.Options{}))},
 		{"interval.Interval ratio-infinite", must(interval.Ratio(3, 10, 0, 10, interval.RatioOptions{}))},
@@ -82,6 +87,22 @@ func examples() []example {
 		{"power.StagesEval", must(power.EvaluateStages(ctx, power.TwoStage{R1: 0, N1: 9, R: 2, N: 17}.Looks(), 0.05))},
 		{"power.SequentialOneDesign", must(power.SequentialOne(ctx, 0.2, 0.4, 0.05, 0.2, []int64{15, 30, 45}, power.SequentialOptions{Futility: true}))},
 		{"power.SequentialTwoDesign", must(power.SequentialTwo(ctx, 0.6, 0.3, 0.025, 0.2, []float64{0.5, 1}, power.SequentialOptions{}))},
+		{"interval.Posterior", must(interval.NewPosterior(3, 14, interval.Prior{}))},
+		{"interval.Interval credible", must(interval.Credible(3, 14, interval.CredibleOptions{}))},
+		{"interval.Mixture", must(interval.SequenceMixture(0.95, interval.SequenceOptions{}))},
+		{"test.ArmComparison", must(test.Compare(33, 149, 18, 152, test.CompareOptions{}))},
+		{"test.BestArm", must(test.ProbBest(ctx, []int64{33, 18, 25}, []int64{149, 152, 150}, nil))},
+		{"test.SPRT", sprt},
+		{"test.SPRTLook", must(sprt.Decide(9, 120))},
+		{"test.MixtureSequence", ms},
+		{"test.MixtureLook", must(ms.Look(nil, 9, 120))},
+		{"test.DifferenceSequence", ds},
+		{"test.DifferenceLook", must(ds.Look(nil, 33, 149, 18, 152))},
+		{"power.SPRTOperatingPoint", must(power.SPRTOperating(ctx, sprt, 0.05))},
+		{"power.CUSUM", chart},
+		{"power.RunLength", must(power.CUSUMRunLength(ctx, chart, 0.01))},
+		{"power.Predictive", must(power.PredictiveAtLeast(12, 20, 40, 20, interval.Prior{}))},
+		{"power.PredictiveOC", must(pd.OC(ctx, []float64{0.2, 0.4}))},
 	}
 }
 
