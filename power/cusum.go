@@ -363,7 +363,7 @@ func cusumSize(fn string, c CUSUM, threshold int64) error {
 	t := float64(threshold)
 	if t*float64(up+down+1) > MaxCUSUMWork || t*float64(up)*float64(down) > 200*MaxCUSUMWork {
 		return argerr.TooLarge(fn, "Threshold", threshold, "with jumps of "+argerr.Format(up)+" and "+argerr.Format(down)+
-			" needs a Markov chain of more than 1e7 entries (MaxCUSUMWork); use a coarser reference value (a smaller Unit) or a lower limit")
+			" needs a Markov chain of more than 1e7 entries, the limit of the exact run lengths; use a coarser reference value (a smaller Unit) or a lower limit")
 	}
 	return nil
 }

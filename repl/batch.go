@@ -143,9 +143,14 @@ func runEach(c *call) error {
 	}
 	out := c.S.Out
 	if to != "" {
-		f, err := os.Create(to)
+		// Never through a link, and only as a regular file, as the history.
+		f, err := openRegular(to, os.O_WRONLY|os.O_CREATE|os.O_TRUNC)
 		if err != nil {
-			return inputErr("to="+to, "cannot be written: "+errors.Unwrap(err).Error())
+			reason := err.Error()
+			if u := errors.Unwrap(err); u != nil {
+				reason = u.Error()
+			}
+			return inputErr("to="+to, "cannot be written: "+reason)
 		}
 		defer f.Close()
 		out = f

@@ -181,3 +181,28 @@ func TestEachProgress(t *testing.T) {
 		t.Errorf("progress wrote a new line: %q", p)
 	}
 }
+
+// TestEachOutputNotThroughLink: each to=FILE writes only a regular file,
+// never through a symbolic link (the link's target is left untouched).
+func TestEachOutputNotThroughLink(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "in.csv")
+	target := filepath.Join(dir, "target.txt")
+	link := filepath.Join(dir, "out.csv")
+	if err := os.WriteFile(in, []byte("k,n\n3,10\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(target, []byte("keep\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink(target, link); err != nil {
+		t.Skip("no symbolic links here:", err)
+	}
+	msg, err := runErr("each " + in + " bounds to=" + link)
+	if err == nil || !strings.Contains(msg, "to=") {
+		t.Errorf("writing through a link: %q, %v", msg, err)
+	}
+	if b, _ := os.ReadFile(target); string(b) != "keep\n" {
+		t.Errorf("the link's target was changed to %q", b)
+	}
+}
