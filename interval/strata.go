@@ -45,13 +45,14 @@ const (
 	CommonExactConditional
 	// CommonExactConditionalMidP: its mid-p version.
 	CommonExactConditionalMidP
-	// CommonStratifiedScore: for the risk difference only, the
-	// stratified Miettinen-Nurminen score interval: the deltas whose
+	// CommonStratifiedScore: for the risk difference and the risk ratio,
+	// the stratified Miettinen-Nurminen score interval: the values whose
 	// stratified score statistic (Mantel-Haenszel weights, each stratum's
-	// variance restricted to delta with the factor N/(N-1)) lies within
-	// -+z (Miettinen O, Nurminen M (1985), Statistics in Medicine
+	// variance restricted to the value with the factor N/(N-1)) lies
+	// within -+z (Miettinen O, Nurminen M (1985), Statistics in Medicine
 	// 4:213-226, section on stratified analysis; recalled). With one
-	// stratum it is the Miettinen-Nurminen interval of Difference.
+	// stratum it is the Miettinen-Nurminen interval of Difference or
+	// Ratio.
 	CommonStratifiedScore
 )
 
@@ -217,8 +218,8 @@ func CommonRiskRatio(ts []Stratum, opt CommonOptions) (Interval, error) {
 	if err != nil {
 		return Interval{}, err
 	}
-	if opt.Method != CommonMantelHaenszel {
-		return Interval{}, argerr.Invalid(fn, "Method", opt.Method.String(), "does not apply to the risk ratio; use CommonMantelHaenszel")
+	if opt.Method != CommonMantelHaenszel && opt.Method != CommonStratifiedScore {
+		return Interval{}, argerr.Invalid(fn, "Method", opt.Method.String(), "does not apply to the risk ratio; use CommonMantelHaenszel or CommonStratifiedScore")
 	}
 	iv := Interval{Level: lv.level, Side: lv.side, Method: "Mantel-Haenszel Greenland-Robins", Parameter: "common risk ratio"}
 	m := strata.MH(ts)
@@ -228,6 +229,11 @@ func CommonRiskRatio(ts []Stratum, opt CommonOptions) (Interval, error) {
 		return iv, nil
 	}
 	iv.Estimate = m.RRNum / m.RRDen
+	if opt.Method == CommonStratifiedScore && m.RRNum > 0 && m.RRDen > 0 {
+		iv.Method = "stratified Miettinen-Nurminen score"
+		stratifiedRatioScore(ts, lv, &iv)
+		return iv, nil
+	}
 	se := math.Sqrt(m.RRVar / (m.RRNum * m.RRDen))
 	iv.Lower, iv.Upper = logWald(lv, iv.Estimate, se)
 	if m.RRNum == 0 || m.RRDen == 0 {
@@ -332,6 +338,43 @@ func stratifiedScore(ts []Stratum, lv level, iv *Interval) {
 			}
 		} else if f(est) <= 0 {
 			iv.Upper = est
+		}
+	}
+}
+
+// stratifiedRatioScore fills the limits of the stratified
+// Miettinen-Nurminen interval of a common ratio: the roots of Z(rho) = -+z
+// on ln rho (Z decreases in rho), bracketed by doubling from the estimate;
+// 0 or +Inf where Z never reaches the bound.
+func stratifiedRatioScore(ts []Stratum, lv level, iv *Interval) {
+	var x1, n1, x2, n2 []int64
+	for _, t := range ts {
+		x1, n1, x2, n2 = append(x1, t.K1), append(n1, t.N1), append(x2, t.K2), append(n2, t.N2)
+	}
+	z := func(l float64) float64 { return score.StratifiedRatioZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen) }
+	le := math.Log(iv.Estimate)
+	iv.Lower, iv.Upper = 0, math.Inf(1)
+	find := func(target float64, dir float64) (float64, bool) {
+		f := func(l float64) float64 { return z(l) - target }
+		a, b := le, le+dir
+		for i := 0; i < 60 && f(b)*f(a) > 0; i++ {
+			a, b = b, b+dir*math.Pow(2, float64(i))
+		}
+		if f(a)*f(b) > 0 {
+			return 0, false
+		}
+		lo, hi := math.Min(a, b), math.Max(a, b)
+		r, err := root.Brent(f, lo, hi, 1e-15, 1e-15)
+		return r, err == nil
+	}
+	if lv.wantLower() {
+		if r, ok := find(lv.z, -1); ok {
+			iv.Lower = math.Exp(r)
+		}
+	}
+	if lv.wantUpper() {
+		if r, ok := find(-lv.z, 1); ok {
+			iv.Upper = math.Exp(r)
 		}
 	}
 }

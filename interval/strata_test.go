@@ -125,3 +125,25 @@ func TestStratifiedScore(t *testing.T) {
 		t.Errorf("stratified score width %v far from the Mantel-Haenszel Sato width %v", iv.Width(), mh.Width())
 	}
 }
+
+// TestStratifiedScoreRatio: with one stratum the stratified
+// Miettinen-Nurminen interval of the ratio is Ratio's Miettinen-Nurminen
+// interval; with several strata it contains the Mantel-Haenszel estimate.
+func TestStratifiedScoreRatio(t *testing.T) {
+	t.Parallel()
+	for _, s := range []interval.Stratum{{K1: 56, N1: 70, K2: 48, N2: 80}, {K1: 3, N1: 20, K2: 9, N2: 21}} {
+		got, err := interval.CommonRiskRatio([]interval.Stratum{s}, interval.CommonOptions{Method: interval.CommonStratifiedScore})
+		if err != nil {
+			t.Fatal(err)
+		}
+		mn, _ := interval.Ratio(s.K1, s.N1, s.K2, s.N2, interval.RatioOptions{Method: interval.RatioMiettinenNurminen})
+		if diff := cmp.Diff([]float64{mn.Lower, mn.Upper}, []float64{got.Lower, got.Upper}, cmpopts.EquateApprox(1e-9, 0)); diff != "" {
+			t.Errorf("%+v (-Ratio +stratified):\n%s", s, diff)
+		}
+	}
+	sites := []interval.Stratum{{K1: 12, N1: 30, K2: 6, N2: 28}, {K1: 8, N1: 25, K2: 5, N2: 27}, {K1: 15, N1: 40, K2: 9, N2: 38}}
+	iv, err := interval.CommonRiskRatio(sites, interval.CommonOptions{Method: interval.CommonStratifiedScore})
+	if err != nil || !(iv.Lower < iv.Estimate && iv.Estimate < iv.Upper) {
+		t.Fatalf("%+v, %v", iv, err)
+	}
+}

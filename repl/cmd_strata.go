@@ -13,7 +13,7 @@ import (
 
 var strataMethods = []string{"cmh", "cmh-cc", "exact"}
 
-var strataEffects = []string{"odds", "ratio", "difference", "difference-score"}
+var strataEffects = []string{"odds", "ratio", "ratio-score", "difference", "difference-score"}
 
 func strataCommand() *command {
 	return &command{
@@ -23,7 +23,7 @@ func strataCommand() *command {
 		Usage:   "strata K1/N1:K2/N2 [K1/N1:K2/N2 ...] | strata file=F [by=COLUMN] [method=M] [effect=E] [alt=A] [rule=R] [midp=on] [level=L]",
 		Methods: strataMethods,
 		Options: []opt{optMethod("test", strataMethods),
-			{Name: "effect", Doc: "the common effect shown: odds (odds ratio, default), ratio (risk ratio p1/p2), difference (p1 - p2, Mantel-Haenszel with Sato's variance), difference-score (p1 - p2, stratified Miettinen-Nurminen score interval)", Values: strataEffects},
+			{Name: "effect", Doc: "the common effect shown: odds (odds ratio, default), ratio (risk ratio p1/p2, Mantel-Haenszel with the Greenland-Robins variance), ratio-score (p1/p2, stratified Miettinen-Nurminen score interval), difference (p1 - p2, Mantel-Haenszel with Sato's variance), difference-score (p1 - p2, stratified Miettinen-Nurminen score interval)", Values: strataEffects},
 			{Name: "file", Doc: "a CSV file with one stratum per row in columns k1, n1, k2, n2 (a header row names them)"},
 			{Name: "by", Doc: "with file=: a column whose values group the rows into separate analyses"},
 			optAlt("two-sided (default); higher: group 1's odds are higher in every stratum; lower: lower"),
@@ -220,6 +220,9 @@ func runStrata(c *call) error {
 			common, err = interval.CommonRiskRatio(ts, co)
 		case "difference":
 			common, err = interval.CommonRiskDifference(ts, co)
+		case "ratio-score":
+			co.Method = interval.CommonStratifiedScore
+			common, err = interval.CommonRiskRatio(ts, co)
 		case "difference-score":
 			co.Method = interval.CommonStratifiedScore
 			common, err = interval.CommonRiskDifference(ts, co)
