@@ -351,7 +351,9 @@ func stratifiedRatioScore(ts []Stratum, lv level, iv *Interval) {
 	for _, t := range ts {
 		x1, n1, x2, n2 = append(x1, t.K1), append(n1, t.N1), append(x2, t.K2), append(n2, t.N2)
 	}
-	z := func(l float64) float64 { return score.StratifiedRatioZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen) }
+	z := func(l float64) float64 {
+		return score.StratifiedRatioZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen)
+	}
 	le := math.Log(iv.Estimate)
 	iv.Lower, iv.Upper = 0, math.Inf(1)
 	find := func(target float64, dir float64) (float64, bool) {
