@@ -257,3 +257,21 @@ func BenchmarkConfidenceSequence(b *testing.B) {
 		}
 	})
 }
+
+// BenchmarkTunedConcentration times an uncached tuning at the cases that
+// were slowest (n = 1 and m within 1e-15 of 0), and at n = 1000, m = 0.3.
+func BenchmarkTunedConcentration(b *testing.B) {
+	for _, c := range []struct {
+		name string
+		n, m float64
+	}{{"n=1", 1, 0.5}, {"n=10,m=1e-15", 10, 1e-15}, {"n=1000", 1000, 0.3}} {
+		b.Run(c.name, func(b *testing.B) {
+			for b.Loop() {
+				tuneMu.Lock()
+				clear(tuneCache)
+				tuneMu.Unlock()
+				tunedConcentration(0.95, c.n, c.m)
+			}
+		})
+	}
+}

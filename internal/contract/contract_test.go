@@ -134,7 +134,6 @@ type entry struct {
 var knownOpen = map[string]string{
 	"NewCUSUM":                   "AdjustedP1 is NaN, without a warning, when no rate gives Ref/Unit exactly (the CUSUM result has no Warnings field)",
 	"CUSUMForARL":                "AdjustedP1 NaN as NewCUSUM; SDRL NaN without a warning when the in-control ARL is infinite (p0 = 1e-17)",
-	"TunedConcentration":         "takes 0.5 to 2.8 s without a context at n = 1..3 and small m (its doc says about 1.5 ms)",
 	"BetaBinom.Quantile":         "the quantiles take up to 3 s without a context at N near MaxBetaBinomN (the limit's doc says under 10 ms)",
 	"BetaBinom.LogQuantile":      "as BetaBinom.Quantile",
 	"BetaBinom.UpperQuantile":    "as BetaBinom.Quantile",
