@@ -1,11 +1,13 @@
 package xmath
 
 import (
+	"fmt"
 	"math"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/internal/golden"
 )
 
 func TestLog(t *testing.T) {
@@ -107,5 +109,35 @@ func TestLogSums(t *testing.T) {
 	// Subnormal argument: ln(1 - e^x) ~ ln(-x) = ln 1e-310.
 	if diff := cmp.Diff(-713.8013788281541651, Log1mExp(-1e-310), opt); diff != "" {
 		t.Errorf("Log1mExp(-1e-310) (-want +got):\n%s", diff)
+	}
+}
+
+// TestStirlingErrorGolden: 669 points from 0.01 to 1e12, dense on [0.01,
+// 40] where the method changes (Lgamma, recurrence, series), against
+// 60-digit mpmath values (testdata/gen/stirling_error.py).
+func TestStirlingErrorGolden(t *testing.T) {
+	t.Parallel()
+	worst := 0.0
+	for _, r := range golden.Read(t, "../../testdata/stirling_error.tsv") {
+		x, want := r.Float(0), r.Float(1)
+		got := StirlingError(x)
+		rel := math.Abs(got-want) / want
+		worst = max(worst, rel)
+		if rel > 1e-14 {
+			t.Errorf("%s: StirlingError(%v) = %.17g, want %.17g (relative error %.2g)", r.Pos(), x, got, want, rel)
+		}
+	}
+	t.Logf("worst relative error %.2g", worst)
+}
+
+func BenchmarkStirlingError(b *testing.B) {
+	for _, x := range []float64{0.5, 1.5, 3.25, 9.5, 15.5, 29.5, 1e4} {
+		b.Run(fmt.Sprint(x), func(b *testing.B) {
+			var s float64
+			for b.Loop() {
+				s += StirlingError(x)
+			}
+			_ = s
+		})
 	}
 }
