@@ -145,6 +145,32 @@ func (d BetaBinom) LogProb(k int64) float64 {
 	return l + math.Log(m/xa) + math.Log(a/yb) + math.Log(b/(a+b))
 }
 
+// pmfLog evaluates LogProb for many k of one BetaBinom with the Stirling
+// errors of the shapes (the part of LogBinomReal(A, B, p, q) that does not
+// depend on k) computed once.
+type pmfLog struct {
+	d   BetaBinom
+	cab float64 // beta.LogBinomRealShapes(A, B)
+}
+
+func (d BetaBinom) pmfLog() pmfLog {
+	return pmfLog{d: d, cab: beta.LogBinomRealShapes(d.A, d.B)}
+}
+
+// at returns LogProb(k) for 0 <= k <= N by LogProb's formula.
+func (c pmfLog) at(k int64) float64 {
+	d := c.d
+	if d.N == 0 {
+		return 0
+	}
+	n, a, b, x := float64(d.N), d.A, d.B, float64(k)
+	m := n + a + b
+	xa, yb := x+a, (n-x)+b
+	p, q := xa/m, yb/m
+	l := beta.LogBinomReal(x, n-x, p, q) + beta.LogBinomRealFrom(c.cab, a, b, p, q) - beta.LogBinomReal(xa, yb, p, q)
+	return l + math.Log(m/xa) + math.Log(a/yb) + math.Log(b/(a+b))
+}
+
 // Prob returns P(X = k) = exp(LogProb(k)).
 func (d BetaBinom) Prob(k int64) float64 { return math.Exp(d.LogProb(k)) }
 
@@ -166,13 +192,15 @@ func (d BetaBinom) ratioDown(j int64) float64 {
 func (d BetaBinom) logConcave() bool { return d.A >= 1 && d.B >= 1 }
 
 // block is the number of terms summed by the ratio recurrence between
-// exact re-anchorings on LogProb, which keeps the accumulated rounding of
-// the recurrence below about 1e-14.
-const block = 64
+// exact re-anchorings on LogProb: each ratio carries at most about 3 ulp
+// of rounding, so the last term of a block is within 1e-13 of its exact
+// value in the worst case and typically within a few 1e-15 (the errors
+// are not all of one sign); the goldens pass at 1e-13.
+const block = 128
 
 // logSum returns ln of sum_{j = from, from+dir, ..., to} P(X = j) (dir = +1
 // or -1), with to beyond from in the direction dir; -Inf for an empty range.
-// The terms are summed in blocks of 64 by the ratio recurrence, each block
+// The terms are summed in blocks of 128 by the ratio recurrence, each block
 // anchored on an exact LogProb and added in log space, so neither underflow
 // nor the recurrence's rounding accumulates. For a log-concave PMF the sum
 // stops once the terms decrease and the geometric bound t r/(1 - r) on the
@@ -185,9 +213,13 @@ func (d BetaBinom) logSum(from, to int64, dir int64) float64 {
 	}
 	total := math.Inf(-1)
 	stop := d.logConcave()
+	pl := d.pmfLog()
 	j := from
 	for {
-		anchor := d.LogProb(j)
+		anchor := math.Inf(-1)
+		if j >= 0 && j <= d.N {
+			anchor = pl.at(j)
+		}
 		if math.IsInf(anchor, -1) {
 			return total
 		}
@@ -218,16 +250,18 @@ func (d BetaBinom) logSum(from, to int64, dir int64) float64 {
 		if last {
 			return total
 		}
-		// j is the first term of the next block.
-		if stop && d.nextNegligible(j, dir, total) {
+		// j is the first term of the next block, anchor + ln t its
+		// logarithm by the recurrence (accurate enough for the bound).
+		if stop && d.nextNegligible(j, dir, anchor+math.Log(t), total) {
 			return total
 		}
 	}
 }
 
 // nextNegligible reports whether, from term j on in direction dir, the
-// remaining sum of a log-concave PMF is below 2^-62 of e^total.
-func (d BetaBinom) nextNegligible(j, dir int64, total float64) bool {
+// remaining sum of a log-concave PMF is below 2^-62 of e^total; lj is
+// ln P(X = j).
+func (d BetaBinom) nextNegligible(j, dir int64, lj, total float64) bool {
 	var r float64
 	if dir > 0 {
 		if j >= d.N {
@@ -243,28 +277,54 @@ func (d BetaBinom) nextNegligible(j, dir int64, total float64) bool {
 	if r >= 1 {
 		return false
 	}
-	return d.LogProb(j)-math.Log1p(-r) < total-62*math.Ln2
+	return lj-math.Log1p(-r) < total-62*math.Ln2
 }
 
 // tails returns ln P(X <= k) and ln P(X > k) for 0 <= k < N, the smaller
 // one summed directly and the other as its complement by Log1mExp. The
-// side summed first is the one nearer to k's side of the mean; if it turns
-// out above 1/2 the other is summed.
+// side summed first is the one lowerFirst guesses smaller; if it turns out
+// above 0.6 the other is summed (a complement of a tail up to 0.6 keeps
+// 1.5 times its relative accuracy, so a sum at the median is not repeated
+// on the other side).
 func (d BetaBinom) tails(k int64) (lower, upper float64) {
-	if float64(k) < d.Mean() {
+	if d.lowerFirst(k) {
 		lower = d.logSum(k, 0, -1)
-		if lower <= -math.Ln2 {
+		if lower <= lnComplementOK {
 			return lower, xmath.Log1mExp(lower)
 		}
 		upper = d.logSum(k+1, d.N, 1)
 		return xmath.Log1mExp(math.Min(upper, 0)), upper
 	}
 	upper = d.logSum(k+1, d.N, 1)
-	if upper <= -math.Ln2 {
+	if upper <= lnComplementOK {
 		return xmath.Log1mExp(upper), upper
 	}
 	lower = d.logSum(k, 0, -1)
 	return lower, xmath.Log1mExp(math.Min(lower, 0))
+}
+
+// lnComplementOK is ln 0.6: tails takes the complement of a tail up to 0.6.
+var lnComplementOK = math.Log(0.6)
+
+// sideGuessN is the number of trials from which tails picks the side to
+// sum from the Beta approximation rather than from the mean (for shapes
+// totalling at most 1e4, where the incomplete beta function costs at most
+// about a hundred continued-fraction steps; larger shapes concentrate the
+// distribution, and the mean serves).
+const sideGuessN = 4096
+
+// lowerFirst reports whether tails should sum the lower tail of k first:
+// below sideGuessN (or for A + B > 1e4) when k is below the mean; otherwise when the Beta(A, B)
+// probability below (k + 1/2)/N, the large-N limit of P(X <= k), is below
+// 1/2. The guess only saves work: at the median of a wide distribution
+// (shapes near 1 and N = 2^21, half a million terms on each side) summing
+// the larger side first costs a second sum.
+func (d BetaBinom) lowerFirst(k int64) bool {
+	if d.N < sideGuessN || d.A+d.B > 1e4 {
+		return float64(k) < d.Mean()
+	}
+	x := (float64(k) + 0.5) / float64(d.N)
+	return beta.LogCDF(d.A, d.B, x, 1-x) < -math.Ln2
 }
 
 // LogCDF returns ln P(X <= k): -Inf for k < 0, 0 for k >= N, NaN only for
@@ -311,8 +371,7 @@ func (d BetaBinom) CDF(k int64) float64 { return math.Exp(d.LogCDF(k)) }
 func (d BetaBinom) Survival(k int64) float64 { return math.Exp(d.LogSurvival(k)) }
 
 // Quantile returns the smallest k with P(X <= k) >= q. q <= 0 gives 0,
-// q >= 1 gives N; NaN or an invalid BetaBinom give -1. Cost: a walk of the
-// cumulative sum from the nearer end (at most N terms).
+// q >= 1 gives N; NaN or an invalid BetaBinom give -1. Cost: as LogQuantile.
 func (d BetaBinom) Quantile(q float64) int64 {
 	if !d.valid() || math.IsNaN(q) {
 		return -1
@@ -330,8 +389,13 @@ func (d BetaBinom) Quantile(q float64) int64 {
 // (lq = -Inf gives 0, lq >= 0 gives N; NaN gives -1). It reaches tails far
 // below the smallest double. Below the median (lq <= -ln 2) it walks the
 // cumulative sum up from 0; above, it walks the upper tail down from N
-// until P(X > k) would exceed 1 - e^lq; the boundary is then settled on
-// LogCDF itself, so LogQuantile(LogCDF(k)) == k wherever P(X = k) > 0.
+// until P(X > k) would exceed 1 - e^lq. Where the target lies within
+// 1e-11 of the walk's sums the boundary is then settled on LogCDF itself,
+// so LogQuantile(LogCDF(k)) == k wherever P(X = k) is not lost in rounding
+// against P(X <= k) (see settle for the flat ties of shapes far below 1).
+// Cost: the walk (up to N terms, a few nanoseconds each) and at most
+// settleCalls tail sums, under 10 ms at N = MaxBetaBinomN on the project's
+// machine (BenchmarkBetaBinomWide).
 func (d BetaBinom) LogQuantile(lq float64) int64 {
 	if !d.valid() || math.IsNaN(lq) {
 		return -1
@@ -343,28 +407,67 @@ func (d BetaBinom) LogQuantile(lq float64) int64 {
 		return d.N
 	}
 	var k int64
+	var prev, at float64 // the walk's ln P(X <= k-1), ln P(X <= k)
 	if lq <= -math.Ln2 {
-		k = d.walkUp(lq)
+		k, prev, at = d.walkUp(lq)
 	} else {
-		k = d.walkDown(xmath.Log1mExp(lq))
+		var uAt, uPrev float64
+		k, uAt, uPrev = d.walkDown(xmath.Log1mExp(lq))
+		prev, at = xmath.Log1mExp(math.Min(uPrev, 0)), xmath.Log1mExp(math.Min(uAt, 0))
 	}
-	// The walk's running sum and LogCDF round differently; settle the
-	// boundary on LogCDF itself so that LogQuantile(LogCDF(k)) == k.
+	if walkDecided(lq, prev, at) {
+		return k
+	}
+	// The walk's running sum and LogCDF round differently; near the
+	// boundary settle it on LogCDF itself so that LogQuantile(LogCDF(k)) == k.
 	return settle(k, d.N, func(j int64) bool { return d.LogCDF(j) >= lq })
 }
 
+// walkDecided reports whether a quantile walk's answer k needs no check on
+// the tail functions: its values below and at k (logarithms of the
+// cumulative probability, increasing) straddle the target lq with a margin
+// of 1e-11 max(1, |lq|), a thousand times the stated accuracy of both the
+// walk and LogCDF / LogSurvival, so both place the boundary alike.
+func walkDecided(lq, below, at float64) bool {
+	tol := 1e-11 * math.Max(1, math.Abs(lq))
+	return below < lq-tol && at >= lq+tol
+}
+
+// settleCalls bounds the tail evaluations of settle: each can sum up to N
+// terms (N <= 2^21), so a quantile makes at most this many besides its
+// walk.
+const settleCalls = 6
+
 // settle returns the smallest j in [0, n] with ok(j), for ok false then
-// true (monotone), starting from a guess k that is usually exact: it
-// gallops away from k in doubling steps until the answer is bracketed,
-// then bisects, so a guess off by m costs O(log m) calls of ok rather
-// than m (each call can be a tail sum over many terms).
+// true (monotone), starting from a guess k that is rarely wrong (the walk's
+// answer, which only comes here when the target lies within 1e-11 of the
+// walk's sums): it gallops away from k in doubling steps until the answer
+// is bracketed, then bisects, with at most settleCalls calls of ok. Where
+// the cumulative probability is flat to within rounding over a wide range
+// (shapes far below 1 put almost all mass at 0 and N, and every value in
+// between is a tie at the target), ok is not monotone in floating point
+// and the calls run out: the guess k is returned, as good as any value of
+// the tie.
 func settle(k, n int64, ok func(int64) bool) int64 {
+	calls := 0
+	try := func(j int64) (bool, bool) {
+		if calls == settleCalls {
+			return false, false
+		}
+		calls++
+		return ok(j), true
+	}
 	lo, hi := int64(-1), n // ok(lo) false (lo = -1: none), ok(hi) true
-	if ok(k) {
+	v, _ := try(k)
+	if v {
 		hi = k
 		for step := int64(1); hi > 0; step *= 2 {
 			j := max(hi-step, 0)
-			if !ok(j) {
+			v, more := try(j)
+			if !more {
+				return k
+			}
+			if !v {
 				lo = j
 				break
 			}
@@ -377,7 +480,11 @@ func settle(k, n int64, ok func(int64) bool) int64 {
 		lo = k
 		for step := int64(1); lo < n; step *= 2 {
 			j := min(lo+step, n)
-			if ok(j) {
+			v, more := try(j)
+			if !more {
+				return k
+			}
+			if v {
 				hi = j
 				break
 			}
@@ -386,7 +493,11 @@ func settle(k, n int64, ok func(int64) bool) int64 {
 	}
 	for hi-lo > 1 {
 		mid := lo + (hi-lo)/2
-		if ok(mid) {
+		v, more := try(mid)
+		if !more {
+			return k
+		}
+		if v {
 			hi = mid
 		} else {
 			lo = mid
@@ -424,53 +535,77 @@ func (d BetaBinom) LogUpperQuantile(lq float64) int64 {
 		return d.N
 	}
 	var k int64
+	var uPrev, uAt float64 // the walk's ln P(X > k-1), ln P(X > k)
 	if lq <= -math.Ln2 {
-		k = d.walkDown(lq)
+		k, uAt, uPrev = d.walkDown(lq)
 	} else {
 		// P(X > k) <= q  <=>  P(X <= k) >= 1 - q.
-		k = d.walkUp(xmath.Log1mExp(lq))
+		var prev, at float64
+		k, prev, at = d.walkUp(xmath.Log1mExp(lq))
+		uPrev, uAt = xmath.Log1mExp(math.Min(prev, 0)), xmath.Log1mExp(math.Min(at, 0))
+	}
+	// The upper tail decreases: negate to use the same margin test.
+	if walkDecided(-lq, -uPrev, -uAt) {
+		return k
 	}
 	// Settle the boundary on LogSurvival itself (see LogQuantile).
 	return settle(k, d.N, func(j int64) bool { return d.LogSurvival(j) <= lq })
 }
 
-// walkUp returns the smallest k with ln P(X <= k) >= lq, accumulating the
-// PMF from 0 in log space with exact re-anchoring every 64 terms.
-func (d BetaBinom) walkUp(lq float64) int64 {
-	total := math.Inf(-1)
-	var anchor, t float64
-	for k := int64(0); k <= d.N; k++ {
-		if k%block == 0 {
-			anchor, t = d.LogProb(k), 1
-		} else {
-			t *= d.ratioUp(k - 1)
+// walkUp returns the smallest k with ln P(X <= k) >= lq, with the walk's
+// values of ln P(X <= k-1) (-Inf at k = 0) and ln P(X <= k), accumulating
+// the PMF from 0:
+// blocks of 128 terms by the ratio recurrence in linear scale relative to
+// an exact anchor, each term compared with the target rescaled to that
+// anchor, and the blocks added in log space.
+func (d BetaBinom) walkUp(lq float64) (k int64, prev, at float64) {
+	pl := d.pmfLog()
+	total := math.Inf(-1) // ln P(X <= k-1)
+	for k <= d.N {
+		anchor := pl.at(k)
+		// s (the block's sum so far, relative to the anchor) reaches the
+		// target when s >= e^(lq - anchor) - e^(total - anchor), formed
+		// without cancellation (total < lq here).
+		need := math.Exp(lq-anchor) * -math.Expm1(total-lq)
+		s, t := 0.0, 1.0
+		for i := 0; i < block && k <= d.N; i++ {
+			prev := s
+			s += t
+			if s >= need {
+				return k, xmath.LogAddExp(total, anchor+math.Log(prev)), xmath.LogAddExp(total, anchor+math.Log(s))
+			}
+			if k < d.N {
+				t *= d.ratioUp(k)
+			}
+			k++
 		}
-		total = xmath.LogAddExp(total, anchor+math.Log(t))
-		if total >= lq {
-			return k
-		}
+		total = xmath.LogAddExp(total, anchor+math.Log(s))
 	}
-	return d.N
+	return d.N, total, total
 }
 
-// walkDown returns the smallest k with ln P(X > k) <= lq: it adds P(X = k)
-// for k = N, N-1, ... while the upper tail P(X > k-1) stays at or below e^lq.
-func (d BetaBinom) walkDown(lq float64) int64 {
+// walkDown returns the smallest k with ln P(X > k) <= lq, with the walk's
+// values of ln P(X > k) and ln P(X > k-1): it adds P(X = k) for k = N, N-1, ... while
+// the upper tail P(X > k-1) stays at or below e^lq, in blocks as walkUp.
+func (d BetaBinom) walkDown(lq float64) (k int64, at, prev float64) {
+	pl := d.pmfLog()
 	upper := math.Inf(-1) // ln P(X > k) for the current k
-	var anchor, t float64
-	for k, i := d.N, 0; k > 0; k, i = k-1, i+1 {
-		if i%block == 0 {
-			anchor, t = d.LogProb(k), 1
-		} else {
-			t *= d.ratioDown(k + 1)
+	for k = d.N; k > 0; {
+		anchor := pl.at(k)
+		need := math.Exp(lq-anchor) * -math.Expm1(upper-lq) // as in walkUp
+		s, t := 0.0, 1.0
+		for i := 0; i < block && k > 0; i++ {
+			prev := s
+			s += t
+			if s > need { // P(X > k-1) would exceed e^lq
+				return k, xmath.LogAddExp(upper, anchor+math.Log(prev)), xmath.LogAddExp(upper, anchor+math.Log(s))
+			}
+			t *= d.ratioDown(k)
+			k--
 		}
-		next := xmath.LogAddExp(upper, anchor+math.Log(t)) // ln P(X > k-1)
-		if next > lq {
-			return k
-		}
-		upper = next
+		upper = xmath.LogAddExp(upper, anchor+math.Log(s))
 	}
-	return 0
+	return 0, upper, 0
 }
 
 // Rand returns a beta-binomial variate drawn with r: a success probability

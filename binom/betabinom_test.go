@@ -19,6 +19,8 @@ import (
 // (the binomial's bar; see bbLogErr).
 func TestBetaBinomGolden(t *testing.T) {
 	t.Parallel()
+	worstAll := 0.0
+	defer func() { t.Logf("worst error %.2g", worstAll) }()
 	for _, r := range golden.Read(t, "../testdata/betabinom_golden.tsv") {
 		n, a, b, k := r.Int(0), r.Float(1), r.Float(2), r.Int(3)
 		if testing.Short() && n > 100000 {
@@ -30,7 +32,9 @@ func TestBetaBinomGolden(t *testing.T) {
 		}
 		want := []float64{r.Float(4), r.Float(5), r.Float(6)}
 		got := []float64{d.LogProb(k), d.LogCDF(k), d.LogSurvival(k)}
-		if worst := bbLogErr(want, got); worst > 1e-13 {
+		worst := bbLogErr(want, got)
+		worstAll = max(worstAll, worst)
+		if worst > 1e-13 {
 			t.Errorf("%s: BetaBinom{%d, %g, %g} at k = %d: error %.2g; log PMF, CDF, survival (-want +got):\n%s", r.Pos(), n, a, b, k, worst, cmp.Diff(want, got))
 		}
 	}
@@ -276,5 +280,36 @@ func TestBetaBinomTinyShapes(t *testing.T) {
 	}
 	if _, err := binom.NewBetaBinom(10, 1e-160, 1); err == nil {
 		t.Error("a shape below MinShape was accepted")
+	}
+}
+
+// BenchmarkBetaBinomWide times the widest distributions BetaBinom accepts
+// (N = MaxBetaBinomN with shapes of order 1 or below, where the terms that
+// matter span the whole range and no geometric bound ends a sum early):
+// the CDF at the median and both quantiles in the bulk and near the ends.
+func BenchmarkBetaBinomWide(b *testing.B) {
+	for _, c := range []struct {
+		name string
+		a, b float64
+	}{{"3,5", 3, 5}, {"0.5,0.5", 0.5, 0.5}, {"0.01,0.8", 0.01, 0.8}, {"0.99,0.05", 0.99, 0.05}} {
+		d, _ := binom.NewBetaBinom(binom.MaxBetaBinomN, c.a, c.b)
+		med := d.Quantile(0.5)
+		b.Run("LogCDF/"+c.name, func(b *testing.B) {
+			for b.Loop() {
+				d.LogCDF(med)
+			}
+		})
+		for _, q := range []float64{0.05, 0.5, 0.95} {
+			b.Run(fmt.Sprintf("Quantile/%s/q=%g", c.name, q), func(b *testing.B) {
+				for b.Loop() {
+					d.Quantile(q)
+				}
+			})
+			b.Run(fmt.Sprintf("UpperQuantile/%s/q=%g", c.name, q), func(b *testing.B) {
+				for b.Loop() {
+					d.UpperQuantile(q)
+				}
+			})
+		}
 	}
 }

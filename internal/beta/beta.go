@@ -51,6 +51,26 @@ func LogBinomReal(x, y, p, q float64) float64 {
 	return lc - 0.5*(xmath.Log(x)+xmath.Log(y/m)) - lnSqrt2Pi // xmath.Log: y/m may be subnormal
 }
 
+// LogBinomRealShapes returns the part of LogBinomReal(x, y, p, q) that
+// does not depend on p, for x, y > 0:
+//
+//	se(x+y) - se(x) - se(y) - (1/2) ln(2 pi x y/(x+y)),
+//
+// so that a sum over many p with the same x and y evaluates the Stirling
+// errors once: LogBinomReal(x, y, p, q) = LogBinomRealFrom(c, x, y, p, q)
+// with c = LogBinomRealShapes(x, y), to a few ulp.
+func LogBinomRealShapes(x, y float64) float64 {
+	m := x + y
+	return xmath.StirlingError(m) - xmath.StirlingError(x) - xmath.StirlingError(y) - 0.5*(xmath.Log(x)+xmath.Log(y/m)) - lnSqrt2Pi
+}
+
+// LogBinomRealFrom returns LogBinomReal(x, y, p, q) for x, y > 0 from
+// c = LogBinomRealShapes(x, y): c - D(x, m p) - D(y, m q), m = x + y.
+func LogBinomRealFrom(c, x, y, p, q float64) float64 {
+	m := x + y
+	return c - xmath.Deviance(x, m*p) - xmath.Deviance(y, m*q)
+}
+
 // LogBeta returns ln B(a, b) for a, b > 0 as
 //
 //	ln B(a, b) = ln((a+b)/(a b)) - LogBinomReal(a, a+b, a/(a+b), b/(a+b)) + a ln(a/(a+b)) + b ln(b/(a+b)),

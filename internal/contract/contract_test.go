@@ -132,15 +132,11 @@ type entry struct {
 // elsewhere, with what is wrong: the CI mode reports them in the log, the
 // full mode fails on them. Remove a line when its function is fixed.
 var knownOpen = map[string]string{
-	"NewCUSUM":                   "AdjustedP1 is NaN, without a warning, when no rate gives Ref/Unit exactly (the CUSUM result has no Warnings field)",
-	"CUSUMForARL":                "AdjustedP1 NaN as NewCUSUM; SDRL NaN without a warning when the in-control ARL is infinite (p0 = 1e-17)",
-	"BetaBinom.Quantile":         "the quantiles take up to 3 s without a context at N near MaxBetaBinomN (the limit's doc says under 10 ms)",
-	"BetaBinom.LogQuantile":      "as BetaBinom.Quantile",
-	"BetaBinom.UpperQuantile":    "as BetaBinom.Quantile",
-	"BetaBinom.LogUpperQuantile": "as BetaBinom.Quantile",
-	"Posterior.ProbAbove":        "NaN probability for a posterior with a subnormal prior shape (interval.Prior accepts any positive shape)",
-	"Posterior.ProbBelow":        "as Posterior.ProbAbove",
-	"latency power.Simon":        "checks ctx once per total size n, which near MaxSimonN costs over 100 ms",
+	"NewCUSUM":            "AdjustedP1 is NaN, without a warning, when no rate gives Ref/Unit exactly (the CUSUM result has no Warnings field)",
+	"CUSUMForARL":         "AdjustedP1 NaN as NewCUSUM; SDRL NaN without a warning when the in-control ARL is infinite (p0 = 1e-17)",
+	"Posterior.ProbAbove": "NaN probability for a posterior with a subnormal prior shape (interval.Prior accepts any positive shape)",
+	"Posterior.ProbBelow": "as Posterior.ProbAbove",
+	"latency power.Simon": "checks ctx once per total size n, which near MaxSimonN costs over 100 ms",
 }
 
 // Budgets. A call without a context must finish within slowLimit (the

@@ -143,5 +143,5 @@ func StirlingError(x float64) float64 {
 // eight terms (Bernoulli numbers B_2 to B_16; Abramowitz and Stegun 6.1.40).
 func stirlingSeries(x float64) float64 {
 	x2 := 1 / (x * x)
-	return (1.0/12 - x2*(1.0/360-x2*(1.0/1260-x2*(1.0/1680-x2*(1.0/1188-x2*(691.0/360360-x2*(1.0/156-x2*(3617.0/122400))))))))/x
+	return (1.0/12 - x2*(1.0/360-x2*(1.0/1260-x2*(1.0/1680-x2*(1.0/1188-x2*(691.0/360360-x2*(1.0/156-x2*(3617.0/122400)))))))) / x
 }
