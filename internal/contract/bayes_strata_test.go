@@ -101,6 +101,9 @@ func bayesStrataEntries() []entry {
 		{name: "BreslowDay", call: func(_ context.Context, a args) (any, error) {
 			return test.BreslowDay(a.strata(), test.BreslowDayOptions{NoTarone: a.B()})
 		}, check: testResult},
+		{name: "ZelenExact", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
+			return test.ZelenExact(ctx, a.strata())
+		}, check: testResult},
 		{name: "CochranArmitage", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
 			return test.CochranArmitage(ctx, a.Counts(), a.Counts(), test.TrendOptions{Scores: a.Reals(), Alternative: a.alt(), Exact: a.B(), MidP: a.B()})
 		}, check: testResult},
