@@ -100,7 +100,11 @@ func BenchmarkHyperRand(b *testing.B) {
 }
 
 func BenchmarkHyperEntropy(b *testing.B) {
-	for _, c := range benchHypers {
+	wide := Hyper{1<<34 - 7, 1<<33 + 3, 1<<33 - 5} // sd 32768, MaxHyperStdDev
+	for _, c := range append(benchHypers[:len(benchHypers):len(benchHypers)], struct {
+		name string
+		h    Hyper
+	}{"sd=32768", wide}) {
 		b.Run(c.name, func(b *testing.B) {
 			for b.Loop() {
 				benchSink = c.h.Entropy()

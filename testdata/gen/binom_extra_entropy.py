@@ -246,7 +246,9 @@ def main():
     assert maxdiff < 1e-16, maxdiff
     for N, K, n in [(2, 1, 1), (8, 4, 4), (30, 19, 15), (100, 3, 50), (1000, 300, 200),
                     (100000, 5000, 40000), (1000000, 500000, 500000), (1000000, 10, 999000),
-                    (10**9, 3 * 10**8, 10**6)]:
+                    (10**9, 3 * 10**8, 10**6), (4 * 10**6, 2 * 10**6, 2 * 10**6),
+                    (10**10, 3 * 10**9, 10**8), (10**12, 10**11, 10**9),
+                    (2**34 - 7, 2**33 + 3, 2**33 - 5)]:
         rows.append(f"hyper\t{N}\t{K}\t{n}\t{fmt(hyper_entropy(N, K, n))}")
     with open("testdata/binom_extra_entropy.tsv", "w") as f:
         f.write("# Shannon entropy in nats. Rows: binom n p - H | hyper N K n H.\n")
