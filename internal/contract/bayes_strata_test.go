@@ -87,13 +87,13 @@ func bayesStrataEntries() []entry {
 			return test.Compare(a.C(), a.C(), a.C(), a.C(), test.CompareOptions{Prior1: a.prior(), Prior2: a.prior()})
 		}},
 		{name: "CommonOddsRatio", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
-			return interval.CommonOddsRatio(ctx, a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E())})
+			return interval.CommonOddsRatio(ctx, a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E()), Weights: interval.ScoreWeights(a.E())})
 		}, check: within(0, math.Inf(1))},
 		{name: "CommonRiskRatio", call: func(_ context.Context, a args) (any, error) {
-			return interval.CommonRiskRatio(a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E())})
+			return interval.CommonRiskRatio(a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E()), Weights: interval.ScoreWeights(a.E())})
 		}, check: within(0, math.Inf(1))},
 		{name: "CommonRiskDifference", call: func(_ context.Context, a args) (any, error) {
-			return interval.CommonRiskDifference(a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E())})
+			return interval.CommonRiskDifference(a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E()), Weights: interval.ScoreWeights(a.E())})
 		}, check: within(-1, 1)},
 		{name: "CMH", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
 			return test.CMH(ctx, a.strata(), test.CMHOptions{Alternative: a.alt(), Exact: a.B(), Rule: a.rule(), MidP: a.B(), Correction: a.B(), Level: a.F()})
@@ -167,6 +167,7 @@ func bayesStrataEntries() []entry {
 	e = append(e, jsonEntries[power.Predictive]("Predictive")...)
 	e = append(e, jsonEntries[power.PredictiveOC]("PredictiveOC")...)
 	e = append(e, enumEntries("CommonMethod", "ParseCommonMethod", interval.CommonMethodValues, interval.ParseCommonMethod)...)
+	e = append(e, enumEntries("ScoreWeights", "ParseScoreWeights", interval.ScoreWeightsValues, interval.ParseScoreWeights)...)
 	e = append(e, enumEntries("CredibleKind", "ParseCredibleKind", interval.CredibleKindValues, interval.ParseCredibleKind)...)
 	e = append(e, enumEntries("PriorKind", "ParsePriorKind", interval.PriorKindValues, interval.ParsePriorKind)...)
 	e = append(e, jsonEntries[interval.Posterior]("Posterior")...)

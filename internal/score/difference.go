@@ -105,21 +105,43 @@ func DiffZ(x1, n1, x2, n2 int64, delta float64, v Variance) float64 {
 //
 //	Z(delta) = sum w_i (p1^_i - p2^_i - delta) / sqrt( sum w_i^2 V_i(delta) ),
 //
-// with Mantel-Haenszel weights w_i = n1_i n2_i / (n1_i + n2_i) and V_i the
-// stratum's restricted variance at delta (as DiffZ, factor f per stratum).
-// Strata with an empty group are left out. Z decreases in delta; the
+// V_i the stratum's restricted variance at delta (as DiffZ, factor f per
+// stratum), with the weights w selects: Mantel-Haenszel weights
+// w_i = n1_i n2_i / (n1_i + n2_i), or inverse-variance score weights
+// w_i = 1 / V_i(delta), recomputed at every delta, which make
+//
+//	Z(delta) = sum (p1^_i - p2^_i - delta) / V_i(delta) / sqrt( sum 1 / V_i(delta) ).
+//
+// Strata with an empty group are left out. With Mantel-Haenszel weights Z
+// decreases in delta. With inverse-variance weights a stratum whose
+// restricted variance is 0 at delta (no successes, or only successes, in
+// both groups, at delta = 0) takes an unbounded weight as delta nears 0,
+// and Z tends to 0 there from both sides; Z(0) is then 0, its limit. The
 // conventions of zRatio apply.
-func StratifiedDiffZ(x1, n1, x2, n2 []int64, delta float64, v Variance) float64 {
+func StratifiedDiffZ(x1, n1, x2, n2 []int64, delta float64, v Variance, w Weights) float64 {
 	var num, vr float64
 	for i := range x1 {
 		if n1[i] == 0 || n2[i] == 0 {
 			continue
 		}
 		f1, f2 := float64(n1[i]), float64(n2[i])
-		w := f1 * f2 / (f1 + f2)
 		p1, p2 := DiffMLE(x1[i], n1[i], x2[i], n2[i], delta)
-		num += w * (float64(x1[i])/f1 - float64(x2[i])/f2 - delta)
-		vr += w * w * v.factor(n1[i], n2[i]) * (p1*(1-p1)/f1 + p2*(1-p2)/f2)
+		d := float64(x1[i])/f1 - float64(x2[i])/f2 - delta
+		vi := v.factor(n1[i], n2[i]) * (p1*(1-p1)/f1 + p2*(1-p2)/f2)
+		if w == InverseVarianceWeights {
+			if !(vi > 0) {
+				if d == 0 {
+					return 0
+				}
+				return math.Copysign(math.Inf(1), d)
+			}
+			num += d / vi
+			vr += 1 / vi
+			continue
+		}
+		wi := f1 * f2 / (f1 + f2)
+		num += wi * d
+		vr += wi * wi * vi
 	}
 	return zRatio(num, vr)
 }

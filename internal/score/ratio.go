@@ -45,20 +45,39 @@ func RatioZ(x1, n1, x2, n2 int64, rho float64, v Variance) float64 {
 //
 //	Z(rho) = sum w_i (p1^_i - rho p2^_i) / sqrt( sum w_i^2 V_i(rho) ),
 //
-// with Mantel-Haenszel weights w_i = n1_i n2_i / (n1_i + n2_i) and V_i the
-// stratum's restricted variance at rho (as RatioZ, factor f per stratum).
-// Strata with an empty group are left out. Z decreases in rho.
-func StratifiedRatioZ(x1, n1, x2, n2 []int64, rho float64, v Variance) float64 {
+// V_i the stratum's restricted variance at rho (as RatioZ, factor f per
+// stratum), with Mantel-Haenszel weights w_i = n1_i n2_i / (n1_i + n2_i)
+// or inverse-variance score weights w_i = 1 / V_i(rho), recomputed at
+// every rho. Strata with an empty group, and strata without successes
+// (which carry no information on a ratio: their numerator and variance
+// are 0 at every rho), are left out. With Mantel-Haenszel weights Z
+// decreases in rho. With inverse-variance weights a stratum with only
+// successes in both groups has variance 0 at rho = 1 and an unbounded
+// weight near it, and Z tends to 0 there; Z(1) is then 0, its limit.
+func StratifiedRatioZ(x1, n1, x2, n2 []int64, rho float64, v Variance, w Weights) float64 {
 	var num, vr float64
 	for i := range x1 {
-		if n1[i] == 0 || n2[i] == 0 {
+		if n1[i] == 0 || n2[i] == 0 || x1[i]+x2[i] == 0 {
 			continue
 		}
 		f1, f2 := float64(n1[i]), float64(n2[i])
-		w := f1 * f2 / (f1 + f2)
 		p1, p2 := RatioMLE(x1[i], n1[i], x2[i], n2[i], rho)
-		num += w * (float64(x1[i])/f1 - rho*float64(x2[i])/f2)
-		vr += w * w * v.factor(n1[i], n2[i]) * (p1*(1-p1)/f1 + rho*rho*p2*(1-p2)/f2)
+		d := float64(x1[i])/f1 - rho*float64(x2[i])/f2
+		vi := v.factor(n1[i], n2[i]) * (p1*(1-p1)/f1 + rho*rho*p2*(1-p2)/f2)
+		if w == InverseVarianceWeights {
+			if !(vi > 0) {
+				if d == 0 {
+					return 0
+				}
+				return math.Copysign(math.Inf(1), d)
+			}
+			num += d / vi
+			vr += 1 / vi
+			continue
+		}
+		wi := f1 * f2 / (f1 + f2)
+		num += wi * d
+		vr += wi * wi * vi
 	}
 	return zRatio(num, vr)
 }

@@ -39,6 +39,18 @@ const (
 	FarringtonManning
 )
 
+// Weights selects the stratum weights of the stratified statistics.
+type Weights int
+
+const (
+	// MantelHaenszelWeights: w_i = n1_i n2_i / (n1_i + n2_i), fixed.
+	MantelHaenszelWeights Weights = iota
+	// InverseVarianceWeights: w_i = 1 / V_i at the null value, V_i the
+	// stratum's restricted variance there (the iterative weights of
+	// Miettinen and Nurminen 1985; recalled).
+	InverseVarianceWeights
+)
+
 // factor returns the multiplier of the variance: N/(N-1) or 1.
 func (v Variance) factor(n1, n2 int64) float64 {
 	if v == MiettinenNurminen {

@@ -131,7 +131,7 @@ func BenchmarkDiffZ(b *testing.B) {
 // the weighted differences balance.
 func TestStratifiedDiffZ(t *testing.T) {
 	for _, d := range []float64{-0.5, -0.1, 0, 0.05, 0.3} {
-		one := StratifiedDiffZ([]int64{12}, []int64{30}, []int64{6}, []int64{28}, d, MiettinenNurminen)
+		one := StratifiedDiffZ([]int64{12}, []int64{30}, []int64{6}, []int64{28}, d, MiettinenNurminen, MantelHaenszelWeights)
 		if want := DiffZ(12, 30, 6, 28, d, MiettinenNurminen); math.Abs(one-want) > 1e-12*math.Abs(want) {
 			t.Errorf("delta %v: %v, DiffZ %v", d, one, want)
 		}
@@ -139,7 +139,7 @@ func TestStratifiedDiffZ(t *testing.T) {
 	x1, n1, x2, n2 := []int64{12, 8, 15}, []int64{30, 25, 40}, []int64{6, 5, 9}, []int64{28, 27, 38}
 	prev := math.Inf(1)
 	for d := -0.9; d < 0.9; d += 0.01 {
-		z := StratifiedDiffZ(x1, n1, x2, n2, d, MiettinenNurminen)
+		z := StratifiedDiffZ(x1, n1, x2, n2, d, MiettinenNurminen, MantelHaenszelWeights)
 		if !(z < prev) {
 			t.Fatalf("not decreasing at delta %v: %v after %v", d, z, prev)
 		}
