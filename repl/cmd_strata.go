@@ -1,6 +1,7 @@
 package repl
 
 import (
+	"context"
 	"errors"
 	"io"
 	"os"
@@ -20,10 +21,12 @@ func strataCommand() *command {
 		Name:    "strata",
 		Group:   "tests",
 		Summary: "two groups compared within strata (sites, weeks, devices): Cochran-Mantel-Haenszel, common effect, homogeneity",
-		Usage:   "strata K1/N1:K2/N2 [K1/N1:K2/N2 ...] | strata file=F [by=COLUMN] [method=M] [effect=E] [alt=A] [rule=R] [midp=on] [level=L]",
+		Usage:   "strata K1/N1:K2/N2 [K1/N1:K2/N2 ...] | strata file=F [by=COLUMN] [method=M] [effect=E] [weights=W] [homogeneity=H] [alt=A] [rule=R] [midp=on] [level=L]",
 		Methods: strataMethods,
 		Options: []opt{optMethod("test", strataMethods),
 			{Name: "effect", Doc: "the common effect shown: odds (odds ratio, default), ratio (risk ratio p1/p2, Mantel-Haenszel with the Greenland-Robins variance), ratio-score (p1/p2, stratified Miettinen-Nurminen score interval), difference (p1 - p2, Mantel-Haenszel with Sato's variance), difference-score (p1 - p2, stratified Miettinen-Nurminen score interval)", Values: strataEffects},
+			{Name: "weights", Doc: "the stratum weights of effect=difference-score and effect=ratio-score: mh (default), the Mantel-Haenszel weights n1 n2 / (n1 + n2); ivs, inverse-variance score weights recomputed at every value tried (a stratum with no successes, or only successes, in both groups then keeps no difference inside the interval)", Values: strataWeights},
+			{Name: "homogeneity", Doc: "the test that the strata share one odds ratio: breslow-day (default; with Tarone's correction) or zelen (Zelen's exact test given every stratum's margins; refused with a message when too large, then use breslow-day)", Values: strataHomogeneity},
 			{Name: "file", Doc: "a CSV file with one stratum per row in columns k1, n1, k2, n2 (a header row names them)"},
 			{Name: "by", Doc: "with file=: a column whose values group the rows into separate analyses"},
 			optAlt("two-sided (default); higher: group 1's odds are higher in every stratum; lower: lower"),
@@ -34,24 +37,34 @@ func strataCommand() *command {
 				"effect across the strata with its interval, and the Breslow-Day test (with Tarone's correction) of " +
 				"whether the strata share one odds ratio; a warning says when they do not, since a common effect " +
 				"then summarises strata that differ. With file= the strata are rows of a CSV file; by= runs one " +
-				"analysis per value of a key column. " + cautionSides,
+				"analysis per value of a key column; each FILE strata by=COLUMN writes the same analyses as CSV, " +
+				"one row per key. " + cautionSides,
 			Methods: "cmh (default): the Cochran-Mantel-Haenszel chi-square; cmh-cc: with continuity correction; " +
 				"exact: the exact conditional test (the sum of the strata's first cells given every stratum's " +
 				"margins, by convolution), with rule= and midp=, and the exact conditional interval and estimate of " +
 				"the common odds ratio. Common effects by Mantel-Haenszel: odds ratio with the Robins-Breslow-" +
-				"Greenland variance, risk ratio with the Greenland-Robins variance, risk difference with Sato's.",
+				"Greenland variance, risk ratio with the Greenland-Robins variance, risk difference with Sato's. " +
+				"difference-score and ratio-score: the stratified Miettinen-Nurminen score intervals, with weights=mh " +
+				"(Mantel-Haenszel weights, default) or weights=ivs (inverse-variance score weights recomputed at every " +
+				"value tried, one of the weightings Tang 2020 studies, as recalled). Homogeneity: homogeneity=breslow-day " +
+				"(default) or homogeneity=zelen, Zelen's exact test given every stratum's margins and the total of the " +
+				"first cells, feasible to about a dozen strata of moderate size.",
 			Assumptions: "Independent trials within each stratum; the strata defined before seeing the outcome. The " +
 				"asymptotic test needs a total variance of about 5 or more (common practice); the exact test has no " +
 				"such need.",
 			Examples: []string{"strata 12/30:6/28 8/25:5/27 15/40:9/38", "strata 12/30:6/28 8/25:5/27 15/40:9/38 method=exact",
-				"strata 12/30:6/28 8/25:5/27 15/40:9/38 effect=difference"},
+				"strata 12/30:6/28 8/25:5/27 15/40:9/38 effect=difference",
+				"strata 9/12:4/10 40/150:22/160 3/30:1/25 70/90:55/95 effect=difference-score weights=ivs",
+				"strata 6/10:2/10 5/9:1/8 1/8:6/9 homogeneity=zelen"},
 			Sources: "Cochran WG (1954), Biometrics 10:417-451; Mantel N, Haenszel W (1959), JNCI 22:719-748; Robins J, " +
 				"Breslow N, Greenland S (1986), Biometrics 42:311-323; Greenland S, Robins JM (1985), Biometrics " +
 				"41:55-68; Sato T (1989), Biometrics 45:1323-1324; Breslow NE, Day NE (1980), Statistical Methods in " +
-				"Cancer Research I; Tarone RE (1985), Biometrika 72:91-95.",
+				"Cancer Research I; Tarone RE (1985), Biometrika 72:91-95; Miettinen O, Nurminen M (1985), Statistics in Medicine 4:213-226; " +
+				"Tang Y (2020), Statistics in Medicine 39:3427-3457 (recalled); Zelen M (1971), Biometrika 58:129-137.",
 			Caution: true,
 		},
-		Run: runStrata,
+		Run:     runStrata,
+		Grouped: strataGroups,
 	}
 }
 
@@ -154,6 +167,110 @@ func readStrataFile(path, by string) (keys []string, groups map[string][]interva
 	return keys, groups, nil
 }
 
+// strataSettings are the options of strata, read once and applied to
+// every group of strata.
+type strataSettings struct {
+	cmh         test.CMHOptions
+	effect      string
+	weights     interval.ScoreWeights
+	homogeneity string // "breslow-day" or "zelen"
+	sideText    string
+}
+
+var strataWeights = []string{"mh", "ivs"}
+
+var strataHomogeneity = []string{"breslow-day", "zelen"}
+
+// readStrataSettings reads the options of strata (and of each ... strata).
+func readStrataSettings(c *call) (strataSettings, error) {
+	a := c.Args
+	var st strataSettings
+	m, err := c.Method()
+	if err != nil {
+		return st, err
+	}
+	if st.effect, err = a.Choice("effect", "odds", strataEffects...); err != nil {
+		return st, err
+	}
+	w, err := a.Choice("weights", "mh", strataWeights...)
+	if err != nil {
+		return st, err
+	}
+	if w == "ivs" {
+		if !strings.HasSuffix(st.effect, "-score") {
+			return st, inputErr("weights="+w, "applies to effect=difference-score or effect=ratio-score")
+		}
+		st.weights = interval.WeightsInverseVariance
+	}
+	if st.homogeneity, err = a.Choice("homogeneity", "breslow-day", strataHomogeneity...); err != nil {
+		return st, err
+	}
+	alt, sideText, err := readAlt(a, test.TwoSided)
+	if err != nil {
+		return st, err
+	}
+	rule, midp, err := readExact(a)
+	if err != nil {
+		return st, err
+	}
+	if m != "exact" && (a.Has("rule") || midp) {
+		return st, inputErr("method="+m, "takes no rule= or midp=; those apply to method=exact")
+	}
+	level, err := c.Level()
+	if err != nil {
+		return st, err
+	}
+	st.cmh = test.CMHOptions{Alternative: alt, Exact: m == "exact", Correction: m == "cmh-cc", Rule: rule, MidP: midp, Level: level}
+	st.sideText = sideText
+	return st, nil
+}
+
+// analyse runs the test, the common effect and (with two strata or more)
+// the homogeneity test on one group of strata.
+func (st strataSettings) analyse(ctx context.Context, key string, ts []interval.Stratum) (strataResult, error) {
+	r, err := test.CMH(ctx, ts, st.cmh)
+	if err != nil {
+		return strataResult{}, err
+	}
+	co := interval.CommonOptions{Level: st.cmh.Level}
+	var common interval.Interval
+	switch st.effect {
+	case "ratio":
+		common, err = interval.CommonRiskRatio(ts, co)
+	case "difference":
+		common, err = interval.CommonRiskDifference(ts, co)
+	case "ratio-score":
+		co.Method, co.Weights = interval.CommonStratifiedScore, st.weights
+		common, err = interval.CommonRiskRatio(ts, co)
+	case "difference-score":
+		co.Method, co.Weights = interval.CommonStratifiedScore, st.weights
+		common, err = interval.CommonRiskDifference(ts, co)
+	default:
+		if st.cmh.Exact && r.Interval != nil {
+			common = *r.Interval
+		} else {
+			common, err = interval.CommonOddsRatio(ctx, ts, co)
+		}
+	}
+	if err != nil {
+		return strataResult{}, err
+	}
+	res := strataResult{Group: key, Strata: len(ts), Test: r, Common: common}
+	if len(ts) > 1 {
+		var h test.Result
+		if st.homogeneity == "zelen" {
+			h, err = test.ZelenExact(ctx, ts)
+		} else {
+			h, err = test.BreslowDay(ts, test.BreslowDayOptions{})
+		}
+		if err != nil {
+			return strataResult{}, err
+		}
+		res.Homogeneity = &h
+	}
+	return res, nil
+}
+
 func runStrata(c *call) error {
 	a, s := c.Args, c.S
 	var keys []string
@@ -182,62 +299,19 @@ func runStrata(c *call) error {
 			groups[""] = append(groups[""], st)
 		}
 	}
-	m, err := c.Method()
-	if err != nil {
-		return err
-	}
-	effect, err := a.Choice("effect", "odds", strataEffects...)
-	if err != nil {
-		return err
-	}
-	alt, sideText, err := readAlt(a, test.TwoSided)
-	if err != nil {
-		return err
-	}
-	rule, midp, err := readExact(a)
-	if err != nil {
-		return err
-	}
-	if m != "exact" && (a.Has("rule") || midp) {
-		return inputErr("method="+m, "takes no rule= or midp=; those apply to method=exact")
-	}
-	level, err := c.Level()
+	st, err := readStrataSettings(c)
 	if err != nil {
 		return err
 	}
 	var results []strataResult
 	for _, key := range keys {
 		ts := groups[key]
-		opt := test.CMHOptions{Alternative: alt, Exact: m == "exact", Correction: m == "cmh-cc", Rule: rule, MidP: midp, Level: level}
-		r, err := test.CMH(c.Ctx, ts, opt)
+		res, err := st.analyse(c.Ctx, key, ts)
 		if err != nil {
 			return err
 		}
-		co := interval.CommonOptions{Level: level}
-		var common interval.Interval
-		switch effect {
-		case "ratio":
-			common, err = interval.CommonRiskRatio(ts, co)
-		case "difference":
-			common, err = interval.CommonRiskDifference(ts, co)
-		case "ratio-score":
-			co.Method = interval.CommonStratifiedScore
-			common, err = interval.CommonRiskRatio(ts, co)
-		case "difference-score":
-			co.Method = interval.CommonStratifiedScore
-			common, err = interval.CommonRiskDifference(ts, co)
-		default:
-			if m == "exact" && r.Interval != nil {
-				common = *r.Interval
-			} else {
-				common, err = interval.CommonOddsRatio(c.Ctx, ts, co)
-			}
-		}
-		if err != nil {
-			return err
-		}
-		res := strataResult{Group: key, Strata: len(ts), Test: r, Common: common}
-		title := r.Method + " test of a common odds ratio 1 across " + strconv.Itoa(len(ts)) + " strata, " + sideText
+		r, common := res.Test, res.Common
+		title := r.Method + " test of a common odds ratio 1 across " + strconv.Itoa(len(ts)) + " strata, " + st.sideText
 		if key != "" {
 			title = a.Str("by", "") + " = " + key + ": " + title
 		}
@@ -246,14 +320,14 @@ func runStrata(c *call) error {
 		b.Row("statistic", r.Statistic.Name+" = "+s.stat(r.Statistic.Value))
 		b.Row(common.Parameter, s.num(common.Estimate), common.Method)
 		b.Row(pct(common.Level)+" interval", s.num(common.Lower)+" to "+s.num(common.Upper))
-		if len(ts) > 1 {
-			if h, err := test.BreslowDay(ts, test.BreslowDayOptions{}); err == nil {
-				res.Homogeneity = &h
-				b.Row("homogeneity", "p = "+s.num(h.PValue), h.Method+" test that the strata share one odds ratio")
-			}
+		if h := res.Homogeneity; h != nil {
+			b.Row("homogeneity", "p = "+s.num(h.PValue), h.Method+" test that the strata share one odds ratio")
 		}
 		b.Warn(r.Warnings...)
 		b.Warn(common.Warnings...)
+		if h := res.Homogeneity; h != nil {
+			b.Warn(h.Warnings...)
+		}
 		results = append(results, res)
 	}
 	if len(results) == 1 {

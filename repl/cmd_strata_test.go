@@ -4,6 +4,7 @@ import (
 	"context"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -74,4 +75,65 @@ func relNear(got, want, rel float64) bool {
 		d = -d
 	}
 	return d <= rel*max(want, -want)
+}
+
+// TestStrataWeightsAndHomogeneity: weights= and homogeneity= print the
+// package's numbers (interval.CommonRiskDifference with inverse-variance
+// weights, checked against mpmath in testdata/strata_score.tsv; Zelen's
+// exact test, checked against exact enumeration in
+// testdata/strata_zelen.tsv), and misplaced options are refused by word.
+func TestStrataWeightsAndHomogeneity(t *testing.T) {
+	t.Parallel()
+	clinics := []interval.Stratum{{K1: 9, N1: 12, K2: 4, N2: 10}, {K1: 40, N1: 150, K2: 22, N2: 160}, {K1: 3, N1: 30, K2: 1, N2: 25}, {K1: 70, N1: 90, K2: 55, N2: 95}}
+	obj := runJSON(t, "strata 9/12:4/10 40/150:22/160 3/30:1/25 70/90:55/95 effect=difference-score weights=ivs homogeneity=zelen")
+	iv, _ := interval.CommonRiskDifference(clinics, interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: interval.WeightsInverseVariance})
+	if got := num(t, obj, "common.lower"); got != iv.Lower {
+		t.Errorf("lower limit %v, package %v", got, iv.Lower)
+	}
+	z, _ := test.ZelenExact(context.Background(), clinics)
+	if got := num(t, obj, "homogeneity.p_value"); got != z.PValue {
+		t.Errorf("homogeneity p-value %v, package %v", got, z.PValue)
+	}
+	if msg, err := runErr("strata 12/30:6/28 8/25:5/27 weights=ivs"); err == nil || !strings.Contains(msg, "weights=ivs") {
+		t.Errorf("weights without a score effect: %q, %v", msg, err)
+	}
+	if msg, err := runErr("strata 12/30:6/28 8/25:5/27 homogeneity=exact"); err == nil || !strings.Contains(msg, "homogeneity") {
+		t.Errorf("unknown homogeneity: %q, %v", msg, err)
+	}
+}
+
+// TestEachStrataGroups: each FILE strata by=COLUMN writes one row per key
+// with the numbers strata prints for that key's rows, in order of first
+// appearance; without by= it says what is missing.
+func TestEachStrataGroups(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	path := filepath.Join(dir, "weeks.csv")
+	// invented: two weeks of a trial at two sites
+	data := "week,site,k1,n1,k2,n2\n2,a,15,40,9,38\n1,a,12,30,6,28\n2,b,20,30,5,30\n1,b,8,25,5,27\n"
+	if err := os.WriteFile(path, []byte(data), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	s, out, _ := testSession()
+	if err := s.Run(context.Background(), "each "+path+" strata by=week homogeneity=zelen"); err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(out.String()), "\n")
+	if len(lines) != 3 || !strings.HasPrefix(lines[1], "2,2,") || !strings.HasPrefix(lines[2], "1,2,") {
+		t.Fatalf("rows:\n%s", out.String())
+	}
+	for i, ts := range [][]interval.Stratum{{{K1: 15, N1: 40, K2: 9, N2: 38}, {K1: 20, N1: 30, K2: 5, N2: 30}}, {{K1: 12, N1: 30, K2: 6, N2: 28}, {K1: 8, N1: 25, K2: 5, N2: 27}}} {
+		r, _ := test.CMH(context.Background(), ts, test.CMHOptions{})
+		z, _ := test.ZelenExact(context.Background(), ts)
+		f := strings.Split(lines[i+1], ",")
+		if f[2] != strconv.FormatFloat(r.PValue, 'g', -1, 64) || f[7] != strconv.FormatFloat(z.PValue, 'g', -1, 64) {
+			t.Errorf("row %d: %v, want p %v and homogeneity %v", i+1, f, r.PValue, z.PValue)
+		}
+	}
+	if msg, err := runErr("each " + path + " strata"); err == nil || !strings.Contains(msg, "by=") {
+		t.Errorf("no by=: %q, %v", msg, err)
+	}
+	if msg, err := runErr("each " + path + " strata by=week file=" + path); err == nil || !strings.Contains(msg, "file=") {
+		t.Errorf("file= inside each: %q, %v", msg, err)
+	}
 }

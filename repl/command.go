@@ -17,6 +17,9 @@ type command struct {
 	// Row, when set, lets the batch command apply the verb to one CSV row
 	// (see batch.go).
 	Row *rowSpec
+	// Grouped, when set, lets each run the verb on groups of rows, one
+	// stratum a row (see batch_strata.go).
+	Grouped *groupSpec
 	// raw passes every word after the verb to Run as positional, for
 	// commands that hand options on to another verb (each).
 	raw bool

@@ -26,7 +26,7 @@ func TestHelpPages(t *testing.T) {
 				t.Errorf("%s: example %q is not a %s command", name, ex, name)
 			}
 			s, _, errw := testSession()
-			s.In = strings.NewReader("n11,n12,n21,n22,k,n,k1,n1,k2,n2\n1,1,7,12,17,40,17,40,9,38\n")
+			s.In = strings.NewReader("n11,n12,n21,n22,k,n,k1,n1,k2,n2,site\n1,1,7,12,17,40,17,40,9,38,a\n")
 			if err := s.Run(context.Background(), ex); err != nil {
 				t.Errorf("help %s example %q fails: %v %s", name, ex, err, errw.String())
 			}

@@ -93,7 +93,7 @@ func (t *table) get(name string) *command { return t.byName[name] }
 func (t *table) rowVerbs() []string {
 	var out []string
 	for _, n := range t.names {
-		if t.byName[n].Row != nil {
+		if t.byName[n].Row != nil || t.byName[n].Grouped != nil {
 			out = append(out, n)
 		}
 	}

@@ -45,6 +45,9 @@ var commandWords = map[string]map[string]string{
 	"watch": {"p0": "p0", "p1": "p1", "theta1": "theta", "MaxN": "max", "PlannedN": "planned", "PlannedP": "guess",
 		"delta0": "delta", "beta": "beta", "Tau2": "tau2"},
 	"alarm": {"p0": "p0", "p1": "p1", "h": "h", "arl0": "arl0", "Unit": "unit", "Shift": "shift", "Threshold": "the limit"},
+	"strata": {"BreslowDay": "homogeneity=breslow-day (the Breslow-Day-Tarone test)", "MaxZelenCells": "the exact test's table limit",
+		"MaxZelenWork": "the exact test's work limit", "MaxScoreStrata": "the score method's limit",
+		"CommonMantelHaenszel": "effect=difference or effect=ratio (Mantel-Haenszel)"},
 }
 
 // shellWord returns the shell's word for the Go name name in verb.
