@@ -64,11 +64,22 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 		oalt = onesample.Lower
 	}
 	ga, gb := int64(0), int64(-1)
+	// Decisions come from the tracker where they are certain and from the
+	// test package's p-value otherwise (see hyperTrack); the tracker works
+	// in linear space, so an alpha below 1e-250 takes every decision from
+	// the test package.
+	fast := alpha >= 1e-250
+	tr := &hyperTrack{floor: alpha}
 	for s := sp.s0; s <= sp.s1; s++ {
 		if s&15 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return nil, err
 			}
+		}
+		if s == sp.s0 {
+			tr.at(n1, n2, s)
+		} else {
+			tr.next()
 		}
 		h := binom.Hyper{Total: N, Successes: n1, Draws: s}
 		lo, hi := h.Support()
@@ -78,14 +89,24 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 			continue
 		}
 		ok := func(x int64) bool {
+			if fast {
+				if accept, certain := tr.decide(x, alpha, alt); certain {
+					return accept
+				}
+				tr.fallbacks++
+			}
 			return onesample.LogPValueOf(h, lo, hi, x, onesample.PointProbability, false, oalt) >= la
+		}
+		logProb := h.LogProb
+		if fast {
+			logProb = tr.logProb
 		}
 		// As s grows by one both ends move up by about n1/N: start from the
 		// previous interval, certified by two decisions when the test is
 		// two-sided (see certifyInterval), walked otherwise.
 		a, b, done := int64(0), int64(-1), false
 		if alt == test.TwoSided {
-			a, b, done = certifyInterval(ok, h.LogProb, lo, hi, min(max(ga, lo), hi), min(max(gb, lo), hi))
+			a, b, done = certifyInterval(ok, logProb, lo, hi, min(max(ga, lo), hi), min(max(gb, lo), hi))
 		}
 		if !done {
 			peak := h.Mode() // where the two-sided p-value is largest

@@ -1,0 +1,161 @@
+package power
+
+import (
+	"context"
+	"fmt"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+	"github.com/kofnlab/kofn/test"
+)
+
+// The rejection regions built for the exact two-sample power and size
+// against the oracle of exact_two_oracle_test.go (the code before the
+// incremental decisions), table by table: every accepted interval of every
+// margin (Fisher) or row (z test, Barnard) must be the same. The oracle's
+// decisions are the test package's own p-values (test.Fisher's conditional
+// p-value, test.TwoSample, test.Barnard), so this is a check against the
+// test package, the independent implementation of each test.
+func TestRegionsMatchOracle(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	type tc struct {
+		n1, n2 int64
+		alpha  float64
+		alt    test.Alternative
+		tst    ExactTest
+		pts    [][2]float64
+	}
+	var cases []tc
+	alts := []test.Alternative{test.TwoSided, test.Higher, test.Lower}
+	for _, tst := range []ExactTest{FisherExactTest, ZPooledTest} {
+		for _, n := range [][2]int64{{1, 1}, {1, 7}, {2, 3}, {5, 5}, {7, 3}, {12, 12}, {20, 31}, {40, 40}, {33, 66}, {80, 41}, {150, 150}} {
+			for _, alpha := range []float64{0.2, 0.05, 0.01, 0.001} {
+				for _, alt := range alts {
+					cases = append(cases, tc{n[0], n[1], alpha, alt, tst, nil})
+				}
+			}
+		}
+		// Moderate sizes, built only on the span the power needs.
+		for _, n := range [][2]int64{{400, 400}, {600, 900}, {1500, 1500}, {2500, 1250}} {
+			for _, pp := range [][2]float64{{0.1, 0.12}, {0.45, 0.5}, {0.02, 0.05}} {
+				for _, alt := range alts {
+					pbar := (float64(n[0])*pp[0] + float64(n[1])*pp[1]) / float64(n[0]+n[1])
+					cases = append(cases, tc{n[0], n[1], 0.05, alt, tst, [][2]float64{pp, {pbar, pbar}}})
+				}
+			}
+		}
+	}
+	if testing.Short() {
+		cases = cases[:len(cases)/4]
+	}
+	for _, c := range cases {
+		o := TwoSampleOptions{Test: c.tst, Alternative: c.alt}
+		name := fmt.Sprintf("%v %dx%d alpha=%v %v pts=%v", c.tst, c.n1, c.n2, c.alpha, c.alt, c.pts)
+		want, err := oracleBuildRegion(ctx, "t", c.n1, c.n2, c.alpha, o, c.pts)
+		if err != nil {
+			t.Fatalf("%s: oracle: %v", name, err)
+		}
+		got, err := buildRegion(ctx, "t", c.n1, c.n2, c.alpha, o, c.pts)
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if diff := cmp.Diff(want.a, got.a); diff != "" {
+			t.Errorf("%s: lower ends (-want +got):\n%s", name, diff)
+		}
+		if diff := cmp.Diff(want.b, got.b); diff != "" {
+			t.Errorf("%s: upper ends (-want +got):\n%s", name, diff)
+		}
+		pts := c.pts
+		if pts == nil {
+			pts = [][2]float64{{0.3, 0.6}, {0.5, 0.5}}
+		}
+		for _, p := range pts {
+			if diff := cmp.Diff(oracleProb(want, p[0], p[1]), got.prob(p[0], p[1]), cmpopts.EquateApprox(0, 1e-14)); diff != "" {
+				t.Errorf("%s: probability at %v (-want +got):\n%s", name, p, diff)
+			}
+		}
+	}
+}
+
+// oracleSizeCase is one exact two-sample sample-size search compared
+// with the oracle.
+type oracleSizeCase struct {
+	p1, p2 float64
+	o      TwoSampleOptions
+}
+
+// oracleSizeCases returns the grid of searches compared with the oracle:
+// every test, alternative, allocation ratio, alpha and power over effects
+// whose sizes run from a handful to some hundreds per group (Barnard's,
+// whose oracle costs some 30 test.Barnard calls per group size, up to
+// about a hundred), and the margin hypotheses.
+func oracleSizeCases(short bool) []oracleSizeCase {
+	var cs []oracleSizeCase
+	// (lower, higher) proportion pairs; the search runs at both orders for
+	// the two-sided test, at (lower, higher) for test.Lower (p1 < p2) and
+	// at (higher, lower) for test.Higher.
+	pairs := map[ExactTest][][2]float64{
+		FisherExactTest:  {{0.3, 0.55}, {0.1, 0.3}, {0.05, 0.2}, {0.4, 0.55}, {0.01, 0.12}, {0.8, 0.95}},
+		ZPooledTest:      {{0.3, 0.55}, {0.1, 0.3}, {0.05, 0.2}, {0.4, 0.55}, {0.01, 0.12}, {0.8, 0.95}},
+		BarnardExactTest: {{0.2, 0.6}, {0.3, 0.7}, {0.05, 0.4}},
+	}
+	ratios := []float64{1, 0.5, 2, 1.37}
+	i := 0
+	for _, tst := range []ExactTest{FisherExactTest, ZPooledTest, BarnardExactTest} {
+		for _, pp := range pairs[tst] {
+			for _, alt := range []test.Alternative{test.TwoSided, test.Higher, test.Lower} {
+				for _, ratio := range ratios {
+					for _, ap := range [][2]float64{{0.05, 0.8}, {0.01, 0.9}, {0.1, 0.8}} {
+						i++
+						if short && i%5 != 0 {
+							continue
+						}
+						if tst == BarnardExactTest && i%3 != 0 {
+							continue // a third of Barnard's grid: its oracle is slow
+						}
+						p1, p2 := pp[0], pp[1]
+						if alt == test.Higher || (alt == test.TwoSided && i%2 == 0) {
+							p1, p2 = p2, p1
+						}
+						o := TwoSampleOptions{Test: tst, Alternative: alt, Ratio: ratio, Alpha: ap[0], Power: ap[1], MaxN: 2000}
+						cs = append(cs, oracleSizeCase{p1, p2, o})
+					}
+				}
+			}
+		}
+	}
+	// Searches that fail (MaxN too small) or end at MaxN, and the margins.
+	cs = append(cs,
+		oracleSizeCase{0.1, 0.3, TwoSampleOptions{MaxN: 40}},
+		oracleSizeCase{0.1, 0.3, TwoSampleOptions{MaxN: 70}},
+		oracleSizeCase{0.1, 0.3, TwoSampleOptions{Test: ZPooledTest, MaxN: 70}},
+		oracleSizeCase{0.3, 0.3, TwoSampleOptions{Hypothesis: NonInferiority, Margin: 0.15}},
+		oracleSizeCase{0.3, 0.3, TwoSampleOptions{Hypothesis: Equivalence, Margin: 0.2}},
+	)
+	return cs
+}
+
+// Every search of the grid against the oracle: the same sizes, curve,
+// powers and size. The regions are the same (TestRegionsMatchOracle); the
+// powers are summed in another order (by row from running tail sums, not
+// table by table), so they agree to rounding, 1e-12 relative.
+func TestTwoSampleNMatchesOracle(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	cases := oracleSizeCases(testing.Short())
+	for _, c := range cases {
+		name := fmt.Sprintf("p1=%v p2=%v %+v", c.p1, c.p2, c.o)
+		want, werr := oracleTwoSampleN(ctx, c.p1, c.p2, c.o)
+		got, gerr := TwoSampleN(ctx, c.p1, c.p2, c.o)
+		if (werr == nil) != (gerr == nil) || (werr != nil && werr.Error() != gerr.Error()) {
+			t.Errorf("%s: error %v, want %v", name, gerr, werr)
+			continue
+		}
+		if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-12, 0)); diff != "" {
+			t.Errorf("%s (-want +got):\n%s", name, diff)
+		}
+	}
+	t.Logf("%d searches compared", len(cases))
+}
