@@ -165,15 +165,21 @@ func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt te
 // prob returns the probability of the rejection region when X1 ~
 // Binomial(n1, p1) and X2 ~ Binomial(n2, p2), independent, summed over the
 // tables inside both PMF windows (see pmfWindow; the mass left out is
-// below 1e-14): O(sqrt(n1) + sqrt(n2)) for a region held by row, O(w1 w2)
-// for one held by margin, w the window widths (about 18 standard
-// deviations each).
+// below 1e-14): O(sqrt(n1) + sqrt(n2)), each row of X1's window costing
+// O(1) from running sums of X2's window. A region held by margin whose
+// accepted interval [a[s], b[s]] has ends that never fall as s grows (as
+// Fisher's do) rejects a prefix and a suffix of every row; one that breaks
+// this is summed table by table, O(w1 w2) for window widths w (about 18
+// standard deviations each).
 func (r *twoRegion) prob(p1, p2 float64) float64 {
 	l1, b1 := pmfWindow(r.n1, p1, nil)
 	l2, b2 := pmfWindow(r.n2, p2, nil)
 	h1, h2 := l1+int64(len(b1))-1, l2+int64(len(b2))-1
 	sum := 0.0
 	if r.bySum {
+		if v, ok := r.probByRow(l1, b1, l2, b2); ok {
+			return v
+		}
 		for x1 := l1; x1 <= h1; x1++ {
 			if (x1-l1)%256 == 0 && r.canceled() {
 				return 0
@@ -417,6 +423,57 @@ func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactS
 		res.Size = sizes[res.Stable]
 	}
 	return res, nil
+}
+
+// probByRow is prob for a region held by margin whose ends a[s] and b[s]
+// never fall as s runs over the margins of the windows (ok false when they
+// do). Then row x1 rejects x2 below c_b(x1) = min{s : b[s] >= x1} - x1
+// (x1 > b[s] on a prefix of the margins) and from c_a(x1) = min{s : a[s] >
+// x1} - x1 on (x1 < a[s] on a suffix), and both cuts never fall as x1
+// grows. The row's rejected mass is a prefix sum plus a suffix sum of X2's
+// window, each summed from its own end (positive terms only).
+func (r *twoRegion) probByRow(l1 int64, b1 []float64, l2 int64, b2 []float64) (float64, bool) {
+	h1, h2 := l1+int64(len(b1))-1, l2+int64(len(b2))-1
+	s0, s1 := l1+l2, h1+h2
+	for s := s0 + 1; s <= s1; s++ {
+		if r.a[s] < r.a[s-1] || r.b[s] < r.b[s-1] {
+			return 0, false
+		}
+	}
+	w := len(b2)
+	// pre[k] = sum of b2[0:k]; suf[k] = sum of b2[k:w].
+	pre := make([]float64, 2*(w+1))
+	suf := pre[w+1:]
+	for k, v := range b2 {
+		pre[k+1] = pre[k] + v
+	}
+	for k := w - 1; k >= 0; k-- {
+		suf[k] = suf[k+1] + b2[k]
+	}
+	sb, sa := s0, s0 // running min{s : b[s] >= x1} and min{s : a[s] > x1}
+	sum := 0.0
+	for x1 := l1; x1 <= h1; x1++ {
+		if (x1-l1)%256 == 0 && r.canceled() {
+			return 0, true
+		}
+		for sb <= s1 && r.b[sb] < x1 {
+			sb++
+		}
+		for sa <= s1 && r.a[sa] <= x1 {
+			sa++
+		}
+		// Rejected: x2 in [l2, sb-x1-1] and x2 in [sa-x1, h2], as window offsets.
+		cb := min(max(sb-x1-l2, 0), int64(w))
+		ca := min(max(sa-x1-l2, 0), int64(w))
+		var row float64
+		if cb >= ca {
+			row = pre[w] // the two parts meet: the whole row
+		} else {
+			row = pre[cb] + suf[ca]
+		}
+		sum += b1[x1-l1] * row
+	}
+	return min(max(sum, 0), 1), true
 }
 
 // rejects reports whether the table (x1, x2) lies in the rejection region.
