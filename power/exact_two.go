@@ -127,7 +127,8 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 // zRegion builds the rejection region of the pooled z test at alpha, row
 // by row: for fixed x1 the pooled z decreases in x2, so the accepted x2
 // form an interval, decided by test.TwoSample (z pooled) and seeded by the
-// previous row.
+// previous row. A table whose z lies clear of the normal critical value
+// is decided by z alone (see zCut), without the call.
 func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative, sp span) (*twoRegion, error) {
 	r := &twoRegion{n1: n1, n2: n2, a: make([]int64, n1+1), b: make([]int64, n1+1)}
 	for x1 := range r.b { // accept all outside the span
@@ -135,6 +136,7 @@ func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt te
 	}
 	la := xmath.Log(alpha)
 	opt := test.TwoSampleOptions{Method: test.ZPooled, Alternative: alt}
+	zc := newZCut(alpha, alt)
 	ga, gb := int64(0), n2
 	for x1 := sp.r0; x1 <= sp.r1; x1++ {
 		if x1&63 == 0 {
@@ -143,6 +145,9 @@ func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt te
 			}
 		}
 		ok := func(x2 int64) bool {
+			if accept, certain := zc.decide(pooledZ(x1, n1, x2, n2)); certain {
+				return accept
+			}
 			res, err := test.TwoSample(x1, n1, x2, n2, opt)
 			return err != nil || res.LogPValue >= la
 		}
@@ -160,6 +165,53 @@ func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt te
 		ga, gb = a, b
 	}
 	return r, nil
+}
+
+// zCut decides the pooled z test at alpha from the value of z: the test
+// package's p-value is a normal tail of z (Phi(-z) for test.Higher, Phi(z)
+// for test.Lower, 2 Phi(-|z|) two-sided), monotone in z, so the test
+// accepts below the critical value c = z_(1-alpha) (test.Higher), above
+// -c (test.Lower), or for |z| <= z_(1-alpha/2). A z within zCutGap
+// (relative) of the critical value is left to the test package: the gap
+// is some million times the error of the normal quantile and of the test
+// package's normal tails, so a decision taken here is the one the test
+// package takes. pooledZ computes z with the test package's formula.
+type zCut struct {
+	alt test.Alternative
+	c   float64 // the critical value of z (or of |z|), NaN when unusable
+}
+
+const zCutGap = 1e-8
+
+func newZCut(alpha float64, alt test.Alternative) zCut {
+	c := -zq(alpha)
+	if alt == test.TwoSided {
+		c = -zq(alpha / 2)
+	}
+	if math.IsInf(c, 0) {
+		c = math.NaN()
+	}
+	return zCut{alt: alt, c: c}
+}
+
+// decide returns the decision on a table whose pooled z is z (accept: the
+// p-value is at least alpha) and whether it is certain.
+func (zc zCut) decide(z float64) (accept, certain bool) {
+	d := zc.c - z // accept when positive (test.Higher)
+	switch zc.alt {
+	case test.Lower:
+		d = z + zc.c
+	case test.TwoSided:
+		d = zc.c - math.Abs(z)
+	}
+	g := zCutGap * math.Max(1, math.Abs(zc.c))
+	switch {
+	case d > g:
+		return true, true
+	case d < -g:
+		return false, true
+	}
+	return false, false // within the gap, or c is NaN
 }
 
 // prob returns the probability of the rejection region when X1 ~
