@@ -402,7 +402,7 @@ func (t *hyperTrack) decide(x int64, alpha float64, alt test.Alternative) (accep
 		}
 		// b + 1: the smallest j in mode..hi at or below the limit (hi + 1
 		// if none).
-		b1 := t.hi + 1
+		var b1 int64
 		if x >= t.mode {
 			// From x on every outcome is at most as likely as x; search
 			// down from x-1.
