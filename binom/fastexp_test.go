@@ -14,7 +14,7 @@ import (
 func TestFastExp(t *testing.T) {
 	t.Parallel()
 	r := rand.New(rand.NewPCG(13, 1))
-	xs := []float64{0, -0.0, 1e-300, -1e-300, 1e-17, -1e-17, math.Ln2 / 128, -math.Ln2 / 128,
+	xs := []float64{0, math.Copysign(0, -1), 1e-300, -1e-300, 1e-17, -1e-17, math.Ln2 / 128, -math.Ln2 / 128,
 		math.Ln2, -math.Ln2, 1, -1, -699.999, 699.999, -700, 700, -745, 709.7, -800, 800,
 		math.Inf(1), math.Inf(-1), math.NaN()}
 	for range 200000 {

@@ -474,8 +474,9 @@ func (d Dist) guess(z float64) int64 {
 // gives the smallest k with P(X <= k) = 1 exactly (N for 0 < P < 1, 0 for
 // P = 0); q > 1 or NaN gives -1 (no such k), as does an invalid Dist.
 // Cost: a start from the Cornish-Fisher expansion refined on the uniform
-// expansion's leading terms (within one of the answer almost everywhere),
-// one tail evaluation there and steps by PMF ratios to the answer, with a
+// expansion's leading terms (within one of the answer almost everywhere;
+// for N <= 1024 and a tail below e^-8, integer Newton steps on the
+// tabulated log PMF instead, see farStart), one tail evaluation there and steps by PMF ratios to the answer, with a
 // second evaluation where a stepped value is too close to the target to
 // decide (see locate); a start more than 24 steps off goes on by secant
 // steps on the log tail, at most about 2 log2(N) + 10 evaluations.
@@ -491,6 +492,9 @@ func (d Dist) Quantile(q float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{plain: true, q: q, lq: lqUnset}
+	if k, ok := d.farFromProb(min(q, 1-q), q <= 0.5, q > 0.5); ok {
+		return d.locate(&t, k)
+	}
 	return d.locate(&t, d.guess(zFromProb(q, d.zNeed())))
 }
 
@@ -509,6 +513,9 @@ func (d Dist) LogQuantile(lq float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{lq: lq, q: math.Exp(lq)}
+	if k, ok := d.farFromLog(lq, true); ok {
+		return d.locate(&t, k)
+	}
 	return d.locate(&t, d.guess(zFromLogNeed(lq, d.zNeed())))
 }
 
@@ -530,6 +537,9 @@ func (d Dist) UpperQuantile(q float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{upper: true, plain: true, q: q, lq: lqUnset}
+	if k, ok := d.farFromProb(min(q, 1-q), q > 0.5, q > 0.5); ok {
+		return d.locate(&t, k)
+	}
 	return d.locate(&t, d.guess(-zFromProb(q, d.zNeed())))
 }
 
@@ -548,6 +558,9 @@ func (d Dist) LogUpperQuantile(lq float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{upper: true, lq: lq, q: math.Exp(lq)}
+	if k, ok := d.farFromLog(lq, false); ok {
+		return d.locate(&t, k)
+	}
 	return d.locate(&t, d.guess(-zFromLogNeed(lq, d.zNeed())))
 }
 
