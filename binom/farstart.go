@@ -13,6 +13,8 @@ import (
 const (
 	farMinLog  = -8
 	farMinProb = 3.3546262790251185e-4 // e^-8
+
+	farMinLogComp = -0.000335518908076820173938 // ln(1 - e^-8)
 )
 
 // farMaxRatio is the largest PMF ratio r_k toward the far end at the
@@ -164,6 +166,8 @@ var lnFactTab = func() (t [smallN + 1]float64) {
 // A u that is the complement 1 - q of a plain target q > 1/2 carries q's
 // rounding, up to 2^-53 absolute: that much relative to u (at most 1/2)
 // widens the steps' tolerance.
+//
+//go:noinline
 func (d Dist) farFromProb(u float64, lower, complement bool) (int64, bool) {
 	if d.N > smallN || !(u <= farMinProb) {
 		return 0, false
@@ -178,12 +182,18 @@ func (d Dist) farFromProb(u float64, lower, complement bool) (int64, bool) {
 // farFromLog is farStart for a log target lq <= 0 of the lower tail (if
 // lowerTarget) or the upper one: the target itself where lq <= ln(1/2),
 // else its complement 1 - e^lq, on the other tail.
+// The complement is taken only where it can be at most farMinProb, for
+// lq >= farMinLogComp. Kept out of line (as farFromProb), so that the
+// quantiles' other paths stay as short as they were; they call it only
+// for a target beyond the thresholds.
+//
+//go:noinline
 func (d Dist) farFromLog(lq float64, lowerTarget bool) (int64, bool) {
-	if d.N > smallN {
-		return 0, false
-	}
-	if lq <= -math.Ln2 {
+	switch {
+	case lq <= -math.Ln2:
 		return d.farStart(lq, lowerTarget, 0)
+	case lq < farMinLogComp:
+		return 0, false
 	}
 	return d.farFromProb(-math.Expm1(lq), !lowerTarget, false)
 }

@@ -492,8 +492,10 @@ func (d Dist) Quantile(q float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{plain: true, q: q, lq: lqUnset}
-	if k, ok := d.farFromProb(min(q, 1-q), q <= 0.5, q > 0.5); ok {
-		return d.locate(&t, k)
+	if d.N <= smallN && (q <= farMinProb || q >= 1-farMinProb) {
+		if k, ok := d.farFromProb(min(q, 1-q), q <= 0.5, q > 0.5); ok {
+			return d.locate(&t, k)
+		}
 	}
 	return d.locate(&t, d.guess(zFromProb(q, d.zNeed())))
 }
@@ -513,8 +515,10 @@ func (d Dist) LogQuantile(lq float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{lq: lq, q: math.Exp(lq)}
-	if k, ok := d.farFromLog(lq, true); ok {
-		return d.locate(&t, k)
+	if d.N <= smallN && (lq <= farMinLog || lq >= farMinLogComp) {
+		if k, ok := d.farFromLog(lq, true); ok {
+			return d.locate(&t, k)
+		}
 	}
 	return d.locate(&t, d.guess(zFromLogNeed(lq, d.zNeed())))
 }
@@ -537,8 +541,10 @@ func (d Dist) UpperQuantile(q float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{upper: true, plain: true, q: q, lq: lqUnset}
-	if k, ok := d.farFromProb(min(q, 1-q), q > 0.5, q > 0.5); ok {
-		return d.locate(&t, k)
+	if d.N <= smallN && (q <= farMinProb || q >= 1-farMinProb) {
+		if k, ok := d.farFromProb(min(q, 1-q), q > 0.5, q > 0.5); ok {
+			return d.locate(&t, k)
+		}
 	}
 	return d.locate(&t, d.guess(-zFromProb(q, d.zNeed())))
 }
@@ -558,8 +564,10 @@ func (d Dist) LogUpperQuantile(lq float64) int64 {
 		return d.N
 	}
 	t := quantileTarget{upper: true, lq: lq, q: math.Exp(lq)}
-	if k, ok := d.farFromLog(lq, false); ok {
-		return d.locate(&t, k)
+	if d.N <= smallN && (lq <= farMinLog || lq >= farMinLogComp) {
+		if k, ok := d.farFromLog(lq, false); ok {
+			return d.locate(&t, k)
+		}
 	}
 	return d.locate(&t, d.guess(-zFromLogNeed(lq, d.zNeed())))
 }
