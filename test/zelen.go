@@ -23,7 +23,7 @@ const MaxZelenCells = 3_000_000
 // convolution steps that build its tables (counted before starting, about
 // a second at the limit) and the nodes of its search (counted as it runs;
 // about two seconds), each answered by ErrTooLarge. The context is
-// checked every 65536 convolution steps and every 1024 nodes, so a
+// checked every 4096 convolution steps and every 1024 nodes, so a
 // cancelled call returns within a few milliseconds.
 const MaxZelenWork = 50_000_000
 
@@ -212,7 +212,7 @@ func (z *zelen) prepare() error {
 		}
 		for x, v := range a {
 			for u, w := range b {
-				if z.work++; z.work&0xffff == 0 {
+				if z.work++; z.work&0xfff == 0 {
 					if err := argerr.Canceled(z.fn, z.ctx); err != nil {
 						return err
 					}
@@ -224,18 +224,22 @@ func (z *zelen) prepare() error {
 		}
 		z.mass[i], z.hi[i], z.low[i] = ms, hs, ls
 	}
-	z.preparePair()
-	return nil
+	return z.preparePair()
 }
 
 // preparePair builds the cumulative tables of the last two strata.
-func (z *zelen) preparePair() {
+func (z *zelen) preparePair() error {
 	k := len(z.lh)
 	a, b := z.lh[k-2], z.lh[k-1]
 	n := len(a) + len(b) - 1
 	z.pairLo, z.pairHi, z.pairMode, z.pairOff = make([]int, n), make([]int, n), make([]int, n), make([]int, n)
 	z.pairCum = make([]float64, 0, len(a)*len(b))
 	for u := range n {
+		if u&63 == 63 {
+			if err := argerr.Canceled(z.fn, z.ctx); err != nil {
+				return err
+			}
+		}
 		lo, hi := max(0, u-len(b)+1), min(len(a)-1, u)
 		mode := lo
 		for x := lo + 1; x <= hi; x++ {
@@ -256,6 +260,7 @@ func (z *zelen) preparePair() {
 			z.pairCum[z.pairOff[u]+x-lo] = acc
 		}
 	}
+	return nil
 }
 
 // pair adds the configurations of the last two strata with sum u whose

@@ -130,6 +130,20 @@ func cancelCases() []cancelCase {
 		{"power.AssuranceN", "p = 0.5, half-width 1e-6, Blaker, MaxN = MaxWidthN = 2^40", func(ctx context.Context) error {
 			return err(power.AssuranceN(ctx, 0.5, 1e-6, power.WidthOptions{Interval: blaker, MaxN: power.MaxWidthN}))
 		}, nil},
+		{"test.ZelenExact", "search: 18 strata of 60 near the mode (MaxZelenWork nodes)", func(ctx context.Context) error {
+			ts := make([]interval.Stratum, 18)
+			for i := range ts {
+				ts[i] = interval.Stratum{K1: int64(10 + i%5), N1: 30, K2: int64(10 + i%3), N2: 30}
+			}
+			return err(test.ZelenExact(ctx, ts))
+		}, nil},
+		{"test.ZelenExact tables", "30 strata of 600, 4e7 convolution steps (near MaxZelenWork)", func(ctx context.Context) error {
+			ts := make([]interval.Stratum, 30)
+			for i := range ts {
+				ts[i] = interval.Stratum{K1: int64(150 + i%7), N1: 300, K2: int64(150 - i%5), N2: 300}
+			}
+			return err(test.ZelenExact(ctx, ts))
+		}, nil},
 	}
 }
 
