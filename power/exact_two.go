@@ -22,18 +22,94 @@ const DefaultMaxN2 int64 = 1000
 const MaxTwoSampleTotal = test.MaxUnconditionalTotal
 
 // twoRegion is the rejection region of a two-sample test with groups n1,
-// n2, stored per margin s = x1 + x2 as the accepted x1 interval [a[s],
-// b[s]] (Fisher) or per row x1 as the accepted x2 interval (z test).
+// n2, stored per margin s = x1 + x2 as the accepted x1 interval [a[i],
+// b[i]], i = s - off (Fisher), or per row x1 = off + i as the accepted x2
+// interval (z test). Margins or rows outside the stored ones reject
+// nothing (see ends).
 type twoRegion struct {
 	n1, n2 int64
 	bySum  bool
 	inner  bool // rows store the rejected x2 interval instead of the accepted one
+	off    int64
 	a, b   []int64
+	// win, when set, keeps the PMF windows prob needs (see winCache).
+	win *winCache
 	// ctx, set by buildRegion, is checked every 256 rows of prob; err
 	// holds its error once it is done (prob then returns 0 at once).
 	ctx context.Context
 	fn  string
 	err error
+}
+
+// ends returns the stored interval of margin or row i, or the one that
+// rejects nothing outside the stored ones.
+func (r *twoRegion) ends(i int64) (a, b int64) {
+	if j := i - r.off; j >= 0 && j < int64(len(r.a)) {
+		return r.a[j], r.b[j]
+	}
+	switch {
+	case r.bySum:
+		return 0, r.n1 + r.n2
+	case r.inner:
+		return 1, 0
+	}
+	return 0, r.n2
+}
+
+// twoScratch is the memory a sample-size search reuses from one group
+// size to the next: the region's ends, the window cache and the tracker.
+type twoScratch struct {
+	a, b []int64
+	win  winCache
+	tr   hyperTrack
+}
+
+// ends returns r's ends arrays for m margins or rows, from sc when it is
+// not nil.
+func (sc *twoScratch) ends(m int64) (a, b []int64) {
+	if sc == nil {
+		return make([]int64, m), make([]int64, m)
+	}
+	if int64(cap(sc.a)) < m {
+		sc.a, sc.b = make([]int64, m), make([]int64, m)
+	}
+	return sc.a[:m], sc.b[:m]
+}
+
+// winCache keeps the PMF windows (see pmfWindow) of the few (n, p) pairs
+// one group size needs: the span, the power and the size use the same ones.
+type winCache struct {
+	ent []winEntry
+}
+
+type winEntry struct {
+	n  int64
+	p  float64
+	lo int64
+	w  []float64
+}
+
+// window returns pmfWindow(n, p), computed once per reset.
+func (c *winCache) window(n int64, p float64) (int64, []float64) {
+	if c == nil {
+		return pmfWindow(n, p, nil)
+	}
+	for _, e := range c.ent {
+		if e.n == n && e.p == p {
+			return e.lo, e.w
+		}
+	}
+	lo, w := pmfWindow(n, p, nil)
+	c.ent = append(c.ent, winEntry{n, p, lo, w})
+	return lo, w
+}
+
+// reset forgets the windows.
+func (c *winCache) reset() {
+	if c != nil {
+		clear(c.ent)
+		c.ent = c.ent[:0]
+	}
 }
 
 // canceled reports whether r.ctx is done, recording its error in r.err.
@@ -49,12 +125,10 @@ func (r *twoRegion) canceled() bool {
 // the test package's p-value (onesample.LogPValueOf on binom.Hyper, as
 // test.Fisher computes it; point-probability two-sided definition). The
 // interval of s seeds the walk for s + 1.
-func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative, sp span) (*twoRegion, error) {
+func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative, sp span, sc *twoScratch) (*twoRegion, error) {
 	N := n1 + n2
-	r := &twoRegion{n1: n1, n2: n2, bySum: true, a: make([]int64, N+1), b: make([]int64, N+1)}
-	for s := int64(0); s <= N; s++ { // accept all outside the span
-		r.a[s], r.b[s] = 0, N
-	}
+	r := &twoRegion{n1: n1, n2: n2, bySum: true, off: sp.s0}
+	r.a, r.b = sc.ends(max(sp.s1-sp.s0+1, 0)) // margins outside the span accept all (see ends)
 	la := xmath.Log(alpha)
 	oalt := onesample.TwoSided
 	switch alt {
@@ -69,7 +143,11 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 	// in linear space, so an alpha below 1e-250 takes every decision from
 	// the test package.
 	fast := alpha >= 1e-250
-	tr := &hyperTrack{floor: alpha}
+	tr := &hyperTrack{}
+	if sc != nil {
+		tr = &sc.tr
+	}
+	tr.floor = alpha
 	for s := sp.s0; s <= sp.s1; s++ {
 		if s&15 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
@@ -84,7 +162,7 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 		h := binom.Hyper{Total: N, Successes: n1, Draws: s}
 		lo, hi := h.Support()
 		if lo == hi {
-			r.a[s], r.b[s] = lo, hi // one table: p = 1
+			r.a[s-sp.s0], r.b[s-sp.s0] = lo, hi // one table: p = 1
 			ga, gb = lo, hi
 			continue
 		}
@@ -97,9 +175,11 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 			}
 			return onesample.LogPValueOf(h, lo, hi, x, onesample.PointProbability, false, oalt) >= la
 		}
+		// certifyInterval only compares these values with each other: the
+		// tracker's probabilities order the outcomes as their logarithms do.
 		logProb := h.LogProb
 		if fast {
-			logProb = tr.logProb
+			logProb = tr.orderKey
 		}
 		// As s grows by one both ends move up by about n1/N: start from the
 		// previous interval, certified by two decisions when the test is
@@ -118,7 +198,7 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 			}
 			a, b = acceptInterval(ok, lo, hi, peak, max(ga, lo), min(gb+1, hi))
 		}
-		r.a[s], r.b[s] = a, b
+		r.a[s-sp.s0], r.b[s-sp.s0] = a, b
 		ga, gb = a, b
 	}
 	return r, nil
@@ -129,11 +209,9 @@ func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, a
 // form an interval, decided by test.TwoSample (z pooled) and seeded by the
 // previous row. A table whose z lies clear of the normal critical value
 // is decided by z alone (see zCut), without the call.
-func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative, sp span) (*twoRegion, error) {
-	r := &twoRegion{n1: n1, n2: n2, a: make([]int64, n1+1), b: make([]int64, n1+1)}
-	for x1 := range r.b { // accept all outside the span
-		r.b[x1] = n2
-	}
+func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative, sp span, sc *twoScratch) (*twoRegion, error) {
+	r := &twoRegion{n1: n1, n2: n2, off: sp.r0}
+	r.a, r.b = sc.ends(max(sp.r1-sp.r0+1, 0)) // rows outside the span accept all (see ends)
 	la := xmath.Log(alpha)
 	opt := test.TwoSampleOptions{Method: test.ZPooled, Alternative: alt}
 	zc := newZCut(alpha, alt)
@@ -161,7 +239,7 @@ func zRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt te
 			peak = 0
 		}
 		a, b := acceptInterval(ok, 0, n2, peak, max(ga, 0), min(gb+1, n2))
-		r.a[x1], r.b[x1] = a, b
+		r.a[x1-sp.r0], r.b[x1-sp.r0] = a, b
 		ga, gb = a, b
 	}
 	return r, nil
@@ -224,8 +302,8 @@ func (zc zCut) decide(z float64) (accept, certain bool) {
 // this is summed table by table, O(w1 w2) for window widths w (about 18
 // standard deviations each).
 func (r *twoRegion) prob(p1, p2 float64) float64 {
-	l1, b1 := pmfWindow(r.n1, p1, nil)
-	l2, b2 := pmfWindow(r.n2, p2, nil)
+	l1, b1 := r.win.window(r.n1, p1)
+	l2, b2 := r.win.window(r.n2, p2)
 	h1, h2 := l1+int64(len(b1))-1, l2+int64(len(b2))-1
 	sum := 0.0
 	if r.bySum {
@@ -238,8 +316,7 @@ func (r *twoRegion) prob(p1, p2 float64) float64 {
 			}
 			row := 0.0
 			for x2 := l2; x2 <= h2; x2++ {
-				s := x1 + x2
-				if x1 < r.a[s] || x1 > r.b[s] {
+				if a, b := r.ends(x1 + x2); x1 < a || x1 > b {
 					row += b2[x2-l2]
 				}
 			}
@@ -261,7 +338,7 @@ func (r *twoRegion) prob(p1, p2 float64) float64 {
 		return c2[b-l2+1] - c2[a-l2]
 	}
 	for x1 := l1; x1 <= h1; x1++ {
-		a, b := r.a[x1], r.b[x1]
+		a, b := r.ends(x1)
 		var rej float64
 		switch {
 		case r.inner && a <= b:
@@ -287,14 +364,14 @@ type span struct{ r0, r1, s0, s1 int64 }
 // first group's window and margins from the sum of both windows; the whole
 // region when pts is nil. Outside its span a region built by buildRegion
 // rejects nothing (prob never looks there).
-func spanOf(n1, n2 int64, pts [][2]float64) span {
+func spanOf(n1, n2 int64, pts [][2]float64, win *winCache) span {
 	if pts == nil {
 		return span{0, n1, 0, n1 + n2}
 	}
 	sp := span{n1, 0, n1 + n2, 0}
 	for _, p := range pts {
-		l1, w1 := pmfWindow(n1, p[0], nil)
-		l2, w2 := pmfWindow(n2, p[1], nil)
+		l1, w1 := win.window(n1, p[0])
+		l2, w2 := win.window(n2, p[1])
 		h1, h2 := l1+int64(len(w1))-1, l2+int64(len(w2))-1
 		sp.r0, sp.r1 = min(sp.r0, l1), max(sp.r1, h1)
 		sp.s0, sp.s1 = min(sp.s0, l1+l2), max(sp.s1, h1+h2)
@@ -308,7 +385,15 @@ func spanOf(n1, n2 int64, pts [][2]float64) span {
 // the z test's and the margin tests' regions (Barnard's critical value
 // depends on every table, and its region costs O(n1) once that is known).
 func buildRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, o TwoSampleOptions, pts [][2]float64) (*twoRegion, error) {
-	sp := spanOf(n1, n2, pts)
+	return buildRegionWith(ctx, fn, n1, n2, alpha, o, pts, &twoScratch{})
+}
+
+// buildRegionWith is buildRegion reusing the memory of sc, whose region
+// and windows it overwrites: the region returned holds on to sc until the
+// next call.
+func buildRegionWith(ctx context.Context, fn string, n1, n2 int64, alpha float64, o TwoSampleOptions, pts [][2]float64, sc *twoScratch) (*twoRegion, error) {
+	sc.win.reset()
+	sp := spanOf(n1, n2, pts, &sc.win)
 	var r *twoRegion
 	var err error
 	switch {
@@ -317,14 +402,14 @@ func buildRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, o 
 	case o.Test == BarnardExactTest:
 		r, err = barnardRegion(ctx, fn, n1, n2, alpha, o.Alternative)
 	case o.Test == ZPooledTest:
-		r, err = zRegion(ctx, fn, n1, n2, alpha, o.Alternative, sp)
+		r, err = zRegion(ctx, fn, n1, n2, alpha, o.Alternative, sp, sc)
 	default:
-		r, err = fisherRegion(ctx, fn, n1, n2, alpha, o.Alternative, sp)
+		r, err = fisherRegion(ctx, fn, n1, n2, alpha, o.Alternative, sp, sc)
 	}
 	if err != nil {
 		return nil, err
 	}
-	r.ctx, r.fn = ctx, fn
+	r.ctx, r.fn, r.win = ctx, fn, &sc.win
 	return r, nil
 }
 
@@ -450,13 +535,14 @@ func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactS
 	}
 	n2Of := func(n1 int64) int64 { return ceilN(s.r * float64(n1)) }
 	sizes := map[int64]float64{}
+	sc := &twoScratch{} // one region's memory, reused from n1 to n1 + 1
 	power := func(n1 int64) (float64, error) {
 		n2 := n2Of(n1)
 		if err := checkGroups(fn, n1, n2); err != nil {
 			return 0, err
 		}
 		sz := sizePoints(n1, n2, p1, p2, s)
-		reg, err := buildRegion(ctx, fn, n1, n2, s.alpha, o, append([][2]float64{{p1, p2}}, sz...))
+		reg, err := buildRegionWith(ctx, fn, n1, n2, s.alpha, o, append([][2]float64{{p1, p2}}, sz...), sc)
 		if err != nil {
 			return 0, err
 		}
@@ -487,8 +573,12 @@ func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactS
 func (r *twoRegion) probByRow(l1 int64, b1 []float64, l2 int64, b2 []float64) (float64, bool) {
 	h1, h2 := l1+int64(len(b1))-1, l2+int64(len(b2))-1
 	s0, s1 := l1+l2, h1+h2
-	for s := s0 + 1; s <= s1; s++ {
-		if r.a[s] < r.a[s-1] || r.b[s] < r.b[s-1] {
+	if s0 < r.off || s1 >= r.off+int64(len(r.a)) {
+		return 0, false // beyond the stored margins
+	}
+	ea, eb := r.a[s0-r.off:s1-r.off+1], r.b[s0-r.off:s1-r.off+1] // ea[i]: margin s0 + i
+	for i := 1; i < len(ea); i++ {
+		if ea[i] < ea[i-1] || eb[i] < eb[i-1] {
 			return 0, false
 		}
 	}
@@ -508,10 +598,10 @@ func (r *twoRegion) probByRow(l1 int64, b1 []float64, l2 int64, b2 []float64) (f
 		if (x1-l1)%256 == 0 && r.canceled() {
 			return 0, true
 		}
-		for sb <= s1 && r.b[sb] < x1 {
+		for sb <= s1 && eb[sb-s0] < x1 {
 			sb++
 		}
-		for sa <= s1 && r.a[sa] <= x1 {
+		for sa <= s1 && ea[sa-s0] <= x1 {
 			sa++
 		}
 		// Rejected: x2 in [l2, sb-x1-1] and x2 in [sa-x1, h2], as window offsets.
@@ -531,13 +621,14 @@ func (r *twoRegion) probByRow(l1 int64, b1 []float64, l2 int64, b2 []float64) (f
 // rejects reports whether the table (x1, x2) lies in the rejection region.
 func (r *twoRegion) rejects(x1, x2 int64) bool {
 	if r.bySum {
-		s := x1 + x2
-		return x1 < r.a[s] || x1 > r.b[s]
+		a, b := r.ends(x1 + x2)
+		return x1 < a || x1 > b
 	}
+	a, b := r.ends(x1)
 	if r.inner {
-		return x2 >= r.a[x1] && x2 <= r.b[x1]
+		return x2 >= a && x2 <= b
 	}
-	return x2 < r.a[x1] || x2 > r.b[x1]
+	return x2 < a || x2 > b
 }
 
 // marginRegion builds the rejection region of the test package's score

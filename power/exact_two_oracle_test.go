@@ -69,7 +69,7 @@ func oracleTwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (
 }
 
 func oracleBuildRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, o TwoSampleOptions, pts [][2]float64) (*twoRegion, error) {
-	sp := spanOf(n1, n2, pts)
+	sp := spanOf(n1, n2, pts, nil)
 	var r *twoRegion
 	var err error
 	switch {

@@ -253,16 +253,17 @@ func (t *hyperTrack) point(k int64) (p, rp float64, ok bool) {
 	return p, rp, p >= tinyProb
 }
 
-// logProb returns ln P(X = k) for the ordering of outcomes in
-// certifyInterval (binom.Hyper's value when the anchors cannot give it).
-func (t *hyperTrack) logProb(k int64) float64 {
+// orderKey returns P(X = k), which orders the outcomes as ln P(X = k)
+// does, for certifyInterval (from binom.Hyper when the anchors cannot give
+// it; -Inf outside the support).
+func (t *hyperTrack) orderKey(k int64) float64 {
 	if k < t.lo || k > t.hi {
 		return math.Inf(-1)
 	}
 	if p, _, ok := t.point(k); ok {
-		return math.Log(p)
+		return p
 	}
-	return t.h.LogProb(k)
+	return math.Exp(t.h.LogProb(k))
 }
 
 // cmpTol compares P(X = j) with thr = P(X = x)(1 + RelTol), the limit of
