@@ -38,6 +38,25 @@ func pooledZ(x1, n1, x2, n2 int64) float64 {
 // final region come from binary searches per row: O(n1 log n2) per probe,
 // O(n1) memory, and some 20 to 40 probes.
 func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative) (*twoRegion, error) {
+	return barnardRegionFrom(ctx, fn, n1, n2, alpha, alt, nil)
+}
+
+// barnardHint carries the critical key of one group size to the next in a
+// sample-size search: the search starts there instead of at the normal
+// critical value. The region found does not depend on where it starts
+// (it is the set of tables at least as extreme as the least extreme
+// rejected one, and the search ends only when no table's key lies between
+// the largest accepted and the smallest rejected key); the start only
+// changes how many tables are decided on the way.
+type barnardHint struct {
+	kr     float64 // the last region's smallest rejected key, less the tie
+	ok     bool
+	probes int // test.Barnard calls so far, for the benchmarks
+}
+
+// barnardRegionFrom is barnardRegion started at hint's key when hint holds
+// one; it leaves the new critical key in hint.
+func barnardRegionFrom(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative, hint *barnardHint) (*twoRegion, error) {
 	key := func(x1, x2 int64) float64 {
 		z := pooledZ(x1, n1, x2, n2)
 		switch alt {
@@ -102,6 +121,16 @@ func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, 
 	}
 	ka, kr := math.Inf(-1), math.Inf(1) // keys <= ka accepted, keys >= kr rejected
 	c := zc
+	// From a hint, the neighbours of the first decided table come next
+	// (the critical key moves little from one group size to the next),
+	// then steps that grow fourfold from 1e-4 (relative) until both sides
+	// are bracketed; then bisection.
+	warm := hint != nil && hint.ok && !math.IsInf(hint.kr, 0) && !math.IsNaN(hint.kr)
+	step, near := 0.0, 0
+	if warm {
+		c = hint.kr
+		step = 1e-4 * math.Max(1, math.Abs(c))
+	}
 	for iter := 0; ; iter++ {
 		if err := argerr.Canceled(fn, ctx); err != nil {
 			return nil, err
@@ -109,6 +138,9 @@ func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, 
 		t, kt, ok, _ := nearest(c, ka, kr)
 		if !ok || iter > 400 {
 			break
+		}
+		if hint != nil {
+			hint.probes++
 		}
 		res, err := test.Barnard(ctx, t[0], n1, t[1], n2, opt)
 		if err != nil {
@@ -120,6 +152,14 @@ func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, 
 			ka = kt + tie(kt)
 		}
 		switch {
+		case warm && math.IsInf(kr, 1) && near < 2:
+			c, near = ka, near+1 // the smallest key above ka
+		case warm && math.IsInf(ka, -1) && near < 2:
+			c, near = kr, near+1 // the largest key below kr
+		case warm && math.IsInf(kr, 1):
+			c, step = ka+step, 4*step
+		case warm && math.IsInf(ka, -1):
+			c, step = kr-step, 4*step
 		case math.IsInf(kr, 1):
 			c = ka + math.Max(1, math.Abs(ka))
 		case math.IsInf(ka, -1):
@@ -130,6 +170,9 @@ func barnardRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, 
 	}
 	if err := argerr.Canceled(fn, ctx); err != nil {
 		return nil, err
+	}
+	if hint != nil {
+		hint.kr, hint.ok = kr, true
 	}
 	r := &twoRegion{n1: n1, n2: n2, a: make([]int64, n1+1), b: make([]int64, n1+1)}
 	for x1 := int64(0); x1 <= n1; x1++ {

@@ -59,9 +59,10 @@ func (r *twoRegion) ends(i int64) (a, b int64) {
 // twoScratch is the memory a sample-size search reuses from one group
 // size to the next: the region's ends, the window cache and the tracker.
 type twoScratch struct {
-	a, b []int64
-	win  winCache
-	tr   hyperTrack
+	a, b    []int64
+	win     winCache
+	tr      hyperTrack
+	barnard barnardHint
 }
 
 // ends returns r's ends arrays for m margins or rows, from sc when it is
@@ -400,7 +401,7 @@ func buildRegionWith(ctx context.Context, fn string, n1, n2 int64, alpha float64
 	case o.Hypothesis != Equality:
 		r, err = marginRegion(ctx, fn, n1, n2, alpha, o.Hypothesis, o.Margin, sp)
 	case o.Test == BarnardExactTest:
-		r, err = barnardRegion(ctx, fn, n1, n2, alpha, o.Alternative)
+		r, err = barnardRegionFrom(ctx, fn, n1, n2, alpha, o.Alternative, &sc.barnard)
 	case o.Test == ZPooledTest:
 		r, err = zRegion(ctx, fn, n1, n2, alpha, o.Alternative, sp, sc)
 	default:
