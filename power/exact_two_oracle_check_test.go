@@ -3,7 +3,10 @@ package power
 import (
 	"context"
 	"fmt"
+	"math"
+	"os"
 	"testing"
+	"time"
 
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
@@ -171,4 +174,108 @@ func TestTwoSampleNMatchesOracle(t *testing.T) {
 		}
 	}
 	t.Logf("%d searches compared", len(cases))
+}
+
+// Large searches against the oracle, run on demand (minutes of CPU):
+//
+//	KOFN_TWOSIZE_LARGE=1 go test -run TestTwoSampleLargeMatchesOracle -v ./power
+//
+// Whole searches for 10% against 12% (Fisher and the z test, about 2,900
+// group sizes from 1,900 to 4,800) and for 10% against 10.9% with the z
+// test (about 13,500 sizes from 9,200 to 22,700); Fisher's regions and
+// powers at 10% against 10.9% for a run of group sizes around the first
+// one reaching 80% power (about 18,100) and at 20,000, allocation ratios
+// 1 and 2 and both one-sided tests; Barnard's regions at 1,000 to 1,004
+// per group started from the previous size's critical key.
+func TestTwoSampleLargeMatchesOracle(t *testing.T) {
+	if os.Getenv("KOFN_TWOSIZE_LARGE") == "" {
+		t.Skip("set KOFN_TWOSIZE_LARGE=1 to compare large searches with the oracle")
+	}
+	ctx := context.Background()
+	for _, c := range []oracleSizeCase{
+		{0.10, 0.12, TwoSampleOptions{MaxN: 20000}},
+		{0.10, 0.12, TwoSampleOptions{Test: ZPooledTest, MaxN: 20000}},
+		{0.10, 0.109, TwoSampleOptions{Test: ZPooledTest, MaxN: 40000}},
+	} {
+		t0 := time.Now()
+		want, werr := oracleTwoSampleN(ctx, c.p1, c.p2, c.o)
+		t1 := time.Now()
+		got, gerr := TwoSampleN(ctx, c.p1, c.p2, c.o)
+		t2 := time.Now()
+		if werr != nil || gerr != nil {
+			t.Fatalf("errors %v, %v", werr, gerr)
+		}
+		if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-12, 0)); diff != "" {
+			t.Errorf("p1=%v p2=%v %+v (-want +got):\n%s", c.p1, c.p2, c.o, diff)
+		}
+		maxRel := 0.0
+		for i := range want.Curve {
+			maxRel = math.Max(maxRel, math.Abs(got.Curve[i].Power-want.Curve[i].Power)/want.Curve[i].Power)
+		}
+		t.Logf("%v %v %v: first %d stable %d horizon %d, %d sizes, powers within %.2g relative; oracle %v, new %v",
+			c.p1, c.p2, c.o.Test, got.First, got.Stable, got.Horizon, len(got.Curve), maxRel, t1.Sub(t0).Round(time.Millisecond), t2.Sub(t1).Round(time.Millisecond))
+	}
+	type regionCase struct {
+		n1     int64
+		ratio  float64
+		alt    test.Alternative
+		p1, p2 float64
+	}
+	var rcs []regionCase
+	for n := int64(18100); n < 18140; n++ {
+		rcs = append(rcs, regionCase{n, 1, test.TwoSided, 0.10, 0.109})
+	}
+	rcs = append(rcs, regionCase{20000, 1, test.TwoSided, 0.10, 0.109}, regionCase{20000, 2, test.TwoSided, 0.10, 0.109},
+		regionCase{20000, 1, test.Higher, 0.109, 0.10}, regionCase{20000, 1, test.Lower, 0.10, 0.109}, regionCase{9000, 0.5, test.TwoSided, 0.3, 0.33})
+	for _, c := range rcs {
+		n2 := ceilN(c.ratio * float64(c.n1))
+		pbar := (float64(c.n1)*c.p1 + float64(n2)*c.p2) / float64(c.n1+n2)
+		pts := [][2]float64{{c.p1, c.p2}, {pbar, pbar}}
+		o := TwoSampleOptions{Alternative: c.alt}
+		want, err := oracleBuildRegion(ctx, "t", c.n1, n2, 0.05, o, pts)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, err := buildRegion(ctx, "t", c.n1, n2, 0.05, o, pts)
+		if err != nil {
+			t.Fatal(err)
+		}
+		bad := 0
+		for s := int64(0); s <= c.n1+n2; s++ {
+			wa, wb := want.ends(s)
+			ga, gb := got.ends(s)
+			if wa != ga || wb != gb {
+				bad++
+			}
+		}
+		if bad > 0 {
+			t.Errorf("Fisher %d x %d %v: %d margins differ", c.n1, n2, c.alt, bad)
+		}
+		for _, p := range pts {
+			if diff := cmp.Diff(oracleProb(want, p[0], p[1]), got.prob(p[0], p[1]), cmpopts.EquateApprox(1e-12, 0)); diff != "" {
+				t.Errorf("Fisher %d x %d %v at %v (-want +got):\n%s", c.n1, n2, c.alt, p, diff)
+			}
+		}
+	}
+	t.Logf("Fisher: %d regions of 18,100 to 20,000 per group compared", len(rcs))
+	hint := &barnardHint{}
+	if _, err := barnardRegionFrom(ctx, "t", 999, 999, 0.05, test.TwoSided, hint); err != nil {
+		t.Fatal(err)
+	}
+	for n := int64(1000); n < 1005; n++ {
+		want, err := oracleBarnardRegion(ctx, "t", n, n, 0.05, test.TwoSided)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, err := barnardRegionFrom(ctx, "t", n, n, 0.05, test.TwoSided, hint)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if diff := cmp.Diff(want.a, got.a); diff != "" {
+			t.Errorf("Barnard %d x %d lower ends (-want +got):\n%s", n, n, diff)
+		}
+		if diff := cmp.Diff(want.b, got.b); diff != "" {
+			t.Errorf("Barnard %d x %d upper ends (-want +got):\n%s", n, n, diff)
+		}
+	}
 }
