@@ -34,9 +34,8 @@ const farMaxRatio = 0.6
 // There the normal start (the Cornish-Fisher expansion, refined on the
 // uniform expansion only where both beta parameters are at least
 // temmeMinAB) is weakest, and each refining step costs two logarithms.
-// This start works on the log PMF instead, from the tables of ln i and of
-// Stirling's errors (so ln k! = stirlerr(k) + (k + 1/2) ln k - k +
-// ln sqrt(2 pi) takes no logarithm) and two logarithms in all, ln P and
+// This start works on the log PMF instead, from the table lnFactTab of
+// ln k! (no logarithm per step) and two logarithms in all, ln P and
 // ln(1-P): with the upper tail read as the lower tail of N - X, which is
 // binomial (N, 1-P),
 //
@@ -44,15 +43,20 @@ const farMaxRatio = 0.6
 //	P(X <= k) = b(k) S(k),  S(k) = 1 + r_k + r_k r_{k-1} + ...,
 //	r_j = b(j-1)/b(j) = j (1-P) / ((N-j+1) P).
 //
-// Integer Newton steps on ln b from k = 0, each ceil(-f/g) for the gap f
-// to lt and the exact forward difference g = ln((N-k) P / ((k+1)(1-P))),
-// approach the smallest k with ln b(k) >= lt from below without passing
-// it (ln b is concave, so its differences fall); the answer is at most
-// that k, since the tail exceeds b(k). Steps down follow while
-// ln b(k-1) + ln S(k-1) >= lt, with S bounded above by
+// Integer Newton steps on ln b find the smallest k with ln b(k) >= lt
+// inside a bracket below the mode: a step up from a k short of lt,
+// ceil(-f/g) for the gap f and the exact forward difference
+// g = ln((N-k) P / ((k+1)(1-P))), does not pass that k (ln b is concave,
+// so its differences fall), and a step down from a k past it, by the
+// backward difference, lands below it. The first step is from k = 0; where
+// it is longer than 16, the start moves on to where a normal curve through
+// the mode reaches lt, if that is further; typically two to four steps. The
+// answer is at most that k, since the tail exceeds b(k); steps down follow
+// while ln b(k-1) + ln S(k-1) >= lt, with S bounded above by
 // 1 + r_k/(1 - r_{k-1}) (the ratios fall away from the mode) and
 // ln(1 + u) bracketed by 2u/(2+u) and u, so that a logarithm is taken only
-// where the bracket straddles the target. A start, not a result: locate
+// where the bracket straddles the target. Cost O(1): a few table look-ups
+// and divisions per step, at most 12 steps. A start, not a result: locate
 // decides every k on the exact tail.
 func (d Dist) farStart(lt float64, lower bool, slack float64) (int64, bool) {
 	n := d.N
@@ -150,9 +154,9 @@ func (d Dist) farAnswer(k int64, lower bool) int64 {
 	return d.N - 1 - k
 }
 
-// lnFactTab[k] is ln k! for 0 <= k <= smallN, from the tables of ln i and
-// Stirling's errors: stirlerr(k) + (k + 1/2) ln k - k + ln sqrt(2 pi),
-// good to a few units of 1e-16 times k ln k.
+// lnFactTab[k] is ln k! for 0 <= k <= smallN (8 KiB), from the tables of
+// ln i and Stirling's errors: stirlerr(k) + (k + 1/2) ln k - k +
+// ln sqrt(2 pi), good to a few units of 1e-16 times k ln k.
 var lnFactTab = func() (t [smallN + 1]float64) {
 	for k := 1; k <= smallN; k++ {
 		fk := float64(k)
