@@ -192,9 +192,9 @@ func beatsCommand() *command {
 				"on average), under the same Beta prior on each arm; for three or more arms, the probability " +
 				"that each arm is the best. A plot shows the posteriors; the prior is printed with the result.",
 			Methods: "Two arms: an exact finite sum when a posterior shape is a whole number (uniform prior, or " +
-				"A,B with a whole number), otherwise Gauss-Legendre quadrature with an error estimate (up to " +
-				"1e5 trials in all). Expected loss in closed form. Three or more arms: quadrature with an error " +
-				"estimate.",
+				"A,B with a whole number), otherwise the trapezoidal rule in the log-odds with a certified error " +
+				"bound (up to 1e5 trials in all; shapes below 1 beside tens of thousands of trials may be refused). " +
+				"Expected loss in closed form. Three or more arms: the same rule and bound.",
 			Assumptions: "Independent arms of independent trials; the prior chosen before seeing the data. These " +
 				"probabilities are not p-values and do not control any error rate; stopping an experiment when " +
 				"they cross a threshold changes their frequentist meaning.",
@@ -249,7 +249,7 @@ func runBeats(c *call) error {
 		for i := range x {
 			b.Row(names[i], kn(x[i], n[i]), "P(best) = "+s.num(r.ProbBest[i]))
 		}
-		b.Row("method", r.Method, "error estimate "+s.num(r.ErrorBound))
+		b.Row("method", r.Method, "error at most "+s.num(r.ErrorBound))
 		b.Warn(r.Warnings...)
 	}
 	if p := densityPlot(s, posts, names); p != "" {

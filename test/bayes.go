@@ -1,6 +1,8 @@
 package test
 
 import (
+	"context"
+	"errors"
 	"math"
 
 	"github.com/kofnlab/kofn/internal/argerr"
@@ -8,15 +10,27 @@ import (
 	"github.com/kofnlab/kofn/internal/jsonfloat"
 	"github.com/kofnlab/kofn/internal/xmath"
 	"github.com/kofnlab/kofn/interval"
-	"gonum.org/v1/gonum/integrate/quad"
 )
 
 // MaxQuadratureShapes is the largest total of the four posterior shapes
 // (about the total number of trials) for which Compare integrates
-// numerically when no shape is an integer: each node evaluates an
-// incomplete beta function whose cost grows like the square root of the
-// counts, and beyond 1e5 a comparison would take over 100 ms.
+// numerically when no shape is an integer (ProbBest allows as much per
+// arm): the rule's step shrinks like 1/sqrt(total), and each node
+// evaluates incomplete beta functions whose cost grows with the shapes.
 const MaxQuadratureShapes = 1e5
+
+// MaxTrapezoidSteps bounds the walk of Compare's trapezoidal rule (no
+// integer shape): Compare refuses with ErrTooLarge, before it starts, a
+// comparison whose window in the log-odds, from the lower of the two
+// modes ln(a/b) - 6 sqrt(1/a + 1/b) to the higher of ln(a/b) + 6 sqrt(1/a
+// + 1/b), spans more than MaxTrapezoidSteps steps of the rule (the step is
+// about 1.5/sqrt(a1+b1+a2+b2)), and stops with ErrTooLarge should its walk
+// reach twice as many nodes. Reaching it takes a posterior shape below
+// about 0.3 beside totals of tens of thousands of trials (every Jeffreys
+// posterior up to MaxQuadratureShapes passes); the walk costs about 10 ms
+// at the limit (BenchmarkCompareTrapezoidWide). ProbBest, which takes a
+// context, has no such limit.
+const MaxTrapezoidSteps = 16384
 
 // ArmComparison is the Bayesian answer to "which arm is better": the
 // posterior probability that each arm's success probability exceeds the
@@ -44,12 +58,19 @@ type ArmComparison struct {
 	LossFirst  float64 `json:"loss_first"`
 	LossSecond float64 `json:"loss_second"`
 	// Method is "closed-form sum" (an integer shape allows the exact finite
-	// sum) or "quadrature" (Gauss-Legendre panels with an error estimate).
+	// sum) or "trapezoidal rule in the log-odds" (no integer shape; see
+	// Compare).
 	Method string `json:"method"`
-	// ErrorBound bounds the absolute error of ProbFirstBetter and
-	// ProbSecondBetter: the truncation bound of the closed-form sums
-	// (2^-62 of the sum) or, for quadrature, the panel-wise difference of
-	// the 20- and 40-point rules plus the mass outside the window.
+	// ErrorBound bounds the absolute error of each of ProbFirstBetter and
+	// ProbSecondBetter: the truncation bound of the closed-form sums (2^-60)
+	// or, for the trapezoidal rule, a certified bound, the sum of its
+	// discretisation, truncation and rounding parts, valid as far as the
+	// stated accuracy of the incomplete beta evaluations it relies on (see
+	// Compare). The rule's bound is relative: it is eps max(ProbFirstBetter,
+	// ProbSecondBetter), eps the larger of the two probabilities' relative
+	// bounds, so each is within eps times itself of the true value and its
+	// logarithm within about eps: a tiny probability is as good as a large
+	// one.
 	ErrorBound float64  `json:"error_bound"`
 	Warnings   []string `json:"warnings,omitempty"`
 }
@@ -92,30 +113,43 @@ type CompareOptions struct {
 // 2^-62 of the sum, so its cost grows like the square root of the counts
 // (see Cost).
 //
-// Otherwise (no integer shape, as under the Jeffreys prior) it integrates
-// P(p1 > p2) = integral f2(x) P(p1 > x) dx by Gauss-Legendre rules on 24
-// panels in the log-odds of x covering all but 1e-18 of arm 2's posterior,
-// and reports the difference between 20- and 40-point rules plus the
-// excluded mass as ErrorBound (an estimate of the quadrature error, not a
-// proof). Known weakness: when a posterior shape is below 1 (its density
-// is unbounded at 0 or 1, as after 0 successes under the Jeffreys prior)
-// the estimate can fall short of the actual error by a factor of ten
-// (fuzzing found 9e-9 against an estimate of 7e-10); allow ten times
-// ErrorBound, and at least 1e-7, there.
+// Otherwise (no integer shape, as under the Jeffreys prior) it sums the
+// trapezoidal rule in the log-odds t of x (x = 1/(1+e^-t)),
+//
+//	P(p1 > p2) = integral g1(t) F2(t) dt,  P(p2 > p1) = integral g2(t) F1(t) dt,
+//
+// g the density of an arm's log-odds, x^a (1-x)^b / B(a, b), and F its
+// distribution function I_x(a, b), each probability on its own (their sum
+// minus 1 is a check). The integrands are analytic in the strip |Im t| <
+// pi and grow there by at most sec(Im t / 2)^N, N = a1+b1+a2+b2, so the
+// rule on the whole line has a discretisation error below 2 sec(a/2)^N /
+// (e^(2 pi a/h) - 1) of the answer (Trefethen and Weideman 2014, Theorem
+// 5.1); they are log-concave, so the sum can stop with a rigorous bound on
+// what it leaves out, and skip stretches of the tails between bounds from
+// chords and secants. With rounding bounded term by term, ErrorBound is a
+// certified bound relative to the answer (see ArmComparison.ErrorBound and
+// the derivation in bayes_trapezoid.go): typically 3e-14 to 5e-13 of the
+// probability, up to 1e-11 for probabilities below e^-700 and posteriors
+// near MaxQuadratureShapes, whose incomplete beta functions are accurate to
+// about 1e-14 of their logarithms. Checked against 40-digit mpmath
+// quadrature (testdata/test_bayes_bound.tsv).
 //
 // The expected losses follow in closed form from the two probabilities
 // (see losses): E[max(p2 - p1, 0)] = (m2 - m1) P(p2 > p1) + H (1/(a1+b1) +
 // 1/(a2+b2)) with H = B(a1+a2, b1+b2)/(B(a1, b1) B(a2, b2)).
 //
 // Cost: one sum of O(sqrt(n)) terms (the losses are in closed form), a few
-// hundred thousand at counts of 1e7; quadrature about 2000 incomplete beta
-// evaluations, refused beyond MaxQuadratureShapes (BenchmarkCompare*; the
-// README gives the measured figures).
+// hundred thousand at counts of 1e7; the trapezoidal rule takes 40 to 60
+// nodes (two densities and two incomplete beta functions each) for
+// posteriors with all shapes above a few, and more for shapes below 1,
+// whose broad log-odds densities span a wide window: about 4,000 nodes for
+// two Jeffreys posteriors after 0 of 5e4, at most about 2 MaxTrapezoidSteps
+// (BenchmarkCompare*; the README gives the measured figures).
 //
 // Errors: counts as for the other two-sample functions (k <= n, n >= 0),
-// invalid priors, posterior shapes above 1e15, quadrature beyond
-// MaxQuadratureShapes (ErrTooLarge) or with a shape below
-// MinQuadratureShape.
+// invalid priors, posterior shapes above 1e15; for the trapezoidal rule a
+// total beyond MaxQuadratureShapes or a window beyond MaxTrapezoidSteps
+// (ErrTooLarge), or a shape below MinQuadratureShape.
 func Compare(k1, n1, k2, n2 int64, opt CompareOptions) (ArmComparison, error) {
 	const fn = "test.Compare"
 	pr1, a1, b1, err := opt.Prior1.Update(fn, "k1", "n1", k1, n1)
@@ -136,9 +170,18 @@ func Compare(k1, n1, k2, n2 int64, opt CompareOptions) (ArmComparison, error) {
 		if err := quadShapes(fn, "Prior2", a2, b2); err != nil {
 			return ArmComparison{}, err
 		}
+		if trapezoidSteps([]float64{a1, a2}, []float64{b1, b2}) > MaxTrapezoidSteps {
+			return ArmComparison{}, argerr.TooLarge(fn, "n1", n1, "with n2 and the priors gives posteriors whose window spans more than MaxTrapezoidSteps = 16384 steps of the trapezoidal rule (a shape below 1 beside totals of tens of thousands of trials); use ProbBest, which takes a context, or the uniform prior, whose exact sum serves any size")
+		}
 	}
 	c := ArmComparison{Prior1: pr1, Prior2: pr2, A1: a1, B1: b1, A2: a2, B2: b2}
-	l12, l21, bound, method := probGreater(a1, b1, a2, b2)
+	l12, l21, bound, method, err := probGreater(fn, a1, b1, a2, b2)
+	if errors.Is(err, errWalkTooLong) {
+		return ArmComparison{}, argerr.TooLarge(fn, "n1", n1, "with n2 and the priors needs more than 2 MaxTrapezoidSteps nodes of the trapezoidal rule; use ProbBest, which takes a context, or the uniform prior, whose exact sum serves any size")
+	}
+	if err != nil {
+		return ArmComparison{}, err
+	}
 	c.LogProbFirstBetter, c.LogProbSecondBetter = l12, l21
 	c.ProbFirstBetter, c.ProbSecondBetter = math.Exp(l12), math.Exp(l21)
 	c.ErrorBound, c.Method = bound, method
@@ -149,10 +192,12 @@ func Compare(k1, n1, k2, n2 int64, opt CompareOptions) (ArmComparison, error) {
 	return c, nil
 }
 
-// MinQuadratureShape is the smallest posterior shape the quadratures of
-// Compare and ProbBest accept: below it a posterior holds mass beyond the
-// smallest double near 0 or 1 (P(p < 1e-300) = 0.03 for shape 0.005),
-// which no quadrature in floating point can place.
+// MinQuadratureShape is the smallest posterior shape the trapezoidal rule
+// of Compare and ProbBest accepts: the integrands fall like e^(-shape |t|)
+// in the log-odds t, and the rule's walk ends at |t| = 700 (x near e^-700,
+// still a normal double), where at shape 0.1 they are below e^-70 of their
+// peak; much smaller shapes put mass beyond the doubles altogether
+// (P(p < 1e-300) = 0.03 for shape 0.005).
 const MinQuadratureShape = 0.1
 
 // quadShapes checks a posterior's shapes against MinQuadratureShape,
@@ -173,7 +218,7 @@ func isInt(v float64) bool { return v == math.Trunc(v) }
 
 // probGreater returns ln P(X > Y) and ln P(Y > X) for X ~ Beta(a1, b1),
 // Y ~ Beta(a2, b2), with an absolute error bound and the method name.
-func probGreater(a1, b1, a2, b2 float64) (l12, l21, bound float64, method string) {
+func probGreater(fn string, a1, b1, a2, b2 float64) (l12, l21, bound float64, method string, err error) {
 	// The smaller probability is summed directly (the larger is its
 	// complement, which loses nothing). Sums for P(X > Y) exist when a1 is
 	// an integer (first = X) or b2 is (1-Y > 1-X: first 1-Y ~ Beta(b2, a2),
@@ -209,15 +254,19 @@ func probGreater(a1, b1, a2, b2 float64) (l12, l21, bound float64, method string
 		}
 	}
 	if math.IsNaN(lsmall) {
-		p12, e12 := quadGreater(a1, b1, a2, b2)
-		p21, e21 := quadGreater(a2, b2, a1, b1)
-		return xmath.Log(p12), xmath.Log(p21), e12 + e21, "quadrature"
+		lp, rel, _, err := bestSums(context.Background(), fn, []float64{a1, a2}, []float64{b1, b2}, 2*MaxTrapezoidSteps)
+		if err != nil {
+			return 0, 0, 0, "", err
+		}
+		l12, l21 = math.Min(0, lp[0]), math.Min(0, lp[1])
+		bound = math.Max(rel[0], rel[1]) * math.Max(math.Exp(l12), math.Exp(l21)) * (1 + 4*unitRound)
+		return l12, l21, bound, trapezoidMethod, nil
 	}
 	llarge := xmath.Log1mExp(math.Min(0, lsmall))
 	if swapped {
-		return llarge, lsmall, 0x1p-60, "closed-form sum"
+		return llarge, lsmall, 0x1p-60, "closed-form sum", nil
 	}
-	return lsmall, llarge, 0x1p-60, "closed-form sum"
+	return lsmall, llarge, 0x1p-60, "closed-form sum", nil
 }
 
 // losses returns E[max(p2 - p1, 0)] and E[max(p1 - p2, 0)] from the two
@@ -318,48 +367,4 @@ func bnbSum(a1, b1, a2, b2 float64) float64 {
 		}
 	}
 	return math.Min(total, 0)
-}
-
-// quadGreater returns P(X > Y) = integral f_Y(y) P(X > y) dy for
-// X ~ Beta(a1, b1), Y ~ Beta(a2, b2), by 40-point Gauss-Legendre rules on
-// 24 equal panels in the log-odds t of y between the 1e-18 quantiles of Y
-// (density of t: y(1-y) f_Y(y)), with the panel-wise difference from the
-// 20-point rules plus the bounds on the excluded mass as error estimate.
-func quadGreater(a1, b1, a2, b2 float64) (p, errEst float64) {
-	lo := beta.Quantile(a2, b2, math.Log(1e-18), false)
-	hi := beta.Quantile(a2, b2, math.Log(1e-18), true)
-	const panels = 24
-	f := func(t float64) float64 {
-		x, y := beta.XY(t)
-		return math.Exp(beta.LogDensityXY(a2, b2, x, y) + beta.LogUpper(a1, b1, x, y))
-	}
-	var xs40, ws40, xs20, ws20 [40]float64
-	w := (hi - lo) / panels
-	var total, diff float64
-	for k := 0; k < panels; k++ {
-		l, h := lo+float64(k)*w, lo+float64(k+1)*w
-		quad.Legendre{}.FixedLocations(xs40[:], ws40[:], l, h)
-		quad.Legendre{}.FixedLocations(xs20[:20], ws20[:20], l, h)
-		var s40, s20 float64
-		for i := range xs40 {
-			s40 += ws40[i] * f(xs40[i])
-		}
-		for i := 0; i < 20; i++ {
-			s20 += ws20[i] * f(xs20[i])
-		}
-		total += s40
-		diff += math.Abs(s40 - s20)
-	}
-	// The mass of Y outside the window (1e-18 on each side, more where the
-	// quantile is clamped at the end of the doubles for a shape far below
-	// 1): below lo the integrand lies between F_Y(lo) S_X(lo) and F_Y(lo)
-	// (S_X decreases), above hi between 0 and S_Y(hi) S_X(hi). Their
-	// midpoints are added and their half-widths bound the error.
-	xl, yl := beta.XY(lo)
-	xh, yh := beta.XY(hi)
-	fLo := math.Exp(beta.LogCDF(a2, b2, xl, yl))
-	sLo := math.Exp(beta.LogUpper(a1, b1, xl, yl))
-	sHi := math.Exp(beta.LogUpper(a2, b2, xh, yh)) * math.Exp(beta.LogUpper(a1, b1, xh, yh))
-	total += fLo*(1+sLo)/2 + sHi/2
-	return math.Min(1, math.Max(0, total)), diff + fLo*(1-sLo)/2 + sHi/2 + 1e-18
 }

@@ -163,7 +163,7 @@
 // so that a reader choosing how to compare two arms finds every way in one
 // package. Exact finite sums serve any size when a posterior shape is an
 // integer (uniform priors, or informative priors with integer shapes);
-// quadrature with an error estimate serves the rest up to
+// the trapezoidal rule with a certified error bound serves the rest up to
 // MaxQuadratureShapes. These probabilities are not p-values, and a decision
 // between treatments that can hurt someone needs a qualified statistician.
 package test
