@@ -266,17 +266,43 @@ func (t *hyperTrack) orderKey(k int64) float64 {
 	return math.Exp(t.h.LogProb(k))
 }
 
-// cmpTol compares P(X = j) with thr = P(X = x)(1 + RelTol), the limit of
-// the outcomes as or more extreme than x: +1 when P(X = j) is certainly
-// above it, -1 when certainly at or below it, 0 when the two are within
-// decideGap plus the error bounds (or j's probability is unusable).
-func (t *hyperTrack) cmpTol(j int64, px, rx float64) int {
-	pj, rj, ok := t.point(j)
-	if !ok {
+// hcur is a cursor on the PMF: P(X = j) = p with relative error bound r.
+type hcur struct {
+	j    int64
+	p, r float64
+}
+
+// cursor returns a cursor at j from the anchors (ok false when P(X = j)
+// is too small to use).
+func (t *hyperTrack) cursor(j int64) (hcur, bool) {
+	p, r, ok := t.point(j)
+	return hcur{j, p, r}, ok
+}
+
+// up and down move a cursor by one outcome (inside the support).
+func (t *hyperTrack) up(c *hcur) {
+	c.p *= t.ratioUp(c.j)
+	c.r += 5 * unitRound
+	c.j++
+}
+
+func (t *hyperTrack) down(c *hcur) {
+	c.p *= t.ratioDown(c.j)
+	c.r += 5 * unitRound
+	c.j--
+}
+
+// cmp compares P(X = c.j) with thr = P(X = x)(1 + RelTol) = px (1 +
+// RelTol), the limit of the outcomes as or more extreme than x: +1 when
+// P(X = c.j) is certainly above it, -1 when certainly at or below it, 0
+// when the two are within decideGap plus the error bounds (or c's
+// probability is too small to use).
+func (t *hyperTrack) cmp(c hcur, px, rx float64) int {
+	if c.p < tinyProb {
 		return 0
 	}
-	rho := pj / (px * (1 + onesample.RelTol))
-	g := decideGap + rj + rx + 4*unitRound
+	rho := c.p / (px * (1 + onesample.RelTol))
+	g := decideGap + c.r + rx + 4*unitRound
 	switch {
 	case rho > 1+g:
 		return 1
@@ -343,62 +369,70 @@ func (t *hyperTrack) decide(x int64, alpha float64, alt test.Alternative) (accep
 			return false, false
 		}
 		// a: the smallest j in lo..mode-1 above the limit (mode if none).
+		// Walks step a cursor by the PMF ratios.
 		a := t.mode
 		if x < t.mode {
 			// Below x every outcome is less likely than x; search up from x+1.
-			j := x + 1
-			for ; j < t.mode; j++ {
-				if j-x > walkLimitTrack {
+			c := hcur{x, px, rx}
+			for c.j+1 < t.mode {
+				if c.j-x >= walkLimitTrack {
 					return false, false
 				}
-				c := t.cmpTol(j, px, rx)
-				if c == 0 {
+				t.up(&c)
+				v := t.cmp(c, px, rx)
+				if v == 0 {
 					return false, false
 				}
-				if c > 0 {
+				if v > 0 {
+					a = c.j
 					break
 				}
 			}
-			a = j
 		} else if t.lo < t.mode {
-			j := t.mirror(x, t.kl, t.setL, t.lo, t.mode-1)
-			c := t.cmpTol(j, px, rx)
-			if c == 0 {
+			c, ok := t.cursor(t.mirror(x, t.kl, t.setL, t.lo, t.mode-1))
+			if !ok {
 				return false, false
 			}
-			if c > 0 { // walk down while the next one is above too
-				for steps := 0; j > t.lo; steps++ {
+			v := t.cmp(c, px, rx)
+			if v == 0 {
+				return false, false
+			}
+			if v > 0 { // walk down while the next one is above too
+				for steps := 0; c.j > t.lo; steps++ {
 					if steps > walkLimitTrack {
 						return false, false
 					}
-					c := t.cmpTol(j-1, px, rx)
-					if c == 0 {
+					d := c
+					t.down(&d)
+					v := t.cmp(d, px, rx)
+					if v == 0 {
 						return false, false
 					}
-					if c < 0 {
+					if v < 0 {
 						break
 					}
-					j--
+					c = d
 				}
-				a = j
+				a = c.j
 			} else { // walk up to the first one above
 				for steps := 0; ; steps++ {
 					if steps > walkLimitTrack {
 						return false, false
 					}
-					j++
-					if j >= t.mode {
+					if c.j+1 >= t.mode {
+						c.j = t.mode
 						break
 					}
-					c := t.cmpTol(j, px, rx)
-					if c == 0 {
+					t.up(&c)
+					v := t.cmp(c, px, rx)
+					if v == 0 {
 						return false, false
 					}
-					if c > 0 {
+					if v > 0 {
 						break
 					}
 				}
-				a = j
+				a = c.j
 			}
 		}
 		// b + 1: the smallest j in mode..hi at or below the limit (hi + 1
@@ -407,60 +441,68 @@ func (t *hyperTrack) decide(x int64, alpha float64, alt test.Alternative) (accep
 		if x >= t.mode {
 			// From x on every outcome is at most as likely as x; search
 			// down from x-1.
-			j := x
-			for j-1 >= t.mode {
-				if x-j > walkLimitTrack {
+			c := hcur{x, px, rx}
+			for c.j-1 >= t.mode {
+				if x-c.j > walkLimitTrack {
 					return false, false
 				}
-				c := t.cmpTol(j-1, px, rx)
-				if c == 0 {
+				d := c
+				t.down(&d)
+				v := t.cmp(d, px, rx)
+				if v == 0 {
 					return false, false
 				}
-				if c > 0 {
+				if v > 0 {
 					break
 				}
-				j--
+				c = d
 			}
-			b1 = j
+			b1 = c.j
 		} else {
-			j := t.mirror(x, t.ku, t.setU, t.mode, t.hi)
-			c := t.cmpTol(j, px, rx)
-			if c == 0 {
+			c, ok := t.cursor(t.mirror(x, t.ku, t.setU, t.mode, t.hi))
+			if !ok {
 				return false, false
 			}
-			if c < 0 { // at or below: walk down while the previous one is too
-				for steps := 0; j > t.mode; steps++ {
+			v := t.cmp(c, px, rx)
+			if v == 0 {
+				return false, false
+			}
+			if v < 0 { // at or below: walk down while the previous one is too
+				for steps := 0; c.j > t.mode; steps++ {
 					if steps > walkLimitTrack {
 						return false, false
 					}
-					c := t.cmpTol(j-1, px, rx)
-					if c == 0 {
+					d := c
+					t.down(&d)
+					v := t.cmp(d, px, rx)
+					if v == 0 {
 						return false, false
 					}
-					if c > 0 {
+					if v > 0 {
 						break
 					}
-					j--
+					c = d
 				}
-				b1 = j
+				b1 = c.j
 			} else { // above: walk up to the first one at or below
 				for steps := 0; ; steps++ {
 					if steps > walkLimitTrack {
 						return false, false
 					}
-					j++
-					if j > t.hi {
+					if c.j+1 > t.hi {
+						c.j = t.hi + 1
 						break
 					}
-					c := t.cmpTol(j, px, rx)
-					if c == 0 {
+					t.up(&c)
+					v := t.cmp(c, px, rx)
+					if v == 0 {
 						return false, false
 					}
-					if c < 0 {
+					if v < 0 {
 						break
 					}
 				}
-				b1 = j
+				b1 = c.j
 			}
 		}
 		if a > b1-1 {
