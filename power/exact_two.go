@@ -124,8 +124,10 @@ func (r *twoRegion) canceled() bool {
 // fisherRegion builds Fisher's rejection region at alpha: for each margin
 // s the conditional (hypergeometric) acceptance interval of x1, decided by
 // the test package's p-value (onesample.LogPValueOf on binom.Hyper, as
-// test.Fisher computes it; point-probability two-sided definition). The
-// interval of s seeds the walk for s + 1.
+// test.Fisher computes it; point-probability two-sided definition), or
+// by hyperTrack where it is certain to agree with it. The interval of s
+// seeds the walk for s + 1. Only the margins of span sp are held (O(span)
+// memory, from sc when not nil).
 func fisherRegion(ctx context.Context, fn string, n1, n2 int64, alpha float64, alt test.Alternative, sp span, sc *twoScratch) (*twoRegion, error) {
 	N := n1 + n2
 	r := &twoRegion{n1: n1, n2: n2, bySum: true, off: sp.s0}
@@ -469,12 +471,16 @@ func checkGroups(fn string, n1, n2 int64) error {
 // nearest point inside [0, 1]^2 when that one leaves it (p2 < m: p1 = 0,
 // p2 = m).
 // Limits: n1 + n2 <= MaxTwoSampleTotal. Cost: memory O(n1 + n2); time
-// O(n1 + n2) p-values for Fisher's and the z test's regions, 20 to 40
-// p-values of test.Barnard for Barnard's, then the enumeration over the
-// tables inside both binomial windows (O(sqrt(n1 n2)) rows, each O(1) for
-// the tests held by row and O(sqrt(n2)) for Fisher's). Measured times are
-// in the README. ctx is checked while the region is built (and inside
-// each test.Barnard call). Accuracy: absolute 1e-14 on the power.
+// O(sqrt(n1 + n2)) margins or rows of Fisher's and the z test's regions
+// (those the binomial windows reach), each decided in O(1) from running
+// hypergeometric tails (Fisher, see hyperTrack) or from the value of z
+// (the z test, see zCut), the test package's own p-value deciding only
+// the rare tables within 1e-9 (Fisher) or 1e-8 (z) of alpha's boundary;
+// 10 to 40 p-values of test.Barnard for Barnard's region, then O(n1); then
+// the sum over the tables inside both binomial windows by row, O(1) per
+// row from running sums of X2's window (O(sqrt(n1) + sqrt(n2))). Measured
+// times are in the README. ctx is checked while the region is built (and
+// inside each test.Barnard call). Accuracy: absolute 1e-14 on the power.
 func TwoSamplePower(ctx context.Context, n1, n2 int64, p1, p2 float64, o TwoSampleOptions) (ExactPower, error) {
 	const fn = "power.TwoSamplePower"
 	if err := checkGroups(fn, n1, n2); err != nil {
@@ -512,7 +518,13 @@ func TwoSamplePower(ctx context.Context, n1, n2 int64, p1, p2 float64, o TwoSamp
 // Limits: n1 <= o.MaxN (default DefaultMaxN2) and n1 + n2 <=
 // MaxTwoSampleTotal; ErrNoSolution when the target is not reached. ctx is
 // checked throughout (inside every enumeration). Cost: one TwoSamplePower
-// per n1 scanned; measured times are in the README.
+// per n1 scanned, reusing one region's memory (O(sqrt(n1 + n2)) margins or
+// rows held; O(n1) for Barnard) and, for Barnard, starting the search for
+// each size's critical value at the previous size's: about 0.4 s of CPU
+// for Fisher's test at some 4,000 per group (2,900 sizes scanned) and 4 s
+// at 18,000 (13,500 sizes), a tenth of that for the z test; Barnard's
+// costs some 6 to 9 test.Barnard calls per size scanned (about 40 ms per
+// size at 2,000 per group). Measured times are in the README.
 func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactSize, error) {
 	const fn = "power.TwoSampleN"
 	s, err := o.setup(fn, p1, p2, true)
