@@ -45,8 +45,9 @@ const (
 	CommonExactConditional
 	// CommonExactConditionalMidP: its mid-p version.
 	CommonExactConditionalMidP
-	// CommonStratifiedScore: for the risk difference and the risk ratio,
-	// the stratified Miettinen-Nurminen score interval: the values theta
+	// CommonStratifiedScore: for the risk difference, the risk ratio and
+	// the odds ratio, the stratified Miettinen-Nurminen score interval:
+	// the values theta
 	// whose stratified score statistic
 	//
 	//	Z(theta) = sum w_i (e_i - theta) / sqrt( sum w_i^2 V_i(theta) )
@@ -63,7 +64,8 @@ const (
 	// paper not consulted here: the limits are checked against an
 	// independent high-precision solution of the same equations,
 	// testdata/gen/strata_score.py). With one stratum every weighting
-	// gives the Miettinen-Nurminen interval of Difference or Ratio.
+	// gives the Miettinen-Nurminen interval of Difference, Ratio or
+	// OddsRatio.
 	CommonStratifiedScore
 )
 
@@ -159,6 +161,17 @@ func logWald(lv level, est, se float64) (lo, hi float64) {
 // = s) as Estimate. The exact interval is 0 at the smallest possible sum
 // and +Inf at the largest.
 //
+// CommonStratifiedScore: the stratified score interval of the odds ratio
+// (score.StratifiedOddsZ: each stratum's Miettinen-Nurminen odds-ratio
+// score (p1^ - p1~)/(p1~ q1~) - (p2^ - p2~)/(p2~ q2~) with variance
+// f (1/(n1 p1~ q1~) + 1/(n2 p2~ q2~)), recalled), with either weighting,
+// its limits searched on ln psi as CommonRiskRatio's inverse-variance
+// interval (65 values from about 1e-20 to 1e20, then Brent's method) for
+// both weightings; the Estimate is the zero of the statistic nearest the
+// Mantel-Haenszel estimate. With one stratum it is OddsRatio's
+// Miettinen-Nurminen interval. More than MaxScoreStrata strata are
+// refused.
+//
 // Errors: no strata, a count outside [0, N], a Method for another effect
 // (CommonMantelHaenszelGR), a bad Level or Side, a conditional support
 // above strata.MaxSupport (ErrTooLarge: use Mantel-Haenszel, which has no
@@ -178,8 +191,8 @@ func CommonOddsRatio(ctx context.Context, ts []Stratum, opt CommonOptions) (Inte
 		iv.Warnings = append(iv.Warnings, argerr.Format(len(ts)-m.Used)+" strata with an empty group carry no information and were left out")
 	}
 	switch opt.Method {
-	case CommonMantelHaenszelGR, CommonStratifiedScore:
-		return Interval{}, argerr.Invalid(fn, "Method", opt.Method.String(), "is a risk-difference method; use CommonMantelHaenszel or an exact conditional method")
+	case CommonMantelHaenszelGR:
+		return Interval{}, argerr.Invalid(fn, "Method", opt.Method.String(), "is a risk-difference method; use CommonMantelHaenszel, CommonStratifiedScore or an exact conditional method")
 	case CommonExactConditional, CommonExactConditionalMidP:
 		if ctx == nil {
 			ctx = context.Background()
@@ -206,6 +219,18 @@ func CommonOddsRatio(ctx context.Context, ts []Stratum, opt CommonOptions) (Inte
 	if m.Used == 0 || m.R == 0 && m.S == 0 {
 		iv.Estimate, iv.Lower, iv.Upper = math.NaN(), 0, math.Inf(1)
 		iv.Warnings = append(iv.Warnings, "no stratum has a discordant product (a d or b c): the Mantel-Haenszel odds ratio is undefined")
+		return iv, nil
+	}
+	if opt.Method == CommonStratifiedScore {
+		if len(ts) > MaxScoreStrata {
+			return Interval{}, scoreTooLarge(fn, len(ts))
+		}
+		iv.Method = "stratified Miettinen-Nurminen score"
+		if opt.Weights == WeightsInverseVariance {
+			iv.Method += " with inverse-variance score weights"
+		}
+		iv.Estimate = m.R / m.S
+		scoreOdds(ts, lv, opt.Weights, &iv)
 		return iv, nil
 	}
 	iv.Method = "Mantel-Haenszel Robins-Breslow-Greenland"

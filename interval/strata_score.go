@@ -263,3 +263,36 @@ func ivsRatio(ts []Stratum, lv level, iv *Interval) {
 		iv.Warnings = append(iv.Warnings, weightsGapWarning("a ratio of 1"))
 	}
 }
+
+// scoreOdds fills the stratified score interval of the common odds ratio
+// with either weighting, on ln psi; iv.Estimate holds the Mantel-Haenszel
+// estimate on entry (0 or +Inf when one product vanishes) and the score
+// estimate on return.
+func scoreOdds(ts []Stratum, lv level, w ScoreWeights, iv *Interval) {
+	x1, n1, x2, n2 := stratumColumns(ts)
+	sw := score.MantelHaenszelWeights
+	if w == WeightsInverseVariance {
+		sw = score.InverseVarianceWeights
+	}
+	z := func(l float64) float64 {
+		return score.StratifiedOddsZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen, sw)
+	}
+	le := math.Log(iv.Estimate)
+	est, lo, hi, gap := weightedScoreLimits(z, -ratioSpan, ratioSpan, []float64{le, 0}, lv)
+	iv.Estimate, iv.Lower, iv.Upper = math.Exp(est), math.Exp(lo), math.Exp(hi)
+	if lo <= -ratioSpan {
+		iv.Lower = 0
+	}
+	if hi >= ratioSpan {
+		iv.Upper = math.Inf(1)
+	}
+	if est <= -ratioSpan {
+		iv.Estimate = 0
+	}
+	if est >= ratioSpan {
+		iv.Estimate = math.Inf(1)
+	}
+	if gap {
+		iv.Warnings = append(iv.Warnings, "the values the stratified score statistic accepts do not form one interval; the limits are their outermost ends")
+	}
+}

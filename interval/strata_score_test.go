@@ -1,6 +1,7 @@
 package interval_test
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"strconv"
@@ -42,8 +43,8 @@ func readStrataSets(t *testing.T) map[string][]interval.Stratum {
 }
 
 // TestStratifiedScoreAgainstMpmath: both weightings of the stratified
-// score intervals of the difference and the ratio against
-// testdata/strata_score.tsv, made by an independent mpmath solution of
+// score intervals of the difference, the ratio and the odds ratio against
+// testdata/strata_score.tsv and testdata/strata_score_odds.tsv, made by an independent mpmath solution of
 // the same score equations at 50 digits (testdata/gen/strata_score.py:
 // restricted estimates by bisection on the likelihood's derivative rather
 // than the cubic and the quadratic kofn solves, limits by a 200-point scan
@@ -54,10 +55,11 @@ func TestStratifiedScoreAgainstMpmath(t *testing.T) {
 	// invented: four clinics of very different sizes and rates (as in the generator)
 	sets["uneven"] = []interval.Stratum{{K1: 9, N1: 12, K2: 4, N2: 10}, {K1: 40, N1: 150, K2: 22, N2: 160}, {K1: 3, N1: 30, K2: 1, N2: 25}, {K1: 70, N1: 90, K2: 55, N2: 95}}
 	rows := golden.Read(t, "../testdata/strata_score.tsv")
-	if len(rows) < 60 {
-		t.Fatalf("%d golden rows, want 60", len(rows))
+	odds := golden.Read(t, "../testdata/strata_score_odds.tsv")
+	if len(rows) < 60 || len(odds) < 30 {
+		t.Fatalf("%d and %d golden rows, want 60 and 30", len(rows), len(odds))
 	}
-	for _, r := range rows {
+	for _, r := range append(rows, odds...) {
 		ts, ok := sets[r.Str(0)]
 		if !ok {
 			t.Fatalf("%s: unknown set %q", r.Pos(), r.Str(0))
@@ -72,9 +74,12 @@ func TestStratifiedScoreAgainstMpmath(t *testing.T) {
 		}
 		opt := interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: w, Level: r.Float(3), Side: side}
 		var iv interval.Interval
-		if r.Str(1) == "difference" {
+		switch r.Str(1) {
+		case "difference":
 			iv, err = interval.CommonRiskDifference(ts, opt)
-		} else {
+		case "odds":
+			iv, err = interval.CommonOddsRatio(context.Background(), ts, opt)
+		default:
 			iv, err = interval.CommonRiskRatio(ts, opt)
 		}
 		if err != nil {
@@ -90,15 +95,16 @@ func TestStratifiedScoreAgainstMpmath(t *testing.T) {
 
 // TestStratifiedScoreWeightsOneStratum: with one stratum every weighting
 // gives the unstratified Miettinen-Nurminen interval (the weight cancels
-// from the statistic), which interval.Difference and interval.Ratio
-// check against Newcombe (1998), Table II, method 6, and Miettinen and
-// Nurminen (1985).
+// from the statistic), which interval.Difference, interval.Ratio and
+// interval.OddsRatio check against published values (Newcombe 1998,
+// Table II, method 6, for the difference; see their tests).
 func TestStratifiedScoreWeightsOneStratum(t *testing.T) {
 	t.Parallel()
 	for _, s := range []interval.Stratum{{K1: 56, N1: 70, K2: 48, N2: 80}, {K1: 3, N1: 20, K2: 9, N2: 21}, {K1: 0, N1: 10, K2: 0, N2: 12}, {K1: 9, N1: 10, K2: 0, N2: 20}, {K1: 5, N1: 5, K2: 3, N2: 6}} {
 		ts := []interval.Stratum{s}
 		mnd, _ := interval.Difference(s.K1, s.N1, s.K2, s.N2, interval.DiffOptions{Method: interval.DiffMiettinenNurminen})
 		mnr, _ := interval.Ratio(s.K1, s.N1, s.K2, s.N2, interval.RatioOptions{Method: interval.RatioMiettinenNurminen})
+		mno, _ := interval.OddsRatio(s.K1, s.N1, s.K2, s.N2, interval.OddsOptions{Method: interval.OddsMiettinenNurminen})
 		for _, w := range interval.ScoreWeightsValues() {
 			opt := interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: w}
 			d, err := interval.CommonRiskDifference(ts, opt)
@@ -107,6 +113,13 @@ func TestStratifiedScoreWeightsOneStratum(t *testing.T) {
 			}
 			if diff := cmp.Diff([]float64{mnd.Lower, mnd.Upper}, []float64{d.Lower, d.Upper}, cmpopts.EquateApprox(1e-9, 1e-14)); diff != "" {
 				t.Errorf("%+v %v difference (-Difference +stratified):\n%s", s, w, diff)
+			}
+			o, err := interval.CommonOddsRatio(context.Background(), ts, opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if diff := cmp.Diff([]float64{mno.Estimate, mno.Lower, mno.Upper}, []float64{o.Estimate, o.Lower, o.Upper}, cmpopts.EquateApprox(1e-9, 0), cmpopts.EquateNaNs()); diff != "" {
+				t.Errorf("%+v %v odds ratio (-OddsRatio +stratified):\n%s", s, w, diff)
 			}
 			if s.K1+s.K2 == 0 || s.K2 == 0 {
 				continue // the ratio's Mantel-Haenszel estimate is 0/0 or infinite
@@ -167,7 +180,9 @@ func TestStratifiedScoreWeightsErrors(t *testing.T) {
 // design B, 3 strata of 4+4, 5+4, 3+5, p2 = 0.1, 0.3, 0.6, difference 0.1:
 // 0.9555 and 0.9765 (the all-failure and all-success strata of such tiny
 // designs pull the inverse-variance interval to 0); design C, ratio 2 with
-// p2 = 0.1, 0.2 in 2 strata of 12+12 and 9+10: 0.9684 and 0.9666. Score
+// p2 = 0.1, 0.2 in 2 strata of 12+12 and 9+10: 0.9684 and 0.9666; design
+// D, odds ratio 3 with p2 = 0.2, 0.4 in 2 strata of 10+10 and 8+9: 0.9510
+// and 0.9487. Score
 // intervals are not exact, so the check is that the coverage lies within
 // 0.93 to 0.99 (a gross error of a limit leaves that band) and that the
 // outcomes' probabilities sum to 1.
@@ -181,16 +196,17 @@ func TestStratifiedScoreCoverage(t *testing.T) {
 		n1, n2 []int64
 		p2     []float64
 		effect float64
-		ratio  bool
+		kind   string
 	}
 	designs := []design{
-		{"A", []int64{10, 6}, []int64{10, 8}, []float64{0.2, 0.5}, 0.2, false},
-		{"B", []int64{4, 5, 3}, []int64{4, 4, 5}, []float64{0.1, 0.3, 0.6}, 0.1, false},
-		{"C", []int64{12, 9}, []int64{12, 10}, []float64{0.1, 0.2}, 2, true},
+		{"A", []int64{10, 6}, []int64{10, 8}, []float64{0.2, 0.5}, 0.2, "difference"},
+		{"B", []int64{4, 5, 3}, []int64{4, 4, 5}, []float64{0.1, 0.3, 0.6}, 0.1, "difference"},
+		{"C", []int64{12, 9}, []int64{12, 10}, []float64{0.1, 0.2}, 2, "ratio"},
+		{"D", []int64{10, 8}, []int64{10, 9}, []float64{0.2, 0.4}, 3, "odds"},
 	}
 	for _, d := range designs {
 		for _, w := range interval.ScoreWeightsValues() {
-			cov, total := coverage(t, d.n1, d.n2, d.p2, d.effect, d.ratio, w)
+			cov, total := coverage(t, d.n1, d.n2, d.p2, d.effect, d.kind, w)
 			t.Logf("design %s, %v weights: coverage %.4f", d.name, w, cov)
 			if math.Abs(total-1) > 1e-9 || cov < 0.93 || cov > 0.99 {
 				t.Errorf("design %s, %v weights: coverage %.4f (total probability %v)", d.name, w, cov, total)
@@ -201,14 +217,17 @@ func TestStratifiedScoreCoverage(t *testing.T) {
 
 // coverage enumerates every outcome of the strata and sums the
 // probabilities of those whose interval holds the true effect.
-func coverage(t *testing.T, n1, n2 []int64, p2 []float64, effect float64, ratio bool, w interval.ScoreWeights) (cov, total float64) {
+func coverage(t *testing.T, n1, n2 []int64, p2 []float64, effect float64, kind string, w interval.ScoreWeights) (cov, total float64) {
 	t.Helper()
 	k := len(n1)
 	pmf := make([][2][]float64, k)
 	for i := range k {
 		p1 := p2[i] + effect
-		if ratio {
+		switch kind {
+		case "ratio":
 			p1 = p2[i] * effect
+		case "odds":
+			p1 = effect * p2[i] / (1 - p2[i] + effect*p2[i])
 		}
 		for g, pn := range [2]struct {
 			n int64
@@ -231,9 +250,12 @@ func coverage(t *testing.T, n1, n2 []int64, p2 []float64, effect float64, ratio 
 			opt := interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: w}
 			var iv interval.Interval
 			var err error
-			if ratio {
+			switch kind {
+			case "ratio":
 				iv, err = interval.CommonRiskRatio(ts, opt)
-			} else {
+			case "odds":
+				iv, err = interval.CommonOddsRatio(context.Background(), ts, opt)
+			default:
 				iv, err = interval.CommonRiskDifference(ts, opt)
 			}
 			if err != nil {
@@ -267,4 +289,51 @@ func ExampleScoreWeights() {
 	// Output:
 	// Mantel-Haenszel weights: 0.1536 [0.0856, 0.2219]
 	// inverse-variance score weights: 0.1378 [0.0703, 0.2075]
+}
+
+// FuzzStratifiedScore: every stratified score interval, with either
+// weighting, gives ordered limits inside the parameter's range, no NaN
+// limit, and (without a warning of a broken acceptance set) an estimate
+// between its limits.
+func FuzzStratifiedScore(f *testing.F) {
+	f.Add(int64(12), int64(30), int64(6), int64(28), int64(3), int64(5), int64(2), int64(1), uint8(3), uint8(0))
+	f.Add(int64(0), int64(10), int64(0), int64(12), int64(1), int64(1), int64(1), int64(1), uint8(2), uint8(1))
+	f.Fuzz(func(t *testing.T, a, b, c, d, e, g, h, i int64, k, w uint8) {
+		var ts []interval.Stratum
+		for j := range int64(k%5 + 1) {
+			n1, n2 := (b+j*g)%30, (d+j*i)%30
+			if n1 < 0 {
+				n1 = -n1
+			}
+			if n2 < 0 {
+				n2 = -n2
+			}
+			k1, k2 := (a+j*e)%(n1+1), (c+j*h)%(n2+1)
+			if k1 < 0 {
+				k1 = -k1
+			}
+			if k2 < 0 {
+				k2 = -k2
+			}
+			ts = append(ts, interval.Stratum{K1: k1, N1: n1, K2: k2, N2: n2})
+		}
+		opt := interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: interval.ScoreWeights(w % 2)}
+		check := func(name string, iv interval.Interval, err error, lo, hi float64) {
+			if err != nil {
+				t.Fatalf("%s %+v: %v", name, ts, err)
+			}
+			if math.IsNaN(iv.Lower) || math.IsNaN(iv.Upper) || iv.Lower > iv.Upper || iv.Lower < lo || iv.Upper > hi {
+				t.Fatalf("%s %+v: %+v", name, ts, iv)
+			}
+			if len(iv.Warnings) == 0 && !math.IsNaN(iv.Estimate) && (iv.Estimate < iv.Lower-1e-9*math.Abs(iv.Lower)-1e-12 || iv.Estimate > iv.Upper+1e-9*math.Abs(iv.Upper)+1e-12) {
+				t.Fatalf("%s %+v: estimate outside: %+v", name, ts, iv)
+			}
+		}
+		iv, err := interval.CommonRiskDifference(ts, opt)
+		check("difference", iv, err, -1, 1)
+		iv, err = interval.CommonRiskRatio(ts, opt)
+		check("ratio", iv, err, 0, math.Inf(1))
+		iv, err = interval.CommonOddsRatio(context.Background(), ts, opt)
+		check("odds", iv, err, 0, math.Inf(1))
+	})
 }

@@ -82,6 +82,63 @@ func oddsMLE(x1, n1, x2, n2 int64, psi float64) (p1, q1, p2, q2 float64) {
 // with (p1~, p2~) from OddsMLE and f = N/(N-1) (MiettinenNurminen) or 1
 // (FarringtonManning). Z decreases in psi.
 func OddsZ(x1, n1, x2, n2 int64, psi float64, v Variance) float64 {
+	num, w1, w2 := oddsParts(x1, n1, x2, n2, psi)
+	if w1 == 0 || w2 == 0 {
+		return zRatio(num, 0)
+	}
+	// Var(x1 - n1 p1~) = 1 / (1/w1 + 1/w2) = w1 w2 / (w1 + w2).
+	return zRatio(num, v.factor(n1, n2)*w1*w2/(w1+w2))
+}
+
+// StratifiedOddsZ returns the stratified score statistic of a common odds
+// ratio psi across strata,
+//
+//	Z(psi) = sum w_i d_i / sqrt( sum w_i^2 V_i(psi) ),
+//	d_i = (p1^ - p1~)/(p1~ q1~) - (p2^ - p2~)/(p2~ q2~) = (x1 - n1 p1~) s_i,
+//	V_i = f s_i,   s_i = 1/(n1 p1~ q1~) + 1/(n2 p2~ q2~),
+//
+// (p1~, p2~) from OddsMLE in each stratum (the Miettinen-Nurminen form of
+// the odds-ratio score, recalled), with Mantel-Haenszel weights
+// w_i = n1_i n2_i / (n1_i + n2_i) or inverse-variance score weights
+// w_i = 1 / V_i(psi), which make Z = sum (x1 - n1 p1~)/f / sqrt(sum 1/V_i).
+// With one stratum it is OddsZ. Strata with an empty group, or whose
+// successes are 0 or every trial (no information on an odds ratio), are
+// left out.
+func StratifiedOddsZ(x1, n1, x2, n2 []int64, psi float64, v Variance, w Weights) float64 {
+	var num, vr float64
+	for i := range x1 {
+		m := x1[i] + x2[i]
+		if n1[i] == 0 || n2[i] == 0 || m == 0 || m == n1[i]+n2[i] {
+			continue
+		}
+		d, w1, w2 := oddsParts(x1[i], n1[i], x2[i], n2[i], psi)
+		f := v.factor(n1[i], n2[i])
+		if w1 == 0 || w2 == 0 {
+			// The restricted fit sits at an end (psi at 0 or +Inf in
+			// floating point): the stratum's variance of d is unbounded,
+			// its inverse-variance weight 0.
+			if w == InverseVarianceWeights {
+				num += d / f
+				continue
+			}
+			return zRatio(d, 0)
+		}
+		si := 1/w1 + 1/w2
+		if w == InverseVarianceWeights {
+			num += d / f
+			vr += 1 / (f * si)
+			continue
+		}
+		wi := float64(n1[i]) * float64(n2[i]) / float64(n1[i]+n2[i])
+		num += wi * d * si
+		vr += wi * wi * f * si
+	}
+	return zRatio(num, vr)
+}
+
+// oddsParts returns x1 - n1 p1~ in its most accurate form and the
+// binomial variances w1 = n1 p1~ q1~, w2 = n2 p2~ q2~ at psi.
+func oddsParts(x1, n1, x2, n2 int64, psi float64) (num, w1, w2 float64) {
 	p1, q1, p2, q2 := oddsMLE(x1, n1, x2, n2, psi)
 	f1, f2 := float64(n1), float64(n2)
 	// x1 - n1 p1~ equals n2 p2~ - x2 (the restricted estimates keep the
@@ -101,10 +158,5 @@ func OddsZ(x1, n1, x2, n2 int64, psi float64, v Variance) float64 {
 			num, scale = c[0], c[1]
 		}
 	}
-	w1, w2 := f1*p1*q1, f2*p2*q2
-	if w1 == 0 || w2 == 0 {
-		return zRatio(num, 0)
-	}
-	// Var(x1 - n1 p1~) = 1 / (1/w1 + 1/w2) = w1 w2 / (w1 + w2).
-	return zRatio(num, v.factor(n1, n2)*w1*w2/(w1+w2))
+	return num, f1 * p1 * q1, f2 * p2 * q2
 }
