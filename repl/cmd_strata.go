@@ -14,7 +14,7 @@ import (
 
 var strataMethods = []string{"cmh", "cmh-cc", "exact"}
 
-var strataEffects = []string{"odds", "ratio", "ratio-score", "difference", "difference-score"}
+var strataEffects = []string{"odds", "odds-score", "ratio", "ratio-score", "difference", "difference-score"}
 
 func strataCommand() *command {
 	return &command{
@@ -24,8 +24,8 @@ func strataCommand() *command {
 		Usage:   "strata K1/N1:K2/N2 [K1/N1:K2/N2 ...] | strata file=F [by=COLUMN] [method=M] [effect=E] [weights=W] [homogeneity=H] [alt=A] [rule=R] [midp=on] [level=L]",
 		Methods: strataMethods,
 		Options: []opt{optMethod("test", strataMethods),
-			{Name: "effect", Doc: "the common effect shown: odds (odds ratio, default), ratio (risk ratio p1/p2, Mantel-Haenszel with the Greenland-Robins variance), ratio-score (p1/p2, stratified Miettinen-Nurminen score interval), difference (p1 - p2, Mantel-Haenszel with Sato's variance), difference-score (p1 - p2, stratified Miettinen-Nurminen score interval)", Values: strataEffects},
-			{Name: "weights", Doc: "the stratum weights of effect=difference-score and effect=ratio-score: mh (default), the Mantel-Haenszel weights n1 n2 / (n1 + n2); ivs, inverse-variance score weights recomputed at every value tried (a stratum with no successes, or only successes, in both groups then keeps no difference inside the interval)", Values: strataWeights},
+			{Name: "effect", Doc: "the common effect shown: odds (odds ratio, default), odds-score (odds ratio, stratified Miettinen-Nurminen score interval), ratio (risk ratio p1/p2, Mantel-Haenszel with the Greenland-Robins variance), ratio-score (p1/p2, stratified Miettinen-Nurminen score interval), difference (p1 - p2, Mantel-Haenszel with Sato's variance), difference-score (p1 - p2, stratified Miettinen-Nurminen score interval)", Values: strataEffects},
+			{Name: "weights", Doc: "the stratum weights of effect=difference-score, ratio-score and odds-score: mh (default), the Mantel-Haenszel weights n1 n2 / (n1 + n2); ivs, inverse-variance score weights recomputed at every value tried (for the difference, a stratum with no successes, or only successes, in both groups then keeps 0 inside the interval)", Values: strataWeights},
 			{Name: "homogeneity", Doc: "the test that the strata share one odds ratio: breslow-day (default; with Tarone's correction) or zelen (Zelen's exact test given every stratum's margins; refused with a message when too large, then use breslow-day)", Values: strataHomogeneity},
 			{Name: "file", Doc: "a CSV file with one stratum per row in columns k1, n1, k2, n2 (a header row names them)"},
 			{Name: "by", Doc: "with file=: a column whose values group the rows into separate analyses"},
@@ -44,7 +44,7 @@ func strataCommand() *command {
 				"margins, by convolution), with rule= and midp=, and the exact conditional interval and estimate of " +
 				"the common odds ratio. Common effects by Mantel-Haenszel: odds ratio with the Robins-Breslow-" +
 				"Greenland variance, risk ratio with the Greenland-Robins variance, risk difference with Sato's. " +
-				"difference-score and ratio-score: the stratified Miettinen-Nurminen score intervals, with weights=mh " +
+				"difference-score, ratio-score and odds-score: the stratified Miettinen-Nurminen score intervals, with weights=mh " +
 				"(Mantel-Haenszel weights, default) or weights=ivs (inverse-variance score weights recomputed at every " +
 				"value tried, one of the weightings Tang 2020 studies, as recalled). Homogeneity: homogeneity=breslow-day " +
 				"(default) or homogeneity=zelen, Zelen's exact test given every stratum's margins and the total of the " +
@@ -198,7 +198,7 @@ func readStrataSettings(c *call) (strataSettings, error) {
 	}
 	if w == "ivs" {
 		if !strings.HasSuffix(st.effect, "-score") {
-			return st, inputErr("weights="+w, "applies to effect=difference-score or effect=ratio-score")
+			return st, inputErr("weights="+w, "applies to effect=difference-score, effect=ratio-score or effect=odds-score")
 		}
 		st.weights = interval.WeightsInverseVariance
 	}
@@ -245,6 +245,9 @@ func (st strataSettings) analyse(ctx context.Context, key string, ts []interval.
 	case "difference-score":
 		co.Method, co.Weights = interval.CommonStratifiedScore, st.weights
 		common, err = interval.CommonRiskDifference(ts, co)
+	case "odds-score":
+		co.Method, co.Weights = interval.CommonStratifiedScore, st.weights
+		common, err = interval.CommonOddsRatio(ctx, ts, co)
 	default:
 		if st.cmh.Exact && r.Interval != nil {
 			common = *r.Interval

@@ -94,6 +94,11 @@ func TestStrataWeightsAndHomogeneity(t *testing.T) {
 	if got := num(t, obj, "homogeneity.p_value"); got != z.PValue {
 		t.Errorf("homogeneity p-value %v, package %v", got, z.PValue)
 	}
+	odds := runJSON(t, "strata 9/12:4/10 40/150:22/160 3/30:1/25 70/90:55/95 effect=odds-score")
+	or, _ := interval.CommonOddsRatio(context.Background(), clinics, interval.CommonOptions{Method: interval.CommonStratifiedScore})
+	if got := num(t, odds, "common.upper"); got != or.Upper {
+		t.Errorf("odds-score upper limit %v, package %v", got, or.Upper)
+	}
 	if msg, err := runErr("strata 12/30:6/28 8/25:5/27 weights=ivs"); err == nil || !strings.Contains(msg, "weights=ivs") {
 		t.Errorf("weights without a score effect: %q, %v", msg, err)
 	}
