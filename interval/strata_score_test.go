@@ -337,3 +337,40 @@ func FuzzStratifiedScore(f *testing.F) {
 		check("odds", iv, err, 0, math.Inf(1))
 	})
 }
+
+// BenchmarkStratifiedScore: the stratified score intervals over 100
+// invented strata of 10 + 12 trials, by effect and weighting.
+func BenchmarkStratifiedScore(b *testing.B) {
+	ts := make([]interval.Stratum, 100)
+	for i := range ts {
+		ts[i] = interval.Stratum{K1: int64(1 + i%7), N1: 10, K2: int64(1 + i%5), N2: 12}
+	}
+	for _, w := range interval.ScoreWeightsValues() {
+		opt := interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: w}
+		name := "mh"
+		if w == interval.WeightsInverseVariance {
+			name = "ivs"
+		}
+		b.Run("difference/"+name, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := interval.CommonRiskDifference(ts, opt); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run("ratio/"+name, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := interval.CommonRiskRatio(ts, opt); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run("odds/"+name, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := interval.CommonOddsRatio(context.Background(), ts, opt); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
