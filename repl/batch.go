@@ -59,7 +59,8 @@ func eachCommand() *command {
 				"value of the key column, in order of first appearance: the key, the number of strata, the test's " +
 				"p-value and statistic, the common effect with its limits, the homogeneity p-value, what was computed " +
 				"and the warnings; a group with an unusable row is not analysed and carries that row's line and reason " +
-				"in the error column. The file needs a header naming the columns and the key; it is held in memory " +
+				"in the error column; a row whose key cannot be read stops the run before anything is computed (any group " +
+				"could lack a stratum). The file needs a header naming the columns and the key; it is held in memory " +
 				"(up to 1,000,000 rows). Invented example: a file sites.csv with columns site,k1,n1,k2,n2, one row per " +
 				"site and week: each sites.csv strata by=site effect=difference-score.",
 			Methods: "", // filled by newTable with the row verbs

@@ -47,7 +47,9 @@ type strataGroup struct {
 // stratum) into groups by the key column, in order of first appearance,
 // runs the strata analysis on each group and writes one CSV row per
 // group. A group with an unusable row is not analysed: its row carries
-// that line and the reason in the error column.
+// that line and the reason in the error column. A row whose key cannot be
+// read (a broken record, or too few fields to reach the key) stops the
+// run before anything is computed, since any group could lack a stratum.
 func runEachGroups(c *call, verb *command, file string, words []string) error {
 	var rest []string
 	to, adjustWord := "", ""
@@ -278,10 +280,17 @@ func readGroups(ctx context.Context, in io.Reader, source, by string, want []str
 		if rows&4095 == 0 && ctx.Err() != nil {
 			return nil, 0, &InputError{Token: source, Reason: "stopped (interrupted) while reading; nothing was computed"}
 		}
-		key := ""
-		if rec.err == nil && keyCol < len(rec.fields) {
-			key = strings.TrimSpace(rec.fields[keyCol])
+		// A row whose key cannot be read could belong to any group, and
+		// every group's analysis could then miss a stratum: the run stops.
+		if rec.err != nil {
+			return nil, 0, inputErr(source, "line "+strconv.Itoa(rec.line)+": "+safeText(shortenWords(reasonLine(rec.err)), false)+
+				"; its "+by+" key cannot be read, so the group it belongs to is unknown: fix the row (nothing was computed)")
 		}
+		if keyCol >= len(rec.fields) {
+			return nil, 0, inputErr(source, "line "+strconv.Itoa(rec.line)+": has "+strconv.Itoa(len(rec.fields))+" fields and no "+by+
+				" key, so the group it belongs to is unknown: fix the row (nothing was computed)")
+		}
+		key := strings.TrimSpace(rec.fields[keyCol])
 		g := byKey[key]
 		if g == nil {
 			g = &strataGroup{key: key}
@@ -295,8 +304,6 @@ func readGroups(ctx context.Context, in io.Reader, source, by string, want []str
 		problem := ""
 		var v [4]int64
 		switch {
-		case rec.err != nil:
-			problem = reasonLine(rec.err)
 		case len(rec.fields) != len(first.fields):
 			problem = "has " + strconv.Itoa(len(rec.fields)) + " fields, the header " + strconv.Itoa(len(first.fields))
 		default:
