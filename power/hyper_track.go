@@ -29,22 +29,28 @@ import (
 // Every value carries a bound on its rounding error, grown by the
 // standard model of floating-point arithmetic (each operation within one
 // unit in the last place, u = 2^-53) at every step; an anchor whose bound
-// grows by more than 1e-10 (relative), or whose point probability underflows, is
-// set again from binom.Hyper's own LogProb and tails (accuracy 1e-13
-// relative to max(1, |ln P|), as documented there).
+// grows by more than 1e-10 (relative), or whose point probability
+// underflows, is set again from binom.Hyper's own LogProb and tails
+// (accuracy 1e-13 relative to max(1, |ln P|), as documented there).
 //
 // A decision is taken here only when it is certain: when every comparison
 // of two point probabilities that fixes the set of outcomes "as or more
 // extreme" (onesample's relative tolerance RelTol) is clear of that
 // tolerance by more than decideGap plus the error bounds, and when the
 // p-value so found is clear of alpha by more than decideGap (relative)
-// plus its error bound. decideGap (1e-9) is some ten thousand times the
-// documented error of binom.Hyper's log-probabilities and tails, which
-// is what onesample.LogPValueOf, the test package's Fisher p-value,
-// computes from; so a certain decision here is the decision the test
-// package takes. Every other decision (ties within the gap: alpha met to
-// nine digits, or two probabilities within 1e-9 of the tolerance) is
-// left to onesample.LogPValueOf itself.
+// plus its error bound. decideGap (1e-9) is a thousand times the
+// documented error of binom.Hyper's log-probabilities and tails at the
+// p-values and point probabilities that decide a test at usual levels
+// (ln P of -5 to -20; still fourteen times it at ln P = -700), which is
+// what onesample.LogPValueOf, the test package's Fisher p-value, computes
+// from; so a certain decision here is the decision the test package
+// takes. Every other decision (ties within the gap: alpha met to nine
+// digits, or two probabilities within 1e-9 of the tolerance) is left to
+// onesample.LogPValueOf itself. An outcome whose probability underflows
+// the anchors is rejected here only when hi-lo+1 times its probability
+// (from binom.Hyper.LogProb), a bound on its p-value, is below alpha.
+// The regions so built are checked against those of the test package's
+// decisions alone in exact_two_oracle_check_test.go.
 type hyperTrack struct {
 	h            binom.Hyper
 	n, k         int64 // total N and successes n1 (group 1)
