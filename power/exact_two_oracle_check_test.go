@@ -2,6 +2,7 @@ package power
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -278,4 +279,34 @@ func TestTwoSampleLargeMatchesOracle(t *testing.T) {
 			t.Errorf("Barnard %d x %d upper ends (-want +got):\n%s", n, n, diff)
 		}
 	}
+}
+
+// FuzzTwoSampleNOracle compares the search with the oracle on arbitrary
+// proportions, levels, targets, alternatives and allocation ratios
+// (Fisher and the z test; small MaxN so that each input is quick): the
+// same result, or the same error.
+//
+//	go test ./power -run '^$' -fuzz '^FuzzTwoSampleNOracle$' -fuzztime 5m -parallel 1
+func FuzzTwoSampleNOracle(f *testing.F) {
+	f.Add(0.2, 0.4, 0.05, 0.8, 0, 0, 1.0)
+	f.Add(0.5, 0.9, 1e-6, 0.99, 1, 2, 0.3)
+	f.Add(0.001, 0.2, 0.3, 0.5, 2, 1, 7.0)
+	f.Add(0.97, 0.6, 0.0013, 0.9, 1, 0, 0.05)
+	f.Fuzz(func(t *testing.T, p1, p2, alpha, pw float64, alt, tst int, ratio float64) {
+		ctx, cancel := context.WithTimeout(context.Background(), 5*time.Second)
+		defer cancel()
+		o := TwoSampleOptions{Alpha: alpha, Power: pw, Alternative: test.Alternative(((alt % 3) + 3) % 3),
+			Test: ExactTest(((tst % 2) + 2) % 2 * 2), Ratio: ratio, MaxN: 150}
+		want, werr := oracleTwoSampleN(ctx, p1, p2, o)
+		got, gerr := TwoSampleN(ctx, p1, p2, o)
+		if errors.Is(werr, context.DeadlineExceeded) || errors.Is(gerr, context.DeadlineExceeded) {
+			t.Skip("deadline")
+		}
+		if (werr == nil) != (gerr == nil) || (werr != nil && werr.Error() != gerr.Error()) {
+			t.Fatalf("p1=%v p2=%v %+v: error %v, want %v", p1, p2, o, gerr, werr)
+		}
+		if diff := cmp.Diff(want, got, cmpopts.EquateApprox(1e-12, 0), cmpopts.EquateNaNs()); diff != "" {
+			t.Fatalf("p1=%v p2=%v %+v (-want +got):\n%s", p1, p2, o, diff)
+		}
+	})
 }
