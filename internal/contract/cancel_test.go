@@ -26,10 +26,9 @@ type cancelCase struct {
 }
 
 // cancelCases lists every context-taking function of interval and power
-// whose cost grows with a documented limit (the unconditional tests and
-// the exact two-sample power and search have their own measurements with
-// their rewrite; binom has no context-taking function: its limits refuse
-// work beyond about 10 ms instead).
+// whose cost grows with a documented limit (the unconditional tests have
+// their own measurements with their rewrite; binom has no context-taking
+// function: its limits refuse work beyond about 10 ms instead).
 func cancelCases() []cancelCase {
 	blaker := interval.Options{Method: interval.Blaker}
 	grid := make([]float64, 10_000)
@@ -47,6 +46,18 @@ func cancelCases() []cancelCase {
 		}, nil},
 		{"interval.CoverageCurve", "n = MaxCurveN = 1e6, 1e4 points, Blaker", func(ctx context.Context) error {
 			return err3(interval.CoverageCurve(ctx, interval.MaxCurveN, grid, blaker))
+		}, nil},
+		{"power.TwoSampleN Fisher", "0.1 vs 0.1009, MaxN = 1e6 (first size near 18,000 per group)", func(ctx context.Context) error {
+			return err(power.TwoSampleN(ctx, 0.1, 0.1009, power.TwoSampleOptions{MaxN: 1_000_000}))
+		}, nil},
+		{"power.TwoSampleN z", "0.1 vs 0.1009, MaxN = 1e6", func(ctx context.Context) error {
+			return err(power.TwoSampleN(ctx, 0.1, 0.1009, power.TwoSampleOptions{MaxN: 1_000_000, Test: power.ZPooledTest}))
+		}, nil},
+		{"power.TwoSampleN Barnard", "0.1 vs 0.12, MaxN = 1e6 (first size near 4,000 per group)", func(ctx context.Context) error {
+			return err(power.TwoSampleN(ctx, 0.1, 0.12, power.TwoSampleOptions{MaxN: 1_000_000, Test: power.BarnardExactTest}))
+		}, nil},
+		{"power.TwoSamplePower Barnard", "20,000 x 20,000, 0.1 vs 0.11", func(ctx context.Context) error {
+			return err(power.TwoSamplePower(ctx, 20_000, 20_000, 0.1, 0.11, power.TwoSampleOptions{Test: power.BarnardExactTest}))
 		}, nil},
 		{"power.OneSampleN", "p 0.5 vs 0.5001, MaxN = MaxSearchN = 1e7", func(ctx context.Context) error {
 			return err(power.OneSampleN(ctx, 0.5, 0.5001, power.OneSampleOptions{MaxN: power.MaxSearchN}))
