@@ -188,7 +188,7 @@ func CommonOddsRatio(ctx context.Context, ts []Stratum, opt CommonOptions) (Inte
 	}
 	iv := Interval{Level: lv.level, Side: lv.side, Method: opt.Method.String(), Parameter: "common odds ratio"}
 	if m := strata.MH(ts); m.Used < len(ts) {
-		iv.Warnings = append(iv.Warnings, argerr.Format(len(ts)-m.Used)+" strata with an empty group carry no information and were left out")
+		iv.Warnings = append(iv.Warnings, strataCount(len(ts)-m.Used, "with an empty group carries", "with an empty group carry")+" no information and "+map[bool]string{true: "was", false: "were"}[len(ts)-m.Used == 1]+" left out")
 	}
 	switch opt.Method {
 	case CommonMantelHaenszelGR:
@@ -470,4 +470,13 @@ func stratifiedRatioScore(ts []Stratum, lv level, iv *Interval) {
 			iv.Upper = math.Exp(r)
 		}
 	}
+}
+
+// strataCount returns "1 stratum " + one or "n strata " + many (the verb
+// or phrase that follows the count), for warnings.
+func strataCount(n int, one, many string) string {
+	if n == 1 {
+		return "1 stratum " + one
+	}
+	return argerr.Format(n) + " strata " + many
 }

@@ -229,8 +229,8 @@ func ivsDifference(ts []Stratum, lv level, iv *Interval) {
 	}
 	iv.Estimate, iv.Lower, iv.Upper = est, lo, hi
 	if u := uniformStrata(ts, false); u > 0 {
-		iv.Warnings = append(iv.Warnings, argerr.Format(u)+" strata have no successes, or only successes, in both groups: "+
-			"their inverse-variance weights grow without bound near a difference of 0, so 0 is always inside the interval; prefer the Mantel-Haenszel weights")
+		iv.Warnings = append(iv.Warnings, strataCount(u, "has", "have")+" no successes, or only successes, in both groups: "+
+			"the inverse-variance weights grow without bound near a difference of 0, so 0 is always inside the interval; prefer the Mantel-Haenszel weights")
 	}
 	if gap {
 		iv.Warnings = append(iv.Warnings, weightsGapWarning("a difference of 0"))
@@ -258,8 +258,8 @@ func ivsRatio(ts []Stratum, lv level, iv *Interval) {
 		iv.Upper = math.Inf(1)
 	}
 	if u := uniformStrata(ts, true); u > 0 {
-		iv.Warnings = append(iv.Warnings, argerr.Format(u)+" strata have only successes in both groups: "+
-			"their inverse-variance weights grow without bound near a ratio of 1, so 1 is always inside the interval; prefer the Mantel-Haenszel weights")
+		iv.Warnings = append(iv.Warnings, strataCount(u, "has", "have")+" only successes in both groups: "+
+			"the inverse-variance weights grow without bound near a ratio of 1, so 1 is always inside the interval; prefer the Mantel-Haenszel weights")
 	}
 	if gap {
 		iv.Warnings = append(iv.Warnings, weightsGapWarning("a ratio of 1"))

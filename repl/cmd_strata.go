@@ -314,7 +314,7 @@ func runStrata(c *call) error {
 			return err
 		}
 		r, common := res.Test, res.Common
-		title := r.Method + " test of a common odds ratio 1 across " + strconv.Itoa(len(ts)) + " strata, " + st.sideText
+		title := r.Method + " test of a common odds ratio 1 across " + strataWord(len(ts)) + ", " + st.sideText
 		if key != "" {
 			title = a.Str("by", "") + " = " + key + ": " + title
 		}
@@ -424,4 +424,12 @@ func runTrend(c *call) error {
 	b.Warn(r.Warnings...)
 	c.Data(r)
 	return a.Check()
+}
+
+// strataWord returns "1 stratum" or "n strata".
+func strataWord(n int) string {
+	if n == 1 {
+		return "1 stratum"
+	}
+	return strconv.Itoa(n) + " strata"
 }
