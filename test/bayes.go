@@ -25,12 +25,13 @@ const MaxQuadratureShapes = 1e5
 // modes ln(a/b) - 6 sqrt(1/a + 1/b) to the higher of ln(a/b) + 6 sqrt(1/a
 // + 1/b), spans more than MaxTrapezoidSteps steps of the rule (the step is
 // about 1.5/sqrt(a1+b1+a2+b2)), and stops with ErrTooLarge should its walk
-// reach twice as many nodes. Reaching it takes a posterior shape below
-// about 0.3 beside totals of tens of thousands of trials (every Jeffreys
-// posterior up to MaxQuadratureShapes passes); the walk costs about 10 ms
-// at the limit (BenchmarkCompareTrapezoidWide). ProbBest, which takes a
-// context, has no such limit.
-const MaxTrapezoidSteps = 16384
+// reach twice as many nodes (it takes 0.6 to 1.2 nodes a step in trials).
+// Reaching it takes a posterior shape below about 0.2 beside totals of
+// tens of thousands of trials (every Jeffreys posterior up to
+// MaxQuadratureShapes passes); near the limit a comparison takes about
+// 8 ms (BenchmarkCompareTrapezoidLimit: about 11,000 nodes). ProbBest,
+// which takes a context, has no such limit.
+const MaxTrapezoidSteps = 12288
 
 // ArmComparison is the Bayesian answer to "which arm is better": the
 // posterior probability that each arm's success probability exceeds the
@@ -128,11 +129,12 @@ type CompareOptions struct {
 // what it leaves out, and skip stretches of the tails between bounds from
 // chords and secants. With rounding bounded term by term, ErrorBound is a
 // certified bound relative to the answer (see ArmComparison.ErrorBound and
-// the derivation in bayes_trapezoid.go): typically 3e-14 to 5e-13 of the
-// probability, up to 1e-11 for probabilities below e^-700 and posteriors
-// near MaxQuadratureShapes, whose incomplete beta functions are accurate to
-// about 1e-14 of their logarithms. Checked against 40-digit mpmath
-// quadrature (testdata/test_bayes_bound.tsv).
+// the derivation in bayes_trapezoid.go): 4e-14 to 4e-13 of the
+// probability for the invented posteriors of testdata/test_bayes_bound.tsv
+// (40-digit mpmath quadrature; shapes 0.1 to totals of 1e5), more for tiny
+// probabilities, whose incomplete beta functions are accurate to about
+// 1e-14 of their logarithms (1.4e-12 at e^-168, 1.1e-11 at e^-1522); the
+// actual errors there were at most 0.06 of ErrorBound.
 //
 // The expected losses follow in closed form from the two probabilities
 // (see losses): E[max(p2 - p1, 0)] = (m2 - m1) P(p2 > p1) + H (1/(a1+b1) +
@@ -171,7 +173,7 @@ func Compare(k1, n1, k2, n2 int64, opt CompareOptions) (ArmComparison, error) {
 			return ArmComparison{}, err
 		}
 		if trapezoidSteps([]float64{a1, a2}, []float64{b1, b2}) > MaxTrapezoidSteps {
-			return ArmComparison{}, argerr.TooLarge(fn, "n1", n1, "with n2 and the priors gives posteriors whose window spans more than MaxTrapezoidSteps = 16384 steps of the trapezoidal rule (a shape below 1 beside totals of tens of thousands of trials); use ProbBest, which takes a context, or the uniform prior, whose exact sum serves any size")
+			return ArmComparison{}, argerr.TooLarge(fn, "n1", n1, "with n2 and the priors gives posteriors whose window spans more than MaxTrapezoidSteps = 12288 steps of the trapezoidal rule (a shape below 1 beside totals of tens of thousands of trials); use ProbBest, which takes a context, or the uniform prior, whose exact sum serves any size")
 		}
 	}
 	c := ArmComparison{Prior1: pr1, Prior2: pr2, A1: a1, B1: b1, A2: a2, B2: b2}

@@ -128,6 +128,20 @@ func BenchmarkCompareTrapezoidRare(b *testing.B) {
 	}
 }
 
+// BenchmarkCompareTrapezoidLimit: Beta(0.1, 0.1) priors, 0 of 75,000
+// against no trials (posterior shapes 0.1, 75000.1 and 0.1, 0.1): a window
+// of about 12,150 steps, near MaxTrapezoidSteps.
+func BenchmarkCompareTrapezoidLimit(b *testing.B) {
+	p := interval.BetaPrior(0.1, 0.1)
+	o := test.CompareOptions{Prior1: p, Prior2: p}
+	if r, err := test.Compare(0, 75000, 0, 0, o); err != nil || r.Method == "closed-form sum" {
+		b.Fatal(r.Method, err)
+	}
+	for b.Loop() {
+		test.Compare(0, 75000, 0, 0, o)
+	}
+}
+
 // BenchmarkCompareTrapezoidWide: Jeffreys posteriors after 0 of 49,999 each
 // (shapes 0.5 and 49999.5, broad in the log-odds: a long walk).
 func BenchmarkCompareTrapezoidWide(b *testing.B) {
