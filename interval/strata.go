@@ -230,7 +230,11 @@ func CommonOddsRatio(ctx context.Context, ts []Stratum, opt CommonOptions) (Inte
 			iv.Method += " with inverse-variance score weights"
 		}
 		iv.Estimate = m.R / m.S
-		scoreOdds(ts, lv, opt.Weights, &iv)
+		z, stopped := cancelable(ctx, fn)
+		scoreOdds(ts, lv, opt.Weights, z, &iv)
+		if err := stopped(); err != nil {
+			return Interval{}, err
+		}
 		return iv, nil
 	}
 	iv.Method = "Mantel-Haenszel Robins-Breslow-Greenland"
@@ -263,7 +267,7 @@ func CommonOddsRatio(ctx context.Context, ts []Stratum, opt CommonOptions) (Inte
 // successes in both groups keeps 1 inside the interval, with a warning;
 // strata without successes carry no information on a ratio and are left
 // out). Errors and warnings as CommonOddsRatio.
-func CommonRiskRatio(ts []Stratum, opt CommonOptions) (Interval, error) {
+func CommonRiskRatio(ctx context.Context, ts []Stratum, opt CommonOptions) (Interval, error) {
 	const fn = "interval.CommonRiskRatio"
 	lv, err := commonSetup(fn, ts, opt)
 	if err != nil {
@@ -287,10 +291,16 @@ func CommonRiskRatio(ts []Stratum, opt CommonOptions) (Interval, error) {
 		iv.Method = "stratified Miettinen-Nurminen score"
 		if opt.Weights == WeightsInverseVariance {
 			iv.Method += " with inverse-variance score weights"
-			ivsRatio(ts, lv, &iv)
-			return iv, nil
 		}
-		stratifiedRatioScore(ts, lv, &iv)
+		z, stopped := cancelable(ctx, fn)
+		if opt.Weights == WeightsInverseVariance {
+			ivsRatio(ts, lv, z, &iv)
+		} else {
+			stratifiedRatioScore(ts, lv, z, &iv)
+		}
+		if err := stopped(); err != nil {
+			return Interval{}, err
+		}
 		return iv, nil
 	}
 	se := math.Sqrt(m.RRVar / (m.RRNum * m.RRDen))
@@ -340,7 +350,7 @@ func CommonRiskRatio(ts []Stratum, opt CommonOptions) (Interval, error) {
 // Where the interval supports a clinical or safety decision, the choice
 // of method and weights belongs to the study's qualified statistician and
 // its applicable guidance, fixed before the data are seen.
-func CommonRiskDifference(ts []Stratum, opt CommonOptions) (Interval, error) {
+func CommonRiskDifference(ctx context.Context, ts []Stratum, opt CommonOptions) (Interval, error) {
 	const fn = "interval.CommonRiskDifference"
 	lv, err := commonSetup(fn, ts, opt)
 	if err != nil {
@@ -368,10 +378,16 @@ func CommonRiskDifference(ts []Stratum, opt CommonOptions) (Interval, error) {
 		iv.Method = "stratified Miettinen-Nurminen score"
 		if opt.Weights == WeightsInverseVariance {
 			iv.Method += " with inverse-variance score weights"
-			ivsDifference(ts, lv, &iv)
-			return iv, nil
 		}
-		stratifiedScore(ts, lv, &iv)
+		z, stopped := cancelable(ctx, fn)
+		if opt.Weights == WeightsInverseVariance {
+			ivsDifference(ts, lv, z, &iv)
+		} else {
+			stratifiedScore(ts, lv, z, &iv)
+		}
+		if err := stopped(); err != nil {
+			return Interval{}, err
+		}
 		return iv, nil
 	}
 	v := (iv.Estimate*m.SatoP + m.SatoQ) / (m.W * m.W)
@@ -401,14 +417,14 @@ func CommonRiskDifference(ts []Stratum, opt CommonOptions) (Interval, error) {
 // interval: the roots of Z(delta) = +-z in (-1, 1), found by Brent's
 // method (Z decreases in delta), or the end of the range where Z never
 // reaches the bound.
-func stratifiedScore(ts []Stratum, lv level, iv *Interval) {
+func stratifiedScore(ts []Stratum, lv level, wrap zWrap, iv *Interval) {
 	var x1, n1, x2, n2 []int64
 	for _, t := range ts {
 		x1, n1, x2, n2 = append(x1, t.K1), append(n1, t.N1), append(x2, t.K2), append(n2, t.N2)
 	}
-	z := func(d float64) float64 {
+	z := wrap(func(d float64) float64 {
 		return score.StratifiedDiffZ(x1, n1, x2, n2, d, score.MiettinenNurminen, score.MantelHaenszelWeights)
-	}
+	})
 	iv.Lower, iv.Upper = -1, 1
 	est := iv.Estimate
 	if lv.wantLower() {
@@ -437,14 +453,14 @@ func stratifiedScore(ts []Stratum, lv level, iv *Interval) {
 // Miettinen-Nurminen interval of a common ratio: the roots of Z(rho) = -+z
 // on ln rho (Z decreases in rho), bracketed by doubling from the estimate;
 // 0 or +Inf where Z never reaches the bound.
-func stratifiedRatioScore(ts []Stratum, lv level, iv *Interval) {
+func stratifiedRatioScore(ts []Stratum, lv level, wrap zWrap, iv *Interval) {
 	var x1, n1, x2, n2 []int64
 	for _, t := range ts {
 		x1, n1, x2, n2 = append(x1, t.K1), append(n1, t.N1), append(x2, t.K2), append(n2, t.N2)
 	}
-	z := func(l float64) float64 {
+	z := wrap(func(l float64) float64 {
 		return score.StratifiedRatioZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen, score.MantelHaenszelWeights)
-	}
+	})
 	le := math.Log(iv.Estimate)
 	iv.Lower, iv.Upper = 0, math.Inf(1)
 	find := func(target float64, dir float64) (float64, bool) {
@@ -479,4 +495,32 @@ func strataCount(n int, one, many string) string {
 		return "1 stratum " + one
 	}
 	return argerr.Format(n) + " strata " + many
+}
+
+// zWrap wraps a score statistic for cancellation (see cancelable).
+type zWrap func(func(float64) float64) func(float64) float64
+
+// cancelable returns a wrapper for the score statistics of the stratified
+// score intervals, each evaluation O(K), that checks ctx before every
+// evaluation and, once it is done, returns NaN at once without evaluating
+// (so the grid and root searches run out their bounded iterations at no
+// cost), and a function giving the error to return then (nil while ctx is
+// not done). A nil ctx never stops.
+func cancelable(ctx context.Context, fn string) (zWrap, func() error) {
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	var err error
+	wrap := func(z func(float64) float64) func(float64) float64 {
+		return func(x float64) float64 {
+			if err != nil {
+				return math.NaN()
+			}
+			if err = argerr.Canceled(fn, ctx); err != nil {
+				return math.NaN()
+			}
+			return z(x)
+		}
+	}
+	return wrap, func() error { return err }
 }

@@ -60,12 +60,11 @@ func ScoreWeightsValues() []ScoreWeights { return scoreWeightNames.Values() }
 // (CommonStratifiedScore): every trial value costs one restricted
 // maximum-likelihood fit per stratum, and the limit search tries about 60
 // values with Mantel-Haenszel weights and about 160 with inverse-variance
-// weights; at the limit a call on the risk difference took about 0.1 s
-// and 0.4 s on the project's shared two-core machine (the ratio's fits
-// are cheaper: 0.03 s and 0.07 s; the odds ratio, searched on a grid with
-// either weighting, about 0.05 to 0.1 s; BenchmarkStratifiedScore gives
-// the figures at 100 strata). The Mantel-Haenszel methods have no such
-// limit.
+// weights, so a call near the limit takes a good part of a second (the
+// README's table gives measured figures); the context passed to
+// CommonOddsRatio, CommonRiskRatio and CommonRiskDifference is checked
+// before every trial value, so a cancellation returns within one value's
+// fits (O(K)). The Mantel-Haenszel methods have no such limit.
 const MaxScoreStrata = 10_000
 
 // scoreTooLarge is the error of a stratified score call over
@@ -214,11 +213,11 @@ func stratumColumns(ts []Stratum) (x1, n1, x2, n2 []int64) {
 // ivsDifference fills the stratified score interval of the risk
 // difference with inverse-variance score weights; iv.Estimate holds the
 // Mantel-Haenszel estimate on entry and the score estimate on return.
-func ivsDifference(ts []Stratum, lv level, iv *Interval) {
+func ivsDifference(ts []Stratum, lv level, wrap zWrap, iv *Interval) {
 	x1, n1, x2, n2 := stratumColumns(ts)
-	z := func(d float64) float64 {
+	z := wrap(func(d float64) float64 {
 		return score.StratifiedDiffZ(x1, n1, x2, n2, d, score.MiettinenNurminen, score.InverseVarianceWeights)
-	}
+	})
 	const e = 1e-15
 	est, lo, hi, gap := weightedScoreLimits(z, -1+e, 1-e, []float64{iv.Estimate, 0}, lv)
 	if lo <= -1+e {
@@ -243,11 +242,11 @@ func ivsDifference(ts []Stratum, lv level, iv *Interval) {
 const ratioSpan = 46.0
 
 // ivsRatio is ivsDifference for the risk ratio, on ln rho.
-func ivsRatio(ts []Stratum, lv level, iv *Interval) {
+func ivsRatio(ts []Stratum, lv level, wrap zWrap, iv *Interval) {
 	x1, n1, x2, n2 := stratumColumns(ts)
-	z := func(l float64) float64 {
+	z := wrap(func(l float64) float64 {
 		return score.StratifiedRatioZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen, score.InverseVarianceWeights)
-	}
+	})
 	le := math.Log(iv.Estimate)
 	est, lo, hi, gap := weightedScoreLimits(z, -ratioSpan, ratioSpan, []float64{le, 0}, lv)
 	iv.Estimate, iv.Lower, iv.Upper = math.Exp(est), math.Exp(lo), math.Exp(hi)
@@ -270,15 +269,15 @@ func ivsRatio(ts []Stratum, lv level, iv *Interval) {
 // with either weighting, on ln psi; iv.Estimate holds the Mantel-Haenszel
 // estimate on entry (0 or +Inf when one product vanishes) and the score
 // estimate on return.
-func scoreOdds(ts []Stratum, lv level, w ScoreWeights, iv *Interval) {
+func scoreOdds(ts []Stratum, lv level, w ScoreWeights, wrap zWrap, iv *Interval) {
 	x1, n1, x2, n2 := stratumColumns(ts)
 	sw := score.MantelHaenszelWeights
 	if w == WeightsInverseVariance {
 		sw = score.InverseVarianceWeights
 	}
-	z := func(l float64) float64 {
+	z := wrap(func(l float64) float64 {
 		return score.StratifiedOddsZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen, sw)
-	}
+	})
 	le := math.Log(iv.Estimate)
 	est, lo, hi, gap := weightedScoreLimits(z, -ratioSpan, ratioSpan, []float64{le, 0}, lv)
 	iv.Estimate, iv.Lower, iv.Upper = math.Exp(est), math.Exp(lo), math.Exp(hi)

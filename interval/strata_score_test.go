@@ -2,6 +2,7 @@ package interval_test
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -76,11 +77,11 @@ func TestStratifiedScoreAgainstMpmath(t *testing.T) {
 		var iv interval.Interval
 		switch r.Str(1) {
 		case "difference":
-			iv, err = interval.CommonRiskDifference(ts, opt)
+			iv, err = interval.CommonRiskDifference(context.Background(), ts, opt)
 		case "odds":
 			iv, err = interval.CommonOddsRatio(context.Background(), ts, opt)
 		default:
-			iv, err = interval.CommonRiskRatio(ts, opt)
+			iv, err = interval.CommonRiskRatio(context.Background(), ts, opt)
 		}
 		if err != nil {
 			t.Fatalf("%s: %v", r.Pos(), err)
@@ -107,7 +108,7 @@ func TestStratifiedScoreWeightsOneStratum(t *testing.T) {
 		mno, _ := interval.OddsRatio(s.K1, s.N1, s.K2, s.N2, interval.OddsOptions{Method: interval.OddsMiettinenNurminen})
 		for _, w := range interval.ScoreWeightsValues() {
 			opt := interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: w}
-			d, err := interval.CommonRiskDifference(ts, opt)
+			d, err := interval.CommonRiskDifference(context.Background(), ts, opt)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -124,7 +125,7 @@ func TestStratifiedScoreWeightsOneStratum(t *testing.T) {
 			if s.K1+s.K2 == 0 || s.K2 == 0 {
 				continue // the ratio's Mantel-Haenszel estimate is 0/0 or infinite
 			}
-			r, err := interval.CommonRiskRatio(ts, opt)
+			r, err := interval.CommonRiskRatio(context.Background(), ts, opt)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -143,17 +144,17 @@ func TestStratifiedScoreWeightsOneStratum(t *testing.T) {
 func TestStratifiedScoreWeightsErrors(t *testing.T) {
 	t.Parallel()
 	ts := []interval.Stratum{{K1: 0, N1: 10, K2: 3, N2: 12}, {K1: 2, N1: 15, K2: 6, N2: 14}, {K1: 0, N1: 8, K2: 0, N2: 9}}
-	if _, err := interval.CommonRiskDifference(ts, interval.CommonOptions{Weights: interval.WeightsInverseVariance}); err == nil || !strings.Contains(err.Error(), "Weights") {
+	if _, err := interval.CommonRiskDifference(context.Background(), ts, interval.CommonOptions{Weights: interval.WeightsInverseVariance}); err == nil || !strings.Contains(err.Error(), "Weights") {
 		t.Errorf("weights without the score method: %v", err)
 	}
-	if _, err := interval.CommonRiskRatio(ts, interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: 7}); err == nil || !strings.Contains(err.Error(), "Weights") {
+	if _, err := interval.CommonRiskRatio(context.Background(), ts, interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: 7}); err == nil || !strings.Contains(err.Error(), "Weights") {
 		t.Errorf("weights 7: %v", err)
 	}
-	iv, err := interval.CommonRiskDifference(ts, interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: interval.WeightsInverseVariance})
+	iv, err := interval.CommonRiskDifference(context.Background(), ts, interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: interval.WeightsInverseVariance})
 	if err != nil || len(iv.Warnings) == 0 || !(iv.Lower < 0 && iv.Upper >= 0) {
 		t.Errorf("all-failure stratum: %+v, %v", iv, err)
 	}
-	mh, _ := interval.CommonRiskDifference(ts, interval.CommonOptions{Method: interval.CommonStratifiedScore})
+	mh, _ := interval.CommonRiskDifference(context.Background(), ts, interval.CommonOptions{Method: interval.CommonStratifiedScore})
 	if len(mh.Warnings) != 0 || !(mh.Upper < 0) {
 		t.Errorf("Mantel-Haenszel weights: %+v", mh)
 	}
@@ -161,7 +162,7 @@ func TestStratifiedScoreWeightsErrors(t *testing.T) {
 	for i := range big {
 		big[i] = interval.Stratum{K1: 1, N1: 2, K2: 1, N2: 2}
 	}
-	if _, err := interval.CommonRiskDifference(big, interval.CommonOptions{Method: interval.CommonStratifiedScore}); err == nil || !strings.Contains(err.Error(), "MaxScoreStrata") {
+	if _, err := interval.CommonRiskDifference(context.Background(), big, interval.CommonOptions{Method: interval.CommonStratifiedScore}); err == nil || !strings.Contains(err.Error(), "MaxScoreStrata") {
 		t.Errorf("too many strata: %v", err)
 	}
 	for _, w := range interval.ScoreWeightsValues() {
@@ -252,11 +253,11 @@ func coverage(t *testing.T, n1, n2 []int64, p2 []float64, effect float64, kind s
 			var err error
 			switch kind {
 			case "ratio":
-				iv, err = interval.CommonRiskRatio(ts, opt)
+				iv, err = interval.CommonRiskRatio(context.Background(), ts, opt)
 			case "odds":
 				iv, err = interval.CommonOddsRatio(context.Background(), ts, opt)
 			default:
-				iv, err = interval.CommonRiskDifference(ts, opt)
+				iv, err = interval.CommonRiskDifference(context.Background(), ts, opt)
 			}
 			if err != nil {
 				t.Fatal(err)
@@ -283,7 +284,7 @@ func coverage(t *testing.T, n1, n2 []int64, p2 []float64, effect float64, kind s
 func ExampleScoreWeights() {
 	clinics := []interval.Stratum{{K1: 9, N1: 12, K2: 4, N2: 10}, {K1: 40, N1: 150, K2: 22, N2: 160}, {K1: 3, N1: 30, K2: 1, N2: 25}, {K1: 70, N1: 90, K2: 55, N2: 95}}
 	for _, w := range interval.ScoreWeightsValues() {
-		iv, _ := interval.CommonRiskDifference(clinics, interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: w})
+		iv, _ := interval.CommonRiskDifference(context.Background(), clinics, interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: w})
 		fmt.Printf("%s weights: %.4f [%.4f, %.4f]\n", w, iv.Estimate, iv.Lower, iv.Upper)
 	}
 	// Output:
@@ -329,9 +330,9 @@ func FuzzStratifiedScore(f *testing.F) {
 				t.Fatalf("%s %+v: estimate outside: %+v", name, ts, iv)
 			}
 		}
-		iv, err := interval.CommonRiskDifference(ts, opt)
+		iv, err := interval.CommonRiskDifference(context.Background(), ts, opt)
 		check("difference", iv, err, -1, 1)
-		iv, err = interval.CommonRiskRatio(ts, opt)
+		iv, err = interval.CommonRiskRatio(context.Background(), ts, opt)
 		check("ratio", iv, err, 0, math.Inf(1))
 		iv, err = interval.CommonOddsRatio(context.Background(), ts, opt)
 		check("odds", iv, err, 0, math.Inf(1))
@@ -353,14 +354,14 @@ func BenchmarkStratifiedScore(b *testing.B) {
 		}
 		b.Run("difference/"+name, func(b *testing.B) {
 			for b.Loop() {
-				if _, err := interval.CommonRiskDifference(ts, opt); err != nil {
+				if _, err := interval.CommonRiskDifference(context.Background(), ts, opt); err != nil {
 					b.Fatal(err)
 				}
 			}
 		})
 		b.Run("ratio/"+name, func(b *testing.B) {
 			for b.Loop() {
-				if _, err := interval.CommonRiskRatio(ts, opt); err != nil {
+				if _, err := interval.CommonRiskRatio(context.Background(), ts, opt); err != nil {
 					b.Fatal(err)
 				}
 			}
@@ -372,5 +373,26 @@ func BenchmarkStratifiedScore(b *testing.B) {
 				}
 			}
 		})
+	}
+}
+
+// TestStratifiedScoreCanceled: the three stratified score intervals stop
+// with the context's error (an already cancelled context: no statistic is
+// evaluated).
+func TestStratifiedScoreCanceled(t *testing.T) {
+	t.Parallel()
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	ts := []interval.Stratum{{K1: 3, N1: 10, K2: 5, N2: 12}, {K1: 7, N1: 20, K2: 4, N2: 18}}
+	for _, w := range interval.ScoreWeightsValues() {
+		o := interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: w}
+		_, e1 := interval.CommonRiskDifference(ctx, ts, o)
+		_, e2 := interval.CommonRiskRatio(ctx, ts, o)
+		_, e3 := interval.CommonOddsRatio(ctx, ts, o)
+		for i, err := range []error{e1, e2, e3} {
+			if !errors.Is(err, context.Canceled) {
+				t.Errorf("weights %v, call %d: error %v, want context.Canceled", w, i, err)
+			}
+		}
 	}
 }

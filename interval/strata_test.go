@@ -27,9 +27,9 @@ func TestCommonOneStratum(t *testing.T) {
 		ts := []interval.Stratum{s}
 		or, _ := interval.CommonOddsRatio(ctx, ts, interval.CommonOptions{})
 		woolf, _ := interval.OddsRatio(s.K1, s.N1, s.K2, s.N2, interval.OddsOptions{Method: interval.OddsWoolf})
-		rr, _ := interval.CommonRiskRatio(ts, interval.CommonOptions{})
+		rr, _ := interval.CommonRiskRatio(context.Background(), ts, interval.CommonOptions{})
 		katz, _ := interval.Ratio(s.K1, s.N1, s.K2, s.N2, interval.RatioOptions{Method: interval.RatioKatz})
-		rd, _ := interval.CommonRiskDifference(ts, interval.CommonOptions{Method: interval.CommonMantelHaenszelGR})
+		rd, _ := interval.CommonRiskDifference(context.Background(), ts, interval.CommonOptions{Method: interval.CommonMantelHaenszelGR})
 		wald, _ := interval.Difference(s.K1, s.N1, s.K2, s.N2, interval.DiffOptions{Method: interval.DiffWald})
 		got := []float64{or.Estimate, or.Lower, or.Upper, rr.Estimate, rr.Lower, rr.Upper, rd.Estimate, rd.Lower, rd.Upper}
 		want := []float64{woolf.Estimate, woolf.Lower, woolf.Upper, katz.Estimate, katz.Lower, katz.Upper, wald.Estimate, wald.Lower, wald.Upper}
@@ -48,8 +48,8 @@ func TestCommonOneStratum(t *testing.T) {
 func TestCommonRiskDifferenceSato(t *testing.T) {
 	t.Parallel()
 	large := []interval.Stratum{{K1: 310, N1: 1000, K2: 270, N2: 1000}, {K1: 150, N1: 600, K2: 140, N2: 620}, {K1: 80, N1: 300, K2: 61, N2: 290}}
-	sato, _ := interval.CommonRiskDifference(large, interval.CommonOptions{})
-	gr, _ := interval.CommonRiskDifference(large, interval.CommonOptions{Method: interval.CommonMantelHaenszelGR})
+	sato, _ := interval.CommonRiskDifference(context.Background(), large, interval.CommonOptions{})
+	gr, _ := interval.CommonRiskDifference(context.Background(), large, interval.CommonOptions{Method: interval.CommonMantelHaenszelGR})
 	if sato.Estimate != gr.Estimate || math.Abs(sato.Width()/gr.Width()-1) > 0.02 {
 		t.Errorf("large strata: Sato %+v, Greenland-Robins %+v", sato, gr)
 	}
@@ -57,7 +57,7 @@ func TestCommonRiskDifferenceSato(t *testing.T) {
 	for i := range 40 {
 		sparse = append(sparse, interval.Stratum{K1: int64(i % 2), N1: 2, K2: int64(i % 3 / 2), N2: 2})
 	}
-	sp, err := interval.CommonRiskDifference(sparse, interval.CommonOptions{})
+	sp, err := interval.CommonRiskDifference(context.Background(), sparse, interval.CommonOptions{})
 	if err != nil || !(sp.Width() > 0) || math.IsNaN(sp.Lower) {
 		t.Errorf("sparse strata: %+v, %v", sp, err)
 	}
@@ -73,7 +73,7 @@ func TestCommonErrorsAndEdges(t *testing.T) {
 	if err != nil || !math.IsNaN(iv.Estimate) || len(iv.Warnings) == 0 || iv.Lower != 0 || !math.IsInf(iv.Upper, 1) {
 		t.Errorf("no successes: %+v, %v", iv, err)
 	}
-	if _, err := interval.CommonRiskRatio(ts, interval.CommonOptions{Method: interval.CommonExactConditional}); err == nil {
+	if _, err := interval.CommonRiskRatio(context.Background(), ts, interval.CommonOptions{Method: interval.CommonExactConditional}); err == nil {
 		t.Error("exact conditional risk ratio: no error")
 	}
 	if _, err := interval.CommonOddsRatio(context.Background(), ts, interval.CommonOptions{Method: interval.CommonMantelHaenszelGR}); err == nil {
@@ -103,7 +103,7 @@ func ExampleCommonOddsRatio() {
 func TestStratifiedScore(t *testing.T) {
 	t.Parallel()
 	one := []interval.Stratum{{K1: 56, N1: 70, K2: 48, N2: 80}}
-	got, err := interval.CommonRiskDifference(one, interval.CommonOptions{Method: interval.CommonStratifiedScore})
+	got, err := interval.CommonRiskDifference(context.Background(), one, interval.CommonOptions{Method: interval.CommonStratifiedScore})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -116,11 +116,11 @@ func TestStratifiedScore(t *testing.T) {
 		t.Errorf("Newcombe Table II (-want +got):\n%s", diff)
 	}
 	sites := []interval.Stratum{{K1: 12, N1: 30, K2: 6, N2: 28}, {K1: 8, N1: 25, K2: 5, N2: 27}, {K1: 15, N1: 40, K2: 9, N2: 38}}
-	iv, err := interval.CommonRiskDifference(sites, interval.CommonOptions{Method: interval.CommonStratifiedScore})
+	iv, err := interval.CommonRiskDifference(context.Background(), sites, interval.CommonOptions{Method: interval.CommonStratifiedScore})
 	if err != nil || !(iv.Lower < iv.Estimate && iv.Estimate < iv.Upper) {
 		t.Fatalf("%+v, %v", iv, err)
 	}
-	mh, _ := interval.CommonRiskDifference(sites, interval.CommonOptions{})
+	mh, _ := interval.CommonRiskDifference(context.Background(), sites, interval.CommonOptions{})
 	if math.Abs(iv.Width()/mh.Width()-1) > 0.15 {
 		t.Errorf("stratified score width %v far from the Mantel-Haenszel Sato width %v", iv.Width(), mh.Width())
 	}
@@ -132,7 +132,7 @@ func TestStratifiedScore(t *testing.T) {
 func TestStratifiedScoreRatio(t *testing.T) {
 	t.Parallel()
 	for _, s := range []interval.Stratum{{K1: 56, N1: 70, K2: 48, N2: 80}, {K1: 3, N1: 20, K2: 9, N2: 21}} {
-		got, err := interval.CommonRiskRatio([]interval.Stratum{s}, interval.CommonOptions{Method: interval.CommonStratifiedScore})
+		got, err := interval.CommonRiskRatio(context.Background(), []interval.Stratum{s}, interval.CommonOptions{Method: interval.CommonStratifiedScore})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -142,7 +142,7 @@ func TestStratifiedScoreRatio(t *testing.T) {
 		}
 	}
 	sites := []interval.Stratum{{K1: 12, N1: 30, K2: 6, N2: 28}, {K1: 8, N1: 25, K2: 5, N2: 27}, {K1: 15, N1: 40, K2: 9, N2: 38}}
-	iv, err := interval.CommonRiskRatio(sites, interval.CommonOptions{Method: interval.CommonStratifiedScore})
+	iv, err := interval.CommonRiskRatio(context.Background(), sites, interval.CommonOptions{Method: interval.CommonStratifiedScore})
 	if err != nil || !(iv.Lower < iv.Estimate && iv.Estimate < iv.Upper) {
 		t.Fatalf("%+v, %v", iv, err)
 	}

@@ -236,15 +236,15 @@ func (st strataSettings) analyse(ctx context.Context, key string, ts []interval.
 	var common interval.Interval
 	switch st.effect {
 	case "ratio":
-		common, err = interval.CommonRiskRatio(ts, co)
+		common, err = interval.CommonRiskRatio(ctx, ts, co)
 	case "difference":
-		common, err = interval.CommonRiskDifference(ts, co)
+		common, err = interval.CommonRiskDifference(ctx, ts, co)
 	case "ratio-score":
 		co.Method, co.Weights = interval.CommonStratifiedScore, st.weights
-		common, err = interval.CommonRiskRatio(ts, co)
+		common, err = interval.CommonRiskRatio(ctx, ts, co)
 	case "difference-score":
 		co.Method, co.Weights = interval.CommonStratifiedScore, st.weights
-		common, err = interval.CommonRiskDifference(ts, co)
+		common, err = interval.CommonRiskDifference(ctx, ts, co)
 	case "odds-score":
 		co.Method, co.Weights = interval.CommonStratifiedScore, st.weights
 		common, err = interval.CommonOddsRatio(ctx, ts, co)

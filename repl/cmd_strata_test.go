@@ -86,7 +86,7 @@ func TestStrataWeightsAndHomogeneity(t *testing.T) {
 	t.Parallel()
 	clinics := []interval.Stratum{{K1: 9, N1: 12, K2: 4, N2: 10}, {K1: 40, N1: 150, K2: 22, N2: 160}, {K1: 3, N1: 30, K2: 1, N2: 25}, {K1: 70, N1: 90, K2: 55, N2: 95}}
 	obj := runJSON(t, "strata 9/12:4/10 40/150:22/160 3/30:1/25 70/90:55/95 effect=difference-score weights=ivs homogeneity=zelen")
-	iv, _ := interval.CommonRiskDifference(clinics, interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: interval.WeightsInverseVariance})
+	iv, _ := interval.CommonRiskDifference(context.Background(), clinics, interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: interval.WeightsInverseVariance})
 	if got := num(t, obj, "common.lower"); got != iv.Lower {
 		t.Errorf("lower limit %v, package %v", got, iv.Lower)
 	}

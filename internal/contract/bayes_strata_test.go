@@ -89,11 +89,11 @@ func bayesStrataEntries() []entry {
 		{name: "CommonOddsRatio", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
 			return interval.CommonOddsRatio(ctx, a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E()), Weights: interval.ScoreWeights(a.E())})
 		}, check: within(0, math.Inf(1))},
-		{name: "CommonRiskRatio", call: func(_ context.Context, a args) (any, error) {
-			return interval.CommonRiskRatio(a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E()), Weights: interval.ScoreWeights(a.E())})
+		{name: "CommonRiskRatio", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
+			return interval.CommonRiskRatio(ctx, a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E()), Weights: interval.ScoreWeights(a.E())})
 		}, check: within(0, math.Inf(1))},
-		{name: "CommonRiskDifference", call: func(_ context.Context, a args) (any, error) {
-			return interval.CommonRiskDifference(a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E()), Weights: interval.ScoreWeights(a.E())})
+		{name: "CommonRiskDifference", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
+			return interval.CommonRiskDifference(ctx, a.strata(), interval.CommonOptions{Level: a.F(), Method: interval.CommonMethod(a.E()), Side: interval.Side(a.E()), Weights: interval.ScoreWeights(a.E())})
 		}, check: within(-1, 1)},
 		{name: "CMH", hasCtx: true, call: func(ctx context.Context, a args) (any, error) {
 			return test.CMH(ctx, a.strata(), test.CMHOptions{Alternative: a.alt(), Exact: a.B(), Rule: a.rule(), MidP: a.B(), Correction: a.B(), Level: a.F()})

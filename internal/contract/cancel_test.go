@@ -47,6 +47,15 @@ func cancelCases() []cancelCase {
 		{"interval.CoverageCurve", "n = MaxCurveN = 1e6, 1e4 points, Blaker", func(ctx context.Context) error {
 			return err3(interval.CoverageCurve(ctx, interval.MaxCurveN, grid, blaker))
 		}, nil},
+		{"interval.CommonRiskDifference", "MaxScoreStrata strata of 40 + 40, inverse-variance score weights", func(ctx context.Context) error {
+			return err(interval.CommonRiskDifference(ctx, manyStrata(interval.MaxScoreStrata), interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: interval.WeightsInverseVariance}))
+		}, nil},
+		{"interval.CommonRiskRatio", "MaxScoreStrata strata of 40 + 40, Mantel-Haenszel weights", func(ctx context.Context) error {
+			return err(interval.CommonRiskRatio(ctx, manyStrata(interval.MaxScoreStrata), interval.CommonOptions{Method: interval.CommonStratifiedScore}))
+		}, nil},
+		{"interval.CommonOddsRatio", "MaxScoreStrata strata of 40 + 40, inverse-variance score weights", func(ctx context.Context) error {
+			return err(interval.CommonOddsRatio(ctx, manyStrata(interval.MaxScoreStrata), interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: interval.WeightsInverseVariance}))
+		}, nil},
 		{"power.TwoSampleN Fisher", "0.1 vs 0.1009, MaxN = 1e6 (first size near 18,000 per group)", func(ctx context.Context) error {
 			return err(power.TwoSampleN(ctx, 0.1, 0.1009, power.TwoSampleOptions{MaxN: 1_000_000}))
 		}, nil},
@@ -219,4 +228,14 @@ func TestCancelLatency(t *testing.T) {
 	}
 	sort.Strings(rows)
 	t.Logf("cancellation latency over five cancellations at different moments of each run:\n| function | size | median | worst |\n|---|---|---|---|\n%s", strings.Join(rows, "\n"))
+}
+
+// manyStrata returns k invented strata of 40 + 40 trials with success
+// counts varying from stratum to stratum.
+func manyStrata(k int) []interval.Stratum {
+	ts := make([]interval.Stratum, k)
+	for i := range ts {
+		ts[i] = interval.Stratum{K1: int64(5 + i%23), N1: 40, K2: int64(3 + i%17), N2: 40}
+	}
+	return ts
 }
