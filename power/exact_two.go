@@ -520,11 +520,13 @@ func TwoSamplePower(ctx context.Context, n1, n2 int64, p1, p2 float64, o TwoSamp
 // checked throughout (inside every enumeration). Cost: one TwoSamplePower
 // per n1 scanned, reusing one region's memory (O(sqrt(n1 + n2)) margins or
 // rows held; O(n1) for Barnard) and, for Barnard, starting the search for
-// each size's critical value at the previous size's: about 0.4 s of CPU
-// for Fisher's test at some 4,000 per group (2,900 sizes scanned) and 4 s
-// at 18,000 (13,500 sizes), a tenth of that for the z test; Barnard's
-// costs some 6 to 9 test.Barnard calls per size scanned (about 40 ms per
-// size at 2,000 per group). Measured times are in the README.
+// each size's critical value at the previous size's. Fisher's test and the
+// z test cost O(sqrt(n1 + n2)) margin updates per size scanned, so a
+// search at some 18,000 per group (13,500 sizes) takes seconds; Barnard's
+// costs some 6 to 9 test.Barnard calls per size scanned, so a Barnard
+// search near 2,000 per group takes about a minute and grows faster than
+// the group size beyond (cancellable).
+// Measured times are in the README.
 func TwoSampleN(ctx context.Context, p1, p2 float64, o TwoSampleOptions) (ExactSize, error) {
 	const fn = "power.TwoSampleN"
 	s, err := o.setup(fn, p1, p2, true)

@@ -56,10 +56,11 @@ const zelenTol = 1e-7
 // the configurations at or below the threshold are two tails, found by
 // binary search and added from cumulative tables. The search is exact but
 // its work grows about geometrically with the strata when the observed
-// configuration lies near the most probable ones (measured on the
-// project's shared two-core machine: 10 strata of 20 to 60 trials in 2 to
-// 6 ms, 12 in 20 to 100 ms, 14 in 0.3 to 0.6 s, 16 in 1.6 to 2.2 s); past
-// MaxZelenWork nodes it stops with ErrTooLarge, and BreslowDay answers.
+// configuration lies near the most probable ones (roughly eightfold for
+// every two strata of 20 to 60 trials added; a dozen such strata take tens
+// of milliseconds, sixteen seconds: BenchmarkZelenExact, and the README's
+// measured figures); past MaxZelenWork nodes it stops with ErrTooLarge,
+// and BreslowDay answers.
 //
 // Result: Statistic "conditional probability", the probability of the
 // observed configuration given the margins and S; Estimate the
