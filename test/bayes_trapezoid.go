@@ -202,7 +202,7 @@ func logCDF(a, b, x, y, lg float64) (l, err, dx, dy float64) {
 
 // bestSums returns, for arms with Beta(a[j], b[j]) posteriors, ln P(arm j
 // best) and a bound on the relative error of P(arm j best) (see the comment
-// above), and the number of nodes evaluated. ctx is checked every 64 nodes.
+// above), and the number of nodes evaluated. ctx is checked every 4 nodes.
 func bestSums(ctx context.Context, fn string, a, b []float64, maxNodes int) (logP, rel []float64, nodes int, err error) {
 	n := 0.0
 	for i := range a {
@@ -349,7 +349,7 @@ func ruleSums(ctx context.Context, fn string, a, b []float64, rule logOddsRule, 
 		if maxNodes > 0 && nodes > maxNodes {
 			return false, errWalkTooLong
 		}
-		if nodes%64 == 0 {
+		if nodes%4 == 0 {
 			if err := argerr.Canceled(fn, ctx); err != nil {
 				return false, err
 			}

@@ -65,7 +65,7 @@ func (r *BestArm) UnmarshalJSON(b []byte) error {
 // Cost: each node evaluates k densities and k incomplete beta functions,
 // plus O(k^2) additions; the nodes number 40 to 60 for arms with all shapes
 // above a few and close together, more for broad posteriors (shapes below
-// 1: thousands near 1e5 trials) or arms far apart; ctx is checked every 64
+// 1: thousands near 1e5 trials) or arms far apart; ctx is checked every 4
 // nodes. Memory O(k). Errors: fewer than two or more than MaxArms arms,
 // mismatched lengths, bad counts (naming k[i] or n[i]), bad priors, total
 // shapes over MaxQuadratureShapes per arm times the arms (ErrTooLarge), a

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"testing"
+	"time"
 
 	"github.com/kofnlab/kofn/interval"
 	"github.com/kofnlab/kofn/test"
@@ -79,5 +80,37 @@ func BenchmarkProbBest4(b *testing.B) {
 	k, n := []int64{12, 30, 25, 20}, []int64{100, 100, 120, 100}
 	for b.Loop() {
 		test.ProbBest(context.Background(), k, n, nil)
+	}
+}
+
+// TestProbBestCancel: a long walk (64 arms at 99,999 trials each, about
+// 0.2 s) returns the context's error soon after cancellation; only a call
+// that finished before the cancellation may succeed.
+func TestProbBestCancel(t *testing.T) {
+	t.Parallel()
+	k, n := make([]int64, test.MaxArms), make([]int64, test.MaxArms)
+	for i := range k {
+		k[i], n[i] = int64(i), 99999
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	type result struct {
+		err error
+		at  time.Time
+	}
+	done := make(chan result, 1)
+	go func() {
+		_, err := test.ProbBest(ctx, k, n, nil)
+		done <- result{err, time.Now()}
+	}()
+	time.Sleep(20 * time.Millisecond)
+	cancelled := time.Now()
+	cancel()
+	select {
+	case r := <-done:
+		if r.err == nil && r.at.After(cancelled) || r.err != nil && !errors.Is(r.err, context.Canceled) {
+			t.Errorf("cancelled ProbBest: %v, %v after the cancellation", r.err, r.at.Sub(cancelled))
+		}
+	case <-time.After(5 * time.Second):
+		t.Fatal("ProbBest did not return after cancellation")
 	}
 }
