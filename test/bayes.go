@@ -24,8 +24,8 @@ const MaxQuadratureShapes = 1e5
 // comparison whose window in the log-odds, from the lower of the two
 // modes ln(a/b) - 6 sqrt(1/a + 1/b) to the higher of ln(a/b) + 6 sqrt(1/a
 // + 1/b), spans more than MaxTrapezoidSteps steps of the rule (the step is
-// about 1.5/sqrt(a1+b1+a2+b2)), and stops with ErrTooLarge should its walk
-// reach twice as many nodes (it takes 0.6 to 1.2 nodes a step in trials).
+// about 1.4/sqrt(a1+b1+a2+b2)), and stops with ErrTooLarge should its walk
+// reach twice as many nodes (it took 0.5 to 1.2 nodes a step in trials).
 // Reaching it takes a posterior shape below about 0.2 beside totals of
 // tens of thousands of trials (every Jeffreys posterior up to
 // MaxQuadratureShapes passes); near the limit a comparison takes about

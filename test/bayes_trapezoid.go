@@ -121,7 +121,7 @@ var errWalkTooLong = errors.New("the trapezoidal rule's walk reached its limit o
 // trapezoidSteps returns the width of the arms' window in the log-odds,
 // from the lowest to the highest mode ln(a/b) -+ 6 sqrt(1/a + 1/b), in
 // steps of the rule for their total shape: a measure of the walk's length
-// (the nodes actually evaluated were between 0.6 and 1.2 times it in
+// (the nodes actually evaluated were between 0.5 and 1.2 times it in
 // trials with shapes from 0.1 to 1e5, jumps bridging the tails).
 func trapezoidSteps(a, b []float64) float64 {
 	lo, hi, n := math.Inf(1), math.Inf(-1), 0.0
