@@ -408,14 +408,18 @@ func (d BetaBinom) LogQuantile(lq float64) int64 {
 	}
 	var k int64
 	var prev, at float64 // the walk's ln P(X <= k-1), ln P(X <= k)
+	var flat bool
 	if lq <= -math.Ln2 {
 		k, prev, at = d.walkUp(lq)
+		flat = walkFlat(lq, prev, at)
 	} else {
+		lu := xmath.Log1mExp(lq)
 		var uAt, uPrev float64
-		k, uAt, uPrev = d.walkDown(xmath.Log1mExp(lq))
+		k, uAt, uPrev = d.walkDown(lu)
 		prev, at = xmath.Log1mExp(math.Min(uPrev, 0)), xmath.Log1mExp(math.Min(uAt, 0))
+		flat = walkFlat(-lu, -uPrev, -uAt)
 	}
-	if walkDecided(lq, prev, at) {
+	if flat || walkDecided(lq, prev, at) {
 		return k
 	}
 	// The walk's running sum and LogCDF round differently; near the
@@ -431,6 +435,17 @@ func (d BetaBinom) LogQuantile(lq float64) int64 {
 func walkDecided(lq, below, at float64) bool {
 	tol := 1e-11 * math.Max(1, math.Abs(lq))
 	return below < lq-tol && at >= lq+tol
+}
+
+// walkFlat reports whether the step of a quantile walk at its answer,
+// from below to at (the logarithms of the tail the walk summed, which is
+// the smaller one, so the step is measured where it shows most), is within
+// twice walkDecided's margin of the walk's target lq: P(X = k) is then
+// lost in rounding against both tails, as across the flat middle of shapes
+// far below 1, so k, k-1 and their neighbours tie at the target at the
+// accuracy of any tail sum, and the walk's k stands without a check.
+func walkFlat(lq, below, at float64) bool {
+	return at-below <= 2e-11*math.Max(1, math.Abs(lq))
 }
 
 // settleCalls bounds the tail evaluations of settle: each can sum up to N
@@ -536,16 +551,20 @@ func (d BetaBinom) LogUpperQuantile(lq float64) int64 {
 	}
 	var k int64
 	var uPrev, uAt float64 // the walk's ln P(X > k-1), ln P(X > k)
+	var flat bool
 	if lq <= -math.Ln2 {
 		k, uAt, uPrev = d.walkDown(lq)
+		flat = walkFlat(-lq, -uPrev, -uAt)
 	} else {
 		// P(X > k) <= q  <=>  P(X <= k) >= 1 - q.
+		ll := xmath.Log1mExp(lq)
 		var prev, at float64
-		k, prev, at = d.walkUp(xmath.Log1mExp(lq))
+		k, prev, at = d.walkUp(ll)
 		uPrev, uAt = xmath.Log1mExp(math.Min(prev, 0)), xmath.Log1mExp(math.Min(at, 0))
+		flat = walkFlat(ll, prev, at)
 	}
 	// The upper tail decreases: negate to use the same margin test.
-	if walkDecided(-lq, -uPrev, -uAt) {
+	if flat || walkDecided(-lq, -uPrev, -uAt) {
 		return k
 	}
 	// Settle the boundary on LogSurvival itself (see LogQuantile).
