@@ -241,14 +241,13 @@ func ivsDifference(ts []Stratum, lv level, wrap zWrap, iv *Interval) {
 // reported as 0 or +Inf.
 const ratioSpan = 46.0
 
-// ivsRatio is ivsDifference for the risk ratio, on ln rho.
-func ivsRatio(ts []Stratum, lv level, wrap zWrap, iv *Interval) {
-	x1, n1, x2, n2 := stratumColumns(ts)
-	z := wrap(func(l float64) float64 {
-		return score.StratifiedRatioZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen, score.InverseVarianceWeights)
-	})
-	le := math.Log(iv.Estimate)
-	est, lo, hi, gap := weightedScoreLimits(z, -ratioSpan, ratioSpan, []float64{le, 0}, lv)
+// logScaleLimits runs weightedScoreLimits for a ratio on its logarithm
+// over [-ratioSpan, ratioSpan], starting from iv.Estimate (the
+// Mantel-Haenszel estimate), and fills iv's estimate and limits, a limit
+// at the end of the span reported as 0 or +Inf; it returns the estimate
+// on the log scale and the gap flag.
+func logScaleLimits(z func(float64) float64, lv level, iv *Interval) (est float64, gap bool) {
+	est, lo, hi, gap := weightedScoreLimits(z, -ratioSpan, ratioSpan, []float64{math.Log(iv.Estimate), 0}, lv)
 	iv.Estimate, iv.Lower, iv.Upper = math.Exp(est), math.Exp(lo), math.Exp(hi)
 	if lo <= -ratioSpan {
 		iv.Lower = 0
@@ -256,6 +255,16 @@ func ivsRatio(ts []Stratum, lv level, wrap zWrap, iv *Interval) {
 	if hi >= ratioSpan {
 		iv.Upper = math.Inf(1)
 	}
+	return est, gap
+}
+
+// ivsRatio is ivsDifference for the risk ratio, on ln rho.
+func ivsRatio(ts []Stratum, lv level, wrap zWrap, iv *Interval) {
+	x1, n1, x2, n2 := stratumColumns(ts)
+	z := wrap(func(l float64) float64 {
+		return score.StratifiedRatioZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen, score.InverseVarianceWeights)
+	})
+	_, gap := logScaleLimits(z, lv, iv)
 	if u := uniformStrata(ts, true); u > 0 {
 		iv.Warnings = append(iv.Warnings, strataCount(u, "has", "have")+" only successes in both groups: "+
 			"the inverse-variance weights grow without bound near a ratio of 1, so 1 is always inside the interval; prefer the Mantel-Haenszel weights")
@@ -278,15 +287,7 @@ func scoreOdds(ts []Stratum, lv level, w ScoreWeights, wrap zWrap, iv *Interval)
 	z := wrap(func(l float64) float64 {
 		return score.StratifiedOddsZ(x1, n1, x2, n2, math.Exp(l), score.MiettinenNurminen, sw)
 	})
-	le := math.Log(iv.Estimate)
-	est, lo, hi, gap := weightedScoreLimits(z, -ratioSpan, ratioSpan, []float64{le, 0}, lv)
-	iv.Estimate, iv.Lower, iv.Upper = math.Exp(est), math.Exp(lo), math.Exp(hi)
-	if lo <= -ratioSpan {
-		iv.Lower = 0
-	}
-	if hi >= ratioSpan {
-		iv.Upper = math.Inf(1)
-	}
+	est, gap := logScaleLimits(z, lv, iv)
 	if est <= -ratioSpan {
 		iv.Estimate = 0
 	}

@@ -91,19 +91,7 @@ func runEach(c *call) error {
 	if verb == nil || verb.Row == nil {
 		return inputErr(words[1], "cannot run on rows"+unknownHint(verbWord, c.S.cmds.rowVerbs()))
 	}
-	var rest []string
-	to, adjustWord := "", ""
-	for _, w := range words[2:] {
-		if v, ok := strings.CutPrefix(w, "to="); ok {
-			to = v
-			continue
-		}
-		if v, ok := strings.CutPrefix(w, "adjust="); ok {
-			adjustWord = strings.ToLower(v)
-			continue
-		}
-		rest = append(rest, w)
-	}
+	to, adjustWord, rest := splitEachOptions(words[2:])
 	args, err := parseArgs(verb, rest)
 	if err != nil {
 		return err
@@ -691,4 +679,21 @@ func (c *command) outColumns() []string {
 		return c.Grouped.Out
 	}
 	return nil
+}
+
+// splitEachOptions takes each's own options out of the words after its
+// verb: to=FILE and adjust=METHOD (lower-cased); the rest are the verb's.
+func splitEachOptions(words []string) (to, adjustWord string, rest []string) {
+	for _, w := range words {
+		if v, ok := strings.CutPrefix(w, "to="); ok {
+			to = v
+			continue
+		}
+		if v, ok := strings.CutPrefix(w, "adjust="); ok {
+			adjustWord = strings.ToLower(v)
+			continue
+		}
+		rest = append(rest, w)
+	}
+	return to, adjustWord, rest
 }

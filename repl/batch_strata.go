@@ -51,19 +51,7 @@ type strataGroup struct {
 // read (a broken record, or too few fields to reach the key) stops the
 // run before anything is computed, since any group could lack a stratum.
 func runEachGroups(c *call, verb *command, file string, words []string) error {
-	var rest []string
-	to, adjustWord := "", ""
-	for _, w := range words {
-		if v, ok := strings.CutPrefix(w, "to="); ok {
-			to = v
-			continue
-		}
-		if v, ok := strings.CutPrefix(w, "adjust="); ok {
-			adjustWord = strings.ToLower(v)
-			continue
-		}
-		rest = append(rest, w)
-	}
+	to, adjustWord, rest := splitEachOptions(words)
 	args, err := parseArgs(verb, rest)
 	if err != nil {
 		return err
