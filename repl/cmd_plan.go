@@ -53,7 +53,7 @@ var planOptions = []opt{
 	{Name: "p21", Doc: "paired: probability a pair is no then yes (the n21 cell)"},
 	{Name: "alpha", Doc: "significance level (default: 1 - the session level)"},
 	optAlt("two-sided (default); one sample: lower or higher than p; two groups: p1 lower or higher than p2; paired: p12 lower or higher than p21"),
-	{Name: "method", Doc: "one sample: exact (default) or normal; two groups: normal (default), fisher, barnard or z (exact power by enumeration); paired: exact (default) or asymptotic", Values: planMethods},
+	{Name: "method", Doc: "one sample: exact (default) or normal; two groups: normal (default), fisher, barnard or z-pooled (exact power by enumeration); paired: exact (default) or asymptotic", Values: planMethods},
 	optRule,
 	{Name: "midp", Doc: "one sample and paired, method=exact: on plans for the mid-p test; off (default)", Values: onOffWords},
 	{Name: "variance", Doc: "two groups: null variance of the normal formula", Values: twoSampleWords.variance},
@@ -71,7 +71,7 @@ const planSources = "Exact binomial power by enumeration of the rejection region
 const planMethodsHelp = "One sample: exact (default), two-sided by rule=point-probability (default), central " +
 	"or blaker, with midp=on for the mid-p test; or normal. Two groups: normal (default), Fleiss' formula with " +
 	"pooled or unpooled null variance and the Casagrande-Pike-Smith correction; or the exact power of " +
-	"fisher, barnard or z (pooled z test) by enumerating both binomials, limited to n1 + n2 <= " +
+	"fisher, barnard or z-pooled (the pooled z test) by enumerating both binomials, limited to n1 + n2 <= " +
 	"2000000. Paired: McNemar exact (default; midp=on for mid-p), or asymptotic (Connor's formula)."
 
 func detectCommand() *command {
@@ -114,7 +114,7 @@ func sizeCommand() *command {
 				"n keeps it (they differ because exact power is a sawtooth in n), beside the normal-approximation " +
 				"n, with a plot of the sawtooth. Two groups: Fleiss' formula with the Casagrande-Pike-Smith " +
 				"continuity correction by default, also for non-inferiority and equivalence margins, or an exact " +
-				"search on the enumerated power of fisher, barnard or z. Paired: an exact search on McNemar's " +
+				"search on the enumerated power of fisher, barnard or z-pooled. Paired: an exact search on McNemar's " +
 				"test (default), or Connor's formula with method=asymptotic.",
 			Methods:     planMethodsHelp,
 			Assumptions: "Independent trials; the stated truth is the smallest effect worth detecting.",

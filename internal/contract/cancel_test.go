@@ -56,11 +56,11 @@ func cancelCases() []cancelCase {
 		{"interval.CommonOddsRatio", "MaxScoreStrata strata of 40 + 40, inverse-variance score weights", func(ctx context.Context) error {
 			return err(interval.CommonOddsRatio(ctx, manyStrata(interval.MaxScoreStrata), interval.CommonOptions{Method: interval.CommonStratifiedScore, Weights: interval.WeightsInverseVariance}))
 		}, nil},
-		{"power.TwoSampleN Fisher", "0.1 vs 0.1009, MaxN = 1e6 (first size near 18,000 per group)", func(ctx context.Context) error {
-			return err(power.TwoSampleN(ctx, 0.1, 0.1009, power.TwoSampleOptions{MaxN: 1_000_000}))
+		{"power.TwoSampleN Fisher", "0.1 vs 0.109, MaxN = 1e6 (first size near 18,000 per group)", func(ctx context.Context) error {
+			return err(power.TwoSampleN(ctx, 0.1, 0.109, power.TwoSampleOptions{MaxN: 1_000_000}))
 		}, nil},
-		{"power.TwoSampleN z", "0.1 vs 0.1009, MaxN = 1e6", func(ctx context.Context) error {
-			return err(power.TwoSampleN(ctx, 0.1, 0.1009, power.TwoSampleOptions{MaxN: 1_000_000, Test: power.ZPooledTest}))
+		{"power.TwoSampleN z", "0.1 vs 0.109, MaxN = 1e6", func(ctx context.Context) error {
+			return err(power.TwoSampleN(ctx, 0.1, 0.109, power.TwoSampleOptions{MaxN: 1_000_000, Test: power.ZPooledTest}))
 		}, nil},
 		{"power.TwoSampleN Barnard", "0.1 vs 0.12, MaxN = 1e6 (first size near 4,000 per group)", func(ctx context.Context) error {
 			return err(power.TwoSampleN(ctx, 0.1, 0.12, power.TwoSampleOptions{MaxN: 1_000_000, Test: power.BarnardExactTest}))
